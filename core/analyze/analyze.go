@@ -1,0 +1,314 @@
+// Package analyze runs Sagitta's one pipeline for one photo:
+//
+//	bytes + Settings -> decode -> find -> measure -> field -> Image
+//
+// The command-line tool and the WebAssembly glue both call Run and nothing
+// else of the pipeline, so the browser and the native build give the same
+// numbers.
+package analyze
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"runtime"
+	"sort"
+	"sync"
+
+	"sagitta/core/curve"
+	"sagitta/core/decode"
+	"sagitta/core/edge"
+	"sagitta/core/field"
+	"sagitta/core/find"
+)
+
+// Settings are the user's choices for one analysis. The zero value is valid
+// except that a pixel pitch must come from somewhere: PitchUM, SensorMM or
+// the photo's Exif.
+type Settings struct {
+	PitchUM   float64     `json:"pitch_um,omitempty"`  // pixel pitch, micrometres
+	SensorMM  [2]float64  `json:"sensor_mm,omitempty"` // sensor width and height, mm (pitch = width / image width)
+	CenterPx  *[2]float64 `json:"center_px,omitempty"` // optical centre, px; nil = image centre
+	Tone      string      `json:"tone,omitempty"`      // "", "srgb", "linear", "gamma:G"
+	Method    string      `json:"method,omitempty"`    // "", "refined", "iso"
+	FreqsLPMM []float64   `json:"freqs_lp_mm,omitempty"`
+	MaxPixels int         `json:"max_pixels,omitempty"` // refuse larger photos; 0 = the decoder's default
+	Workers   int         `json:"-"`                    // parallel measurements; 0 = GOMAXPROCS
+}
+
+// DefaultFreqsLPMM are the field frequencies used when none are given:
+// 10 and 30 lp/mm, the usual pair for full-frame lenses (common practice).
+var DefaultFreqsLPMM = []float64{10, 30}
+
+// Stages named in progress reports, in order.
+const (
+	StageReading   = "reading"
+	StageFinding   = "finding targets"
+	StageMeasuring = "measuring"
+	StageSumming   = "summarising"
+)
+
+// Progress receives the current stage and the fraction (0..1) of the whole
+// analysis done. It is called from the goroutine that called Run.
+type Progress func(stage string, fraction float64)
+
+// Run analyses one photo. It never panics: an internal failure comes back as
+// an error. It stops early with ctx.Err() when ctx is cancelled.
+func Run(ctx context.Context, name string, data []byte, s Settings, progress Progress) (img *Image, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			img, err = nil, fmt.Errorf("analyze: internal error on %s: %v", name, r)
+		}
+	}()
+	if progress == nil {
+		progress = func(string, float64) {}
+	}
+	method, err := edge.ParseMethod(s.Method)
+	if err != nil {
+		return nil, err
+	}
+	tone, err := decode.ParseTone(s.Tone)
+	if err != nil {
+		return nil, err
+	}
+	freqs := s.FreqsLPMM
+	if len(freqs) == 0 {
+		freqs = DefaultFreqsLPMM
+	}
+	for _, f := range freqs {
+		if !(f > 0) || f > 1000 {
+			return nil, fmt.Errorf("analyze: field frequency %g lp/mm is outside (0, 1000]", f)
+		}
+	}
+
+	progress(StageReading, 0)
+	dec, err := decode.Decode(data, decode.Options{Tone: tone, MaxPixels: s.MaxPixels})
+	if err != nil {
+		return nil, err
+	}
+	img = &Image{
+		File: name, Width: dec.Width, Height: dec.Height,
+		Format: dec.Format, BitDepth: dec.BitDepth,
+		Tone: dec.Tone.String(), ToneSource: dec.ToneSource,
+		Method: method.String(), FreqsLPMM: freqs, Exif: dec.Exif,
+		Measurements: []Measurement{}, Rejected: []Rejected{},
+		Warnings: append([]string{}, dec.Warnings...),
+	}
+	img.PitchUM, img.PitchSource, err = pitch(s, dec)
+	if err != nil {
+		return nil, err
+	}
+	geo := field.NewGeometry(dec.Width, dec.Height, img.PitchUM)
+	if s.CenterPx != nil {
+		geo.CenterX, geo.CenterY = s.CenterPx[0], s.CenterPx[1]
+	}
+	if err := geo.Validate(); err != nil {
+		return nil, err
+	}
+	img.CenterPx = [2]float64{geo.CenterX, geo.CenterY}
+	img.CornerMM = geo.CornerMM()
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+
+	progress(StageFinding, 0.15)
+	cands, rejects := find.Edges(dec.Lum, find.Options{})
+	for _, r := range rejects {
+		img.Rejected = append(img.Rejected, Rejected{r.X0, r.Y0, r.X1, r.Y1, r.Reason})
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+
+	progress(StageMeasuring, 0.3)
+	results := measureAll(ctx, dec, cands, method, s.Workers, func(done int) {
+		progress(StageMeasuring, 0.3+0.6*float64(done)/float64(max(len(cands), 1)))
+	})
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+
+	progress(StageSumming, 0.9)
+	for i, r := range results {
+		c := cands[i]
+		if r.err != nil {
+			img.Rejected = append(img.Rejected, rejectOf(c.Region, "no clean edge: "+plainError(r.err)))
+			continue
+		}
+		if reason := unusable(r.m); reason != "" {
+			img.Rejected = append(img.Rejected, rejectOf(c.Region, reason))
+			continue
+		}
+		img.Measurements = append(img.Measurements, record(r.m, c.Region, geo, freqs))
+	}
+	sort.SliceStable(img.Measurements, func(a, b int) bool {
+		return img.Measurements[a].HeightMM < img.Measurements[b].HeightMM
+	})
+	for i := range img.Measurements {
+		img.Measurements[i].ID = i + 1
+	}
+	if len(img.Measurements) == 0 {
+		img.Warnings = append(img.Warnings, "no measurable edge was found in this photo")
+	}
+	progress(StageSumming, 1)
+	return img, nil
+}
+
+// pitch chooses the pixel pitch: the user's value, else the sensor width
+// over the image width, else the Exif focal-plane resolution.
+func pitch(s Settings, dec *decode.Image) (float64, string, error) {
+	switch {
+	case s.PitchUM > 0:
+		return s.PitchUM, "user", nil
+	case s.SensorMM[0] > 0:
+		return s.SensorMM[0] * 1000 / float64(dec.Width), "sensor size", nil
+	}
+	if p, ok := dec.Exif.PixelPitchUM(); ok && p > 0.3 && p < 50 {
+		return p, "Exif focal-plane resolution", nil
+	}
+	return 0, "", errors.New("analyze: the pixel pitch is unknown: give it in um, or the sensor size in mm")
+}
+
+type outcome struct {
+	m   *edge.Measurement
+	err error
+}
+
+// measureAll measures every candidate, in parallel over workers goroutines
+// (in WebAssembly GOMAXPROCS is 1 and this runs sequentially).
+func measureAll(ctx context.Context, dec *decode.Image, cands []find.Candidate, method edge.Method, workers int, done func(int)) []outcome {
+	out := make([]outcome, len(cands))
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = min(workers, max(len(cands), 1))
+	next := make(chan int)
+	var wg sync.WaitGroup
+	var mu sync.Mutex
+	finished := 0
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				out[i] = measureOne(dec, cands[i].Region, method)
+				mu.Lock()
+				finished++
+				mu.Unlock()
+			}
+		}()
+	}
+	for i := range cands {
+		if ctx.Err() != nil {
+			break
+		}
+		next <- i
+		if workers == 1 || i%8 == 7 {
+			mu.Lock()
+			n := finished
+			mu.Unlock()
+			done(n)
+		}
+	}
+	close(next)
+	wg.Wait()
+	return out
+}
+
+// measureOne measures one region, turning a panic into an error so one bad
+// target cannot take the photo's analysis down.
+func measureOne(dec *decode.Image, r edge.Region, method edge.Method) (o outcome) {
+	defer func() {
+		if p := recover(); p != nil {
+			o = outcome{err: fmt.Errorf("internal error: %v", p)}
+		}
+	}()
+	m, err := edge.Measure(dec.Lum, r, edge.Options{Method: method})
+	return outcome{m, err}
+}
+
+// Measurements with these flags are set aside rather than reported: their
+// numbers would mislead (common practice for the slanted-edge method).
+func unusable(m *edge.Measurement) string {
+	for _, f := range m.Flags {
+		switch f {
+		case edge.FlagClippedDark, edge.FlagClippedLight:
+			return "clipped: the " + map[edge.Flag]string{edge.FlagClippedDark: "dark", edge.FlagClippedLight: "light"}[f] + " side reaches the limit of the file's values"
+		}
+	}
+	if m.BowPx > maxBowPx {
+		return fmt.Sprintf("curved: bows by %.1f px", m.BowPx)
+	}
+	return ""
+}
+
+// maxBowPx is the bow beyond which an edge is not taken as straight.
+const maxBowPx = 2.0
+
+func rejectOf(r edge.Region, reason string) Rejected {
+	tx, ty := math.Cos(r.AngleDeg*math.Pi/180), math.Sin(r.AngleDeg*math.Pi/180)
+	return Rejected{r.X - r.HalfLen*tx, r.Y - r.HalfLen*ty, r.X + r.HalfLen*tx, r.Y + r.HalfLen*ty, reason}
+}
+
+func plainError(err error) string {
+	msg := err.Error()
+	const p = "edge: "
+	if len(msg) > len(p) && msg[:len(p)] == p {
+		return msg[len(p):]
+	}
+	return msg
+}
+
+// record turns an edge measurement into the contract's record.
+func record(m *edge.Measurement, r edge.Region, geo field.Geometry, freqs []float64) Measurement {
+	o, ang := geo.Classify(m.X, m.Y, m.NormalDeg)
+	c := m.Curve
+	rec := Measurement{
+		Kind: "edge", XPx: m.X, YPx: m.Y,
+		HeightMM:       geo.HeightMM(m.X, m.Y),
+		Orientation:    o,
+		RadiusAngleDeg: Number(ang),
+		NormalDeg:      m.NormalDeg,
+		MTF50:          Number(c.MTF50()),
+		MTF50P:         Number(c.MTF50P()),
+		MTFNyquist:     Number(c.AtNyquist()),
+		Freq:           c.Freq,
+		MTF:            c.Value,
+		Warnings:       []string{},
+		Flags:          []string{},
+		Region:         r.Corners(),
+		LengthPx:       m.LengthPx,
+		SlantDeg:       m.SlantDeg,
+		SNR:            Number(m.SNR),
+		Overshoot:      m.Overshoot,
+		ESF:            m.ESF,
+		LSF:            m.LSF,
+	}
+	rec.MTF50LPMM = Number(curve.LPPerMM(float64(rec.MTF50), geo.PitchUM))
+	if m.Dark > 0 {
+		rec.Contrast = Number(m.Light / m.Dark)
+	} else {
+		rec.Contrast = Number(math.Inf(1))
+	}
+	for _, f := range freqs {
+		rec.MTFAtFreqs = append(rec.MTFAtFreqs, Number(c.At(curve.CyPerPx(f, geo.PitchUM))))
+	}
+	for _, f := range m.Flags {
+		rec.Warnings = append(rec.Warnings, flagText[f])
+		rec.Flags = append(rec.Flags, string(f))
+	}
+	return rec
+}
+
+// flagText words each quality flag for people.
+var flagText = map[edge.Flag]string{
+	edge.FlagClippedDark:  "the dark side is clipped",
+	edge.FlagClippedLight: "the light side is clipped",
+	edge.FlagLowContrast:  "low contrast",
+	edge.FlagShortEdge:    "short edge",
+	edge.FlagCurved:       "the edge is curved",
+	edge.FlagCritical:     "the slant samples the edge coarsely (near a critical angle)",
+	edge.FlagNoisy:        "noisy",
+	edge.FlagSharpened:    "the edge overshoots: in-camera sharpening inflates this MTF",
+}

@@ -1,0 +1,111 @@
+package analyze
+
+import (
+	"encoding/json"
+	"math"
+	"strconv"
+
+	"sagitta/core/edge"
+	"sagitta/core/exif"
+	"sagitta/core/field"
+)
+
+// Result is what one call of the command-line tool prints: one entry per
+// photo. Its JSON form is the contract in DESIGN.md; fields may be added,
+// the documented ones stay.
+type Result struct {
+	Images []*Image `json:"images"`
+}
+
+// Image is the analysis of one photo.
+type Image struct {
+	File        string     `json:"file"`
+	Width       int        `json:"width"`
+	Height      int        `json:"height"`
+	PitchUM     float64    `json:"pitch_um"`
+	PitchSource string     `json:"pitch_source"` // "user", "sensor size" or "Exif focal-plane resolution"
+	CenterPx    [2]float64 `json:"center_px"`
+	CornerMM    float64    `json:"corner_mm"` // largest image height in the frame, mm
+	Format      string     `json:"format"`
+	BitDepth    int        `json:"bit_depth"`
+	Tone        string     `json:"tone"`
+	ToneSource  string     `json:"tone_source"`
+	Method      string     `json:"method"`
+	FreqsLPMM   []float64  `json:"freqs_lp_mm"` // the field frequencies used for summaries
+	Exif        exif.Tags  `json:"exif"`
+
+	Measurements []Measurement `json:"measurements"`
+	Rejected     []Rejected    `json:"rejected"`
+	Warnings     []string      `json:"warnings"`
+}
+
+// Measurement is one measured target (one edge, or one orientation of a
+// star) in the contract's shape.
+type Measurement struct {
+	Kind        string            `json:"kind"` // "edge" or "star"
+	ID          int               `json:"id"`
+	XPx         float64           `json:"x_px"`
+	YPx         float64           `json:"y_px"`
+	HeightMM    float64           `json:"height_mm"`
+	Orientation field.Orientation `json:"orientation"`
+	// RadiusAngleDeg is the angle between the direction of measurement and
+	// the radius (0 = tangential, 90 = sagittal).
+	RadiusAngleDeg Number    `json:"radius_angle_deg"`
+	NormalDeg      float64   `json:"normal_deg"`
+	MTF50          Number    `json:"mtf50_cy_px"`
+	MTF50P         Number    `json:"mtf50p_cy_px"`
+	MTFNyquist     Number    `json:"mtf_nyquist"`
+	MTF50LPMM      Number    `json:"mtf50_lp_mm"`
+	MTFAtFreqs     []Number  `json:"mtf_at_freqs"` // at Image.FreqsLPMM
+	Freq           []float64 `json:"freq_cy_px"`
+	MTF            []float64 `json:"mtf"`
+	Warnings       []string  `json:"warnings"`
+	Flags          []string  `json:"flags"` // machine-readable quality flags behind the warnings
+
+	Region    [4][2]float64 `json:"region_px"` // corners of the measured area
+	LengthPx  float64       `json:"length_px"`
+	SlantDeg  float64       `json:"slant_deg"`
+	SNR       Number        `json:"snr"`
+	Contrast  Number        `json:"contrast"` // light/dark ratio, linear
+	Overshoot float64       `json:"overshoot"`
+	ESF       edge.Profile  `json:"esf"`
+	LSF       edge.Profile  `json:"lsf"`
+}
+
+// Rejected is a candidate that was not measured or whose measurement was
+// set aside, with the reason.
+type Rejected struct {
+	X0     float64 `json:"x0_px"`
+	Y0     float64 `json:"y0_px"`
+	X1     float64 `json:"x1_px"`
+	Y1     float64 `json:"y1_px"`
+	Reason string  `json:"reason"`
+}
+
+// Number is a float64 that is written to JSON as null when it is not a
+// finite number (an MTF50 beyond the measured range, an infinite SNR of a
+// noise-free simulation).
+type Number float64
+
+// MarshalJSON writes the number, or null for NaN and infinities.
+func (n Number) MarshalJSON() ([]byte, error) {
+	f := float64(n)
+	if math.IsNaN(f) || math.IsInf(f, 0) {
+		return []byte("null"), nil
+	}
+	return strconv.AppendFloat(nil, f, 'g', -1, 64), nil
+}
+
+// UnmarshalJSON reads a number or null (as NaN).
+func (n *Number) UnmarshalJSON(b []byte) error {
+	if string(b) == "null" {
+		*n = Number(math.NaN())
+		return nil
+	}
+	var f float64
+	if err := json.Unmarshal(b, &f); err != nil {
+		return err
+	}
+	*n = Number(f)
+	return nil
+}

@@ -1,0 +1,73 @@
+// Command sagitta measures lens sharpness (MTF) from photos of slanted edges
+// and test charts, natively and in batch. It runs the same pipeline as the
+// web page.
+//
+//	sagitta analyze --pitch-um 6 [--json|--csv] photo.jpg ...
+//
+// Run "sagitta help" for every command and option. Errors are printed as one
+// line on stderr and the exit status is non-zero.
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"os"
+)
+
+// errUsage marks errors caused by the command line itself (exit status 2).
+var errUsage = errors.New("usage")
+
+const usage = `sagitta: measure lens sharpness (MTF) from photos of edges and charts
+
+commands:
+  analyze   measure every usable edge in photos and summarise them over the frame
+  help      show this text
+
+run "sagitta COMMAND -h" for the options of a command.
+`
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+}
+
+// run executes a command line and returns the exit status. Any error is
+// printed as one line on stderr.
+func run(args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		fmt.Fprint(stderr, usage)
+		return 2
+	}
+	var err error
+	switch args[0] {
+	case "analyze":
+		err = cmdAnalyze(args[1:], stdout)
+	case "help", "-h", "--help":
+		fmt.Fprint(stdout, usage)
+		return 0
+	default:
+		err = fmt.Errorf("%w: unknown command %q (try: sagitta help)", errUsage, args[0])
+	}
+	if err == nil {
+		return 0
+	}
+	if errors.Is(err, errHelp) {
+		return 0
+	}
+	fmt.Fprintln(stderr, "sagitta: "+oneLine(err.Error()))
+	if errors.Is(err, errUsage) {
+		return 2
+	}
+	return 1
+}
+
+// oneLine keeps an error message on one line.
+func oneLine(s string) string {
+	b := []byte(s)
+	for i, c := range b {
+		if c == '\n' || c == '\r' {
+			b[i] = ' '
+		}
+	}
+	return string(b)
+}

@@ -1,0 +1,275 @@
+package edge
+
+import (
+	"math"
+	"sort"
+)
+
+// lineFit is the fitted edge in a region's frame: the edge passes through
+// w = Rho + Alpha*u + Kappa*u*u (u, w in px, region frame), the image steps
+// from Dark to Dark+Step as w increases across it (Step may be negative
+// before orient is called), and Width is the standard deviation (px) of the
+// error-function edge model the fit used.
+type lineFit struct {
+	Rho, Alpha, Kappa float64
+	Dark, Step, Width float64
+	RMS               float64 // rms residual of the model fit (linear units)
+}
+
+// dist returns the signed distance (px) of (u, w) from the fitted edge,
+// measured along the local normal, positive on the side the step rises to.
+func (f *lineFit) dist(u, w float64) float64 {
+	slope := f.Alpha + 2*f.Kappa*u
+	return (w - f.Rho - f.Alpha*u - f.Kappa*u*u) / math.Sqrt(1+slope*slope)
+}
+
+// fitEdge locates the edge in the samples. It starts from the area-based
+// edge position of 2 px strips along the edge (exact for any symmetric edge
+// profile, and insensitive to noise because it integrates rather than
+// differentiates), then refines all parameters at once by Levenberg-Marquardt
+// on the model v = Dark + Step*Phi(d/Width), where d is the distance to the
+// quadratic edge curve. The model's shape only serves to locate the edge: an
+// asymmetric real profile biases Rho (a constant shift, harmless), not the
+// angle or the curvature, because the profile is the same all along the edge.
+func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
+	n := len(s.v)
+	if n < 32 {
+		return lineFit{}, false
+	}
+	lo, hi := percentile(s.v, 0.05), percentile(s.v, 0.95)
+	if !(hi > lo) {
+		return lineFit{}, false
+	}
+	// Which side is light: compare the mean of the two halves.
+	var sNeg, sPos float64
+	var cNeg, cPos int
+	for i, w := range s.w {
+		if w < 0 {
+			sNeg += s.v[i]
+			cNeg++
+		} else {
+			sPos += s.v[i]
+			cPos++
+		}
+	}
+	if cNeg == 0 || cPos == 0 {
+		return lineFit{}, false
+	}
+	rising := sPos/float64(cPos) > sNeg/float64(cNeg)
+
+	// Strip estimates of the edge position.
+	const stripPx = 2.0
+	nStrip := int(2*halfLen/stripPx) + 1
+	type pt struct{ w, v float64 }
+	strips := make([][]pt, nStrip)
+	for i := range s.v {
+		k := int((s.u[i] + halfLen) / stripPx)
+		if k >= 0 && k < nStrip {
+			strips[k] = append(strips[k], pt{s.w[i], s.v[i]})
+		}
+	}
+	var su, sw, suu, suw, cnt float64
+	for k, st := range strips {
+		if len(st) < 6 {
+			continue
+		}
+		sort.Slice(st, func(a, b int) bool { return st[a].w < st[b].w })
+		// Integral of the normalised profile over the strip's w range.
+		wa, wb := st[0].w, st[len(st)-1].w
+		var area float64
+		for j := 1; j < len(st); j++ {
+			q0 := (st[j-1].v - lo) / (hi - lo)
+			q1 := (st[j].v - lo) / (hi - lo)
+			area += 0.5 * (q0 + q1) * (st[j].w - st[j-1].w)
+		}
+		var c float64
+		if rising {
+			c = wb - area
+		} else {
+			c = wa + area
+		}
+		if c <= wa || c >= wb {
+			continue
+		}
+		u := -halfLen + (float64(k)+0.5)*stripPx
+		su += u
+		sw += c
+		suu += u * u
+		suw += u * c
+		cnt++
+	}
+	if cnt < 3 {
+		return lineFit{}, false
+	}
+	det := cnt*suu - su*su
+	if det == 0 {
+		return lineFit{}, false
+	}
+	alpha := (cnt*suw - su*sw) / det
+	rho := (sw - alpha*su) / cnt
+	f := lineFit{Rho: rho, Alpha: alpha, Dark: lo, Step: hi - lo, Width: 1}
+	if !rising {
+		f.Dark, f.Step = hi, lo-hi
+	}
+	if !levenberg(&f, s, halfLen) {
+		return lineFit{}, false
+	}
+	if math.Abs(f.Rho) > halfWidth || f.Width <= 0 {
+		return lineFit{}, false
+	}
+	return f, true
+}
+
+// levenberg refines the six model parameters by Levenberg-Marquardt
+// (Marquardt 1963, SIAM J. Appl. Math. 11:431). The along-edge coordinate is
+// scaled by halfLen so that the normal equations stay well conditioned.
+func levenberg(f *lineFit, s samples, halfLen float64) bool {
+	const np = 6
+	// p: Dark, Step, Width, Rho, Alpha*L, Kappa*L^2
+	p := [np]float64{f.Dark, f.Step, f.Width, f.Rho, f.Alpha * halfLen, f.Kappa * halfLen * halfLen}
+	cost := func(p [np]float64) float64 {
+		var c float64
+		for i := range s.v {
+			r := s.v[i] - model(p, s.u[i]/halfLen, s.w[i])
+			c += r * r
+		}
+		return c
+	}
+	lambda := 1e-3
+	c0 := cost(p)
+	for iter := 0; iter < 60; iter++ {
+		var jtj [np][np]float64
+		var jtr [np]float64
+		for i := range s.v {
+			un := s.u[i] / halfLen
+			var g [np]float64
+			r := s.v[i] - modelGrad(p, un, s.w[i], &g)
+			for a := 0; a < np; a++ {
+				jtr[a] += g[a] * r
+				for b := 0; b <= a; b++ {
+					jtj[a][b] += g[a] * g[b]
+				}
+			}
+		}
+		for a := 0; a < np; a++ {
+			for b := a + 1; b < np; b++ {
+				jtj[a][b] = jtj[b][a]
+			}
+		}
+		improved := false
+		for try := 0; try < 10; try++ {
+			var m [np][np]float64
+			for a := 0; a < np; a++ {
+				m[a] = jtj[a]
+				m[a][a] *= 1 + lambda
+				if m[a][a] == 0 {
+					m[a][a] = 1e-12
+				}
+			}
+			dp, ok := solve(m, jtr)
+			if !ok {
+				lambda *= 10
+				continue
+			}
+			var q [np]float64
+			for a := range p {
+				q[a] = p[a] + dp[a]
+			}
+			if q[2] <= 0.02 {
+				q[2] = 0.02
+			}
+			c1 := cost(q)
+			if c1 < c0 {
+				small := math.Abs(dp[3]) < 1e-5 && math.Abs(dp[4]) < 1e-5 && math.Abs(dp[5]) < 1e-5
+				p, c0 = q, c1
+				lambda = max(lambda/10, 1e-9)
+				improved = true
+				if small {
+					iter = 1 << 30
+				}
+				break
+			}
+			lambda *= 10
+		}
+		if !improved {
+			break
+		}
+	}
+	*f = lineFit{Dark: p[0], Step: p[1], Width: p[2], Rho: p[3],
+		Alpha: p[4] / halfLen, Kappa: p[5] / (halfLen * halfLen),
+		RMS: math.Sqrt(c0 / float64(len(s.v)))}
+	return !math.IsNaN(c0)
+}
+
+func model(p [6]float64, un, w float64) float64 {
+	var g [6]float64
+	return modelGrad(p, un, w, &g)
+}
+
+// modelGrad evaluates v = Dark + Step*Phi(d/Width) with d = w - Rho - A*un -
+// K*un^2 measured across the region (not along the true normal: the small
+// slope factor is absorbed by Width, which only serves the fit) and stores
+// the partial derivatives with respect to the six parameters in g.
+func modelGrad(p [6]float64, un, w float64, g *[6]float64) float64 {
+	e := p[3] + p[4]*un + p[5]*un*un
+	d := w - e
+	z := d / p[2]
+	cdf := 0.5 * math.Erfc(-z/math.Sqrt2)
+	pdf := math.Exp(-0.5*z*z) / math.Sqrt(2*math.Pi)
+	k := p[1] * pdf / p[2]
+	g[0] = 1
+	g[1] = cdf
+	g[2] = -k * z
+	g[3] = -k
+	g[4] = -k * un
+	g[5] = -k * un * un
+	return p[0] + p[1]*cdf
+}
+
+// solve solves the small symmetric system m x = b by Gaussian elimination
+// with partial pivoting.
+func solve(m [6][6]float64, b [6]float64) ([6]float64, bool) {
+	const n = 6
+	for c := 0; c < n; c++ {
+		piv := c
+		for r := c + 1; r < n; r++ {
+			if math.Abs(m[r][c]) > math.Abs(m[piv][c]) {
+				piv = r
+			}
+		}
+		if m[piv][c] == 0 {
+			return b, false
+		}
+		m[c], m[piv] = m[piv], m[c]
+		b[c], b[piv] = b[piv], b[c]
+		for r := c + 1; r < n; r++ {
+			f := m[r][c] / m[c][c]
+			for k := c; k < n; k++ {
+				m[r][k] -= f * m[c][k]
+			}
+			b[r] -= f * b[c]
+		}
+	}
+	var x [n]float64
+	for r := n - 1; r >= 0; r-- {
+		v := b[r]
+		for k := r + 1; k < n; k++ {
+			v -= m[r][k] * x[k]
+		}
+		x[r] = v / m[r][r]
+	}
+	for _, v := range x {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return x, false
+		}
+	}
+	return x, true
+}
+
+// percentile returns the q-quantile (0..1) of v without modifying it.
+func percentile(v []float64, q float64) float64 {
+	c := append([]float64(nil), v...)
+	sort.Float64s(c)
+	i := int(q * float64(len(c)-1))
+	return c[i]
+}

@@ -1,0 +1,74 @@
+package edge
+
+import (
+	"math"
+
+	"sagitta/core/plane"
+)
+
+// Region is an oriented rectangle around one straight edge segment: the
+// part of the image a measurement reads. Coordinates follow core/plane
+// (continuous px, x right, y down, pixel centres at half-integers).
+type Region struct {
+	X, Y      float64 // centre of the segment, px
+	AngleDeg  float64 // direction of the edge line, degrees from +x towards +y
+	HalfLen   float64 // half length along the edge, px
+	HalfWidth float64 // half width across the edge, px
+}
+
+// axes returns the unit vector along the edge (t) and across it (n).
+func (r Region) axes() (tx, ty, nx, ny float64) {
+	s, c := math.Sincos(r.AngleDeg * math.Pi / 180)
+	return c, s, -s, c
+}
+
+// Corners returns the four corners of the region in image coordinates,
+// in drawing order.
+func (r Region) Corners() [4][2]float64 {
+	tx, ty, nx, ny := r.axes()
+	var out [4][2]float64
+	for i, sg := range [4][2]float64{{-1, -1}, {1, -1}, {1, 1}, {-1, 1}} {
+		out[i] = [2]float64{
+			r.X + sg[0]*r.HalfLen*tx + sg[1]*r.HalfWidth*nx,
+			r.Y + sg[0]*r.HalfLen*ty + sg[1]*r.HalfWidth*ny,
+		}
+	}
+	return out
+}
+
+// samples holds the pixels of a region in the region's own frame: u along
+// the edge, w across it (both px, origin at the region centre), and v the
+// linear pixel value.
+type samples struct {
+	u, w, v []float64
+}
+
+// gather collects every pixel whose centre lies inside the region and inside
+// the plane. It allocates once, sized from the region's area.
+func gather(p *plane.Plane, r Region) samples {
+	tx, ty, nx, ny := r.axes()
+	ex := math.Abs(r.HalfLen*tx) + math.Abs(r.HalfWidth*nx)
+	ey := math.Abs(r.HalfLen*ty) + math.Abs(r.HalfWidth*ny)
+	x0 := max(int(math.Floor(r.X-ex-0.5)), 0)
+	x1 := min(int(math.Ceil(r.X+ex-0.5)), p.W-1)
+	y0 := max(int(math.Floor(r.Y-ey-0.5)), 0)
+	y1 := min(int(math.Ceil(r.Y+ey-0.5)), p.H-1)
+	n := int(4*r.HalfLen*r.HalfWidth) + 16
+	s := samples{make([]float64, 0, n), make([]float64, 0, n), make([]float64, 0, n)}
+	for y := y0; y <= y1; y++ {
+		dy := float64(y) + 0.5 - r.Y
+		row := p.Pix[y*p.W : (y+1)*p.W]
+		for x := x0; x <= x1; x++ {
+			dx := float64(x) + 0.5 - r.X
+			u := dx*tx + dy*ty
+			w := dx*nx + dy*ny
+			if math.Abs(u) > r.HalfLen || math.Abs(w) > r.HalfWidth {
+				continue
+			}
+			s.u = append(s.u, u)
+			s.w = append(s.w, w)
+			s.v = append(s.v, float64(row[x]))
+		}
+	}
+	return s
+}
