@@ -54,7 +54,7 @@ func unsupportedErr(msg string, err error) error { return &UnsupportedError{Msg:
 
 func message(msg string, err error) string {
 	s := "decode: " + msg
-	if err != nil {
+	if err != nil && err != io.EOF && err != io.ErrUnexpectedEOF { // "truncated" says it already
 		s += " (" + err.Error() + ")"
 	}
 	return strings.Join(strings.Fields(s), " ") // one line
