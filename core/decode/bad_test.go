@@ -53,6 +53,8 @@ func TestBadFiles(t *testing.T) {
 	}
 }
 
+func asErr[T error](err error, target *T) bool { return errors.As(err, target) }
+
 // checkErr asserts the error type, a one-line message with the given
 // prefix.
 func checkErr(t *testing.T, err error, kind, prefix string) {

@@ -4,17 +4,21 @@
 // the standard decoders, undoes the tone curve and forms luminance.
 //
 // Tone curves: sRGB decoding per IEC 61966-2-1:1999 (section 5.2), a pure
-// power law, or linear data. With ToneAuto the file decides: a PNG gAMA
-// chunk of 1.0 means linear, another gAMA value g means L = V^(100000/g),
-// unless an sRGB or iCCP chunk is present (ISO/IEC 15948:2004, sections
-// 11.3.3.2, 11.3.3.3 and 11.3.3.5; https://www.w3.org/TR/png/); everything
+// power law L = V^G, or linear data L = V, with V the code value divided by
+// the largest code value. With ToneAuto the file decides: a PNG gAMA chunk
+// of 1.0 means linear, another gAMA value g means L = V^(100000/g), unless
+// an sRGB or iCCP chunk is present, which take precedence (PNG, ISO/IEC
+// 15948:2004 and https://www.w3.org/TR/png/, sections 11.3.3.2 gAMA,
+// 11.3.3.3 iCCP, 11.3.3.5 sRGB; section numbers from memory). Everything
 // else is taken as sRGB, and Image.ToneSource says which rule applied.
 //
-// Luminance is Y = 0.2126 R + 0.7152 G + 0.0722 B on linear values
-// (Rec. ITU-R BT.709-6, item 3.2; the relative luminance of sRGB, whose
-// primaries are those of BT.709). Grey images are linearised directly.
-// Alpha is ignored: nothing is composited; colour channels are used as
-// stored (premultiplied data is un-premultiplied first).
+// Luminance is Y = 0.2126 R + 0.7152 G + 0.0722 B on linear values: the
+// coefficients of Rec. ITU-R BT.709-6 (part 1, item 3.2, from memory),
+// which are also the Y row of the linear RGB -> XYZ matrix of
+// IEC 61966-2-1 (sRGB shares the BT.709 primaries). Grey images are
+// linearised directly. Alpha is ignored: nothing is composited, colour
+// channels are used as stored (premultiplied data is un-premultiplied
+// first) and a warning is added.
 //
 // Pixels are returned as stored: the Exif orientation is reported, not
 // applied, because measurements refer to the sensor's own geometry.
@@ -27,6 +31,7 @@ import (
 	"image"
 	"image/jpeg"
 	"image/png"
+	"strings"
 
 	"golang.org/x/image/tiff"
 
@@ -105,7 +110,7 @@ func Config(data []byte) (format string, w, h int, err error) {
 		return "", 0, 0, err
 	}
 	if cfg.Width <= 0 || cfg.Height <= 0 {
-		return "", 0, 0, formatErr(fmt.Sprintf("%s declares an empty %d x %d image", format, cfg.Width, cfg.Height), nil)
+		return "", 0, 0, formatErr(fmt.Sprintf("%s declares an empty %d x %d image", strings.ToUpper(format), cfg.Width, cfg.Height), nil)
 	}
 	return format, cfg.Width, cfg.Height, nil
 }
@@ -163,7 +168,7 @@ func Decode(data []byte, opt Options) (*Image, error) {
 		return nil, err
 	}
 	if b := img.Bounds(); b.Dx() != w || b.Dy() != h {
-		return nil, formatErr(fmt.Sprintf("corrupt %s (header says %d x %d, decoder gave %d x %d)", format, w, h, b.Dx(), b.Dy()), nil)
+		return nil, formatErr(fmt.Sprintf("corrupt %s (header says %d x %d, decoder gave %d x %d)", strings.ToUpper(format), w, h, b.Dx(), b.Dy()), nil)
 	}
 
 	out.Tone, out.ToneSource = chooseTone(opt.Tone, format, pi, out)

@@ -73,7 +73,7 @@ func wrapDecoderErr(format string, err error) error {
 	case errors.Is(err, io.ErrUnexpectedEOF), errors.Is(err, io.EOF):
 		return formatErr("truncated "+name, err)
 	case errors.As(err, &pu), errors.As(err, &ju), errors.As(err, &tu):
-		return unsupportedErr(name+" feature not supported", err)
+		return unsupportedErr("this "+name+" variant is not supported", err)
 	case strings.Contains(err.Error(), "not enough pixel data"):
 		return formatErr("truncated "+name, err)
 	}

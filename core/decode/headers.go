@@ -49,7 +49,7 @@ type pngInfo struct {
 	bitDepth, colourType int
 	gama                 uint32 // gAMA value x 100000; valid if hasGAMA
 	hasGAMA, hasSRGB     bool
-	hasICCP, hasTRNS     bool
+	hasICCP              bool
 	exif                 []byte // eXIf chunk data, nil if absent
 }
 
@@ -57,7 +57,7 @@ type pngInfo struct {
 const maxPNGChunks = 100000
 
 // scanPNG walks the chunk list (ISO/IEC 15948, 5.3: length, type, data,
-// CRC-32 over type and data). It reads IHDR, gAMA, sRGB, iCCP and tRNS before
+// CRC-32 over type and data). It reads IHDR, gAMA, sRGB and iCCP before
 // the first IDAT (where the standard requires them, 5.6) and eXIf anywhere.
 // CRCs are checked on the chunks it interprets. It allocates nothing beyond
 // slices of data. Truncation inside the image data is left to image/png.
@@ -106,8 +106,6 @@ func scanPNG(data []byte) (pngInfo, error) {
 			info.hasSRGB = info.hasSRGB || !seenIDAT
 		case "iCCP":
 			info.hasICCP = info.hasICCP || !seenIDAT
-		case "tRNS":
-			info.hasTRNS = info.hasTRNS || !seenIDAT
 		case "eXIf":
 			if info.exif == nil {
 				info.exif = body
