@@ -241,7 +241,7 @@ func clipLines(dst, src *polys, r rect) {
 		for k := k0; k < k0+n; k++ {
 			a, b := line[k%len(line)], line[(k+1)%len(line)]
 			t0, t1, ok := clipSegment(a, b, r)
-			if !ok {
+			if !ok || (t0 == t1 && a != b) { // outside, or touching a corner
 				open = false
 				continue
 			}
@@ -381,7 +381,7 @@ func (s *dashState) walk(a, b pt, L, t0, t1 float64) {
 		}
 		if on {
 			p := a.lerp(b, t)
-			if step == 0 {
+			if s.d[s.i] == 0 {
 				// A zero-length dash: a piece 1/64 px long along the line,
 				// which the stroker caps into a dot or a square.
 				s.piece(p, pt{p.x + s.dir.x/64, p.y + s.dir.y/64})

@@ -156,8 +156,10 @@ func unfix(p fixed.Point26_6) pt { return pt{float64(p.X) / 64, float64(p.Y) / 6
 // raster.Stroke (with a miter joiner of our own, below) and filled with the
 // non-zero rule, which unites overlapping parts of the outline.
 func (c *Raster) strokePath(p *Path, s Style) {
-	half := s.Width * c.scale / 2
-	margin := half*MiterLimit + 2
+	// A stroke wider than maxStrokePx is drawn that wide, which keeps the
+	// stroker's 26.6 fixed point (about +-3.3e7 px) from overflowing.
+	widthPx := math.Min(s.Width*c.scale, maxStrokePx)
+	margin := widthPx/2*MiterLimit + 2
 	clip := grow(c.bounds(), margin)
 	c.a.reset()
 	flatten(&c.a, p, c.scale, clip)
@@ -189,7 +191,7 @@ func (c *Raster) strokePath(p *Path, s Style) {
 	default:
 		joiner = raster.JoinerFunc(miterJoiner)
 	}
-	width := fixed.Int26_6(math.Round(s.Width * c.scale * 64))
+	width := fixed.Int26_6(math.Round(widthPx * 64))
 	c.a.reset()
 	out := &outlineAdder{ps: &c.a, cull: grow(c.bounds(), 1)}
 	for i := range c.b.ends {
@@ -228,6 +230,10 @@ func (c *Raster) strokePath(p *Path, s Style) {
 	c.fill(&c.a, s.Stroke, true)
 }
 
+// maxStrokePx is the widest stroke drawn, in pixels.
+const maxStrokePx = 1e6
+
+// sum returns the sum of d.
 func sum(d []float64) float64 {
 	s := 0.0
 	for _, v := range d {
