@@ -271,15 +271,16 @@ const minDashPeriod = 0.1
 // dashLines appends to dst the dashes of the polylines in src, with pattern
 // d in pixels (even length, positive sum), restarting at every polyline.
 // Only the parts inside r are produced, with the pattern phase kept, so very
-// long lines cost time in proportion to their visible length.
-func dashLines(dst, src *polys, d []float64, r rect) {
+// long lines cost time in proportion to their visible length. Dashes of
+// zero length are kept (as dots for round or square caps) only if dots.
+func dashLines(dst, src *polys, d []float64, r rect, dots bool) {
 	period := 0.0
 	for _, v := range d {
 		period += v
 	}
 	for i := range src.ends {
 		line, closed := src.get(i)
-		st := dashState{d: d, period: period, rem: d[0], dst: dst}
+		st := dashState{d: d, period: period, rem: d[0], dst: dst, dots: dots}
 		n := len(line) - 1
 		if closed {
 			n++
@@ -318,7 +319,8 @@ type dashState struct {
 	rem     float64 // length left in the current element, pixels
 	drawing bool    // a dash piece is open in dst
 	dst     *polys
-	dir     pt // direction of the current segment, for zero-length dashes
+	dir     pt   // direction of the current segment, for zero-length dashes
+	dots    bool // whether zero-length dashes are drawn
 }
 
 // stop ends the open dash piece, if any. A piece that has no length (a
@@ -383,8 +385,11 @@ func (s *dashState) walk(a, b pt, L, t0, t1 float64) {
 			p := a.lerp(b, t)
 			if s.d[s.i] == 0 {
 				// A zero-length dash: a piece 1/64 px long along the line,
-				// which the stroker caps into a dot or a square.
-				s.piece(p, pt{p.x + s.dir.x/64, p.y + s.dir.y/64})
+				// which the stroker caps into a dot or a square; with butt
+				// caps it shows nothing.
+				if s.dots {
+					s.piece(p, pt{p.x + s.dir.x/64, p.y + s.dir.y/64})
+				}
 			} else {
 				s.piece(p, a.lerp(b, t+step))
 			}

@@ -59,7 +59,7 @@ func TestDashLines(t *testing.T) {
 				src.close()
 			}
 		}
-		dashLines(&dst, &src, tc.dash, tc.clip)
+		dashLines(&dst, &src, tc.dash, tc.clip, true)
 		got, n := lineLen(&dst)
 		// Points are interpolated from the segment ends: 1e9 px ends leave
 		// about 1e-7 px of rounding per point.

@@ -116,7 +116,7 @@ func (c *Raster) fill(ps *polys, col color.Color, nonZero bool) {
 	c.r.Clear()
 	c.r.UseNonZeroWinding = nonZero
 	b := c.bounds()
-	any := false
+	drawn := false
 	for i := range ps.ends {
 		line, _ := ps.get(i)
 		if len(line) < 3 {
@@ -134,9 +134,9 @@ func (c *Raster) fill(ps *polys, col color.Color, nonZero bool) {
 			c.r.Add1(fix(q))
 		}
 		c.r.Add1(fix(line[0]))
-		any = true
+		drawn = true
 	}
-	if any {
+	if drawn {
 		c.paint.setColour(col)
 		c.r.Rasterize(&c.paint)
 	}
@@ -169,7 +169,7 @@ func (c *Raster) strokePath(p *Path, s Style) {
 		for i, v := range d {
 			px[i] = v * c.scale
 		}
-		dashLines(&c.b, &c.a, px, clip)
+		dashLines(&c.b, &c.a, px, clip, s.Cap != CapButt)
 	} else {
 		clipLines(&c.b, &c.a, clip)
 	}
