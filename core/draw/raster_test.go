@@ -263,8 +263,9 @@ func TestRasterDash(t *testing.T) {
 	if want := 10 * math.Pi; math.Abs(ink-want) > 0.05*want {
 		t.Errorf("dots: ink %.3f px^2, want %.3f", ink, want)
 	}
-	// With butt caps a zero-length dash has no area, so nothing shows
-	// (ISO 32000-1 §8.4.3.6 draws caps only for round and square caps).
+	// With butt caps a zero-length dash has no area, so nothing shows (a
+	// zero-length dash is visible only through round or square caps;
+	// common practice of PDF and SVG renderers).
 	r = newGray(t, 120, 10)
 	r.Path(&p, Style{Stroke: color.Black, Width: 2, Dash: []float64{0, 10}})
 	for x := 0; x < 120; x++ {
