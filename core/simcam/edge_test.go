@@ -78,9 +78,9 @@ func TestGaussEdgeVsQuadrature(t *testing.T) {
 // geometry (elementary geometry, worked by hand).
 func TestTrapCDFHandCases(t *testing.T) {
 	cases := []struct {
-		name       string
-		u, a, b    float64
-		want, tol  float64
+		name      string
+		u, a, b   float64
+		want, tol float64
 	}{
 		// vertical edge 0.2 px left of the centre: 0.7 of the pixel on the right
 		{"vertical 0.2 left", 0.2, 1, 0, 0.7, 1e-15},

@@ -1,0 +1,39 @@
+package simcam
+
+import (
+	"os"
+	"testing"
+)
+
+// lookScene is a 600 x 400 scene with tilted squares, a star and a grating.
+func lookScene() Scene {
+	s := Scene{Background: 0.6}
+	for i := range 5 {
+		for j := range 2 {
+			s.Polygons = append(s.Polygons, Square(60+float64(i)*60, 70+float64(j)*120, 40, 5+float64(i*7+j*3), 0.08))
+		}
+	}
+	s.Stars = []Star{{X: 470, Y: 130, Radius: 90, Cycles: 36, Mean: 0.35, Amplitude: 0.3}}
+	s.Gratings = []Grating{{Corners: [4][2]float64{{30, 290}, {330, 290}, {330, 380}, {30, 380}}, FreqCyPx: 0.12, DirectionDeg: 20, Mean: 0.35, Amplitude: 0.3}}
+	s.Polygons = append(s.Polygons, Polygon{Pts: [][2]float64{{400, 260}, {580, 250}, {560, 380}, {480, 320}, {420, 390}}, Level: 0.9})
+	return s
+}
+
+func lookLens() FieldLens {
+	return FieldLens{CentreX: 300, CentreY: 200, PitchUM: 4, SigmaT: []float64{0.5, 0, 1.2}, SigmaS: []float64{0.5, 0.3}, TiltPerMM: 0.2}
+}
+
+// TestLook writes /tmp/simcam-look.png when SIMCAM_LOOK=1 (for eyes only).
+func TestLook(t *testing.T) {
+	if os.Getenv("SIMCAM_LOOK") == "" {
+		t.Skip("set SIMCAM_LOOK=1 to write /tmp/simcam-look.png")
+	}
+	cam := Camera{W: 600, H: 400, Lens: lookLens(), FullWellE: 20000, ReadNoiseE: 3, Seed: 7}
+	b, err := cam.Encode(lookScene())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile("/tmp/simcam-look.png", b, 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
