@@ -144,7 +144,7 @@ func clipConvex(dst, tmp, subj, win []vec) []vec {
 		}
 		m := len(in)
 		if m == 0 {
-			break
+			return dst[:0]
 		}
 		prev := in[m-1]
 		dp := ex*(prev[1]-a[1]) - ey*(prev[0]-a[0])
@@ -163,6 +163,9 @@ func clipConvex(dst, tmp, subj, win []vec) []vec {
 			prev, dp = cur, dc
 		}
 		in = out
+	}
+	if len(in) == 0 {
+		return dst[:0]
 	}
 	if n%2 == 1 { // result landed in tmp: copy to dst
 		dst = append(dst[:0], in...)

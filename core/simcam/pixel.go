@@ -88,7 +88,9 @@ func (r *renderer) pixel(ws *worker, cx, cy float64) float64 {
 		rmax = r.opt.gridNodes(cx, cy).RMax
 	}
 	val := lneg + (lpos-lneg)*f
-	if rho >= rmax+halfDiag {
+	if r.forceCorner {
+		rho = 0
+	} else if rho >= rmax+halfDiag {
 		return val
 	}
 	return val + r.cornerCorrection(ws, cx, cy, e, bu, lneg, lpos, rho, c, gauss, rmax)

@@ -34,6 +34,8 @@ type renderer struct {
 	pgrid  grid      // polygons
 	qgrid  grid      // convex pieces
 	opt    *optics
+
+	forceCorner bool // tests: evaluate the corner correction over all nodes
 }
 
 // rpoly is a prepared polygon or convex piece.
