@@ -186,3 +186,24 @@ func TestInvalidInput(t *testing.T) {
 		}
 	}
 }
+
+// TestUnsharpMask: out = v + A (v - blur(v)) leaves a flat field unchanged
+// and overshoots on both sides of an edge (the unsharp mask's defining
+// property; common practice).
+func TestUnsharpMask(t *testing.T) {
+	cam := Camera{W: 40, H: 8, Encoding: Linear8, Sharpen: &UnsharpMask{Amount: 1, RadiusPx: 1.5}}
+	flat := cam.Capture(Scene{Background: 0.5}).(*image.Gray)
+	for _, v := range flat.Pix {
+		if v != 128 {
+			t.Fatalf("flat field changed to %d", v)
+		}
+	}
+	edge := cam.Capture(HalfPlaneScene(40, 8, 0, 0.2, 0.6)).(*image.Gray)
+	lo, hi := uint8(255), uint8(0)
+	for _, v := range edge.Pix[3*40 : 4*40] {
+		lo, hi = min(lo, v), max(hi, v)
+	}
+	if !(hi > 153 && lo < 51) {
+		t.Errorf("no overshoot: min %d max %d (levels 51 and 153)", lo, hi)
+	}
+}

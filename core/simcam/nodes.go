@@ -16,7 +16,7 @@ type nodeSet struct {
 
 // hermiteOrder is the number of Gauss-Hermite nodes per axis used for
 // Gaussian PSFs in the corner regime.
-const hermiteOrder = 16
+const hermiteOrder = 24
 
 // stdNormal2D is a product Gauss-Hermite rule for the standard bivariate
 // normal distribution: z = sqrt(2) x_i, weight w_i / sqrt(pi) per axis
