@@ -71,7 +71,7 @@ func gaussNodes(dst *nodeSet, c cov) {
 
 // gridNodeRadius caps the radius (px) of the quadrature grid for
 // non-Gaussian PSFs.
-const gridNodeRadius = 24
+const gridNodeRadius = 48
 
 // gridBlockRatio is the largest ratio of a merged block's size to its
 // distance from the PSF centre.

@@ -43,7 +43,7 @@ func TestNodeMoments(t *testing.T) {
 	}
 	// Energy of the Airy pattern outside radius r: about 2 lambda N / (pi^2 r)
 	// (asymptotic encircled energy, Born and Wolf, Principles of Optics, 8.5.2,
-	// from memory), 0.019 at 24 px here: allow 0.05.
+	// from memory), 0.009 at 48 px here: allow 0.05.
 	if math.Abs(w-1) > 0.05 || math.Abs(mx) > 1e-12 || math.Abs(my) > 1e-12 {
 		t.Errorf("airy nodes: weight %v mean (%v, %v)", w, mx, my)
 	}
