@@ -2,6 +2,7 @@ package simcam
 
 import (
 	"os"
+	"runtime"
 	"testing"
 )
 
@@ -23,17 +24,33 @@ func lookLens() FieldLens {
 	return FieldLens{CentreX: 300, CentreY: 200, PitchUM: 4, SigmaT: []float64{0.5, 0, 1.2}, SigmaS: []float64{0.5, 0.3}, TiltPerMM: 0.2}
 }
 
-// TestLook writes /tmp/simcam-look.png when SIMCAM_LOOK=1 (for eyes only).
-func TestLook(t *testing.T) {
-	if os.Getenv("SIMCAM_LOOK") == "" {
-		t.Skip("set SIMCAM_LOOK=1 to write /tmp/simcam-look.png")
+// TestDeterministic renders the look scene on one and on several goroutines:
+// the planes must be bit-identical (rows are computed independently). With
+// SIMCAM_LOOK=1 it also writes /tmp/simcam-look.png for inspection.
+func TestDeterministic(t *testing.T) {
+	cam := Camera{W: 600, H: 400, Lens: lookLens()}
+	if testing.Short() {
+		cam.W, cam.H = 300, 200
 	}
-	cam := Camera{W: 600, H: 400, Lens: lookLens(), FullWellE: 20000, ReadNoiseE: 3, Seed: 7}
-	b, err := cam.Encode(lookScene())
+	prev := runtime.GOMAXPROCS(1)
+	a := cam.RenderLinear(lookScene())
+	runtime.GOMAXPROCS(max(prev, 3))
+	b := cam.RenderLinear(lookScene())
+	runtime.GOMAXPROCS(prev)
+	for i := range a.Pix {
+		if a.Pix[i] != b.Pix[i] {
+			t.Fatalf("pixel %d differs: %v vs %v", i, a.Pix[i], b.Pix[i])
+		}
+	}
+	if os.Getenv("SIMCAM_LOOK") == "" {
+		return
+	}
+	cam = Camera{W: 600, H: 400, Lens: lookLens(), FullWellE: 20000, ReadNoiseE: 3, Seed: 7}
+	buf, err := cam.Encode(lookScene())
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := os.WriteFile("/tmp/simcam-look.png", b, 0o644); err != nil {
+	if err := os.WriteFile("/tmp/simcam-look.png", buf, 0o644); err != nil {
 		t.Fatal(err)
 	}
 }
