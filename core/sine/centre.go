@@ -49,9 +49,12 @@ func fitCentre(p *plane.Plane, cx, cy float64, o centreOpts) centreResult {
 	if o.x1 < o.x0 || o.y1 < o.y0 {
 		return res
 	}
+	const pairs = 8 // opposite sector pairs for the jackknife (sectorPair)
 	for it := 0; it < max(o.iters, 1); it++ {
-		var a, a13, a24 sym2
-		var bx, by, bx13, by13, bx24, by24, eIn, eAll float64
+		var a sym2
+		var bx, by, eIn, eAll float64
+		var pa [pairs]sym2
+		var pbx, pby [pairs]float64
 		for y := o.y0; y <= o.y1; y++ {
 			py := float64(y) + 0.5
 			dy := py - res.y
@@ -96,19 +99,12 @@ func fitCentre(p *plane.Plane, cx, cy float64, o centreOpts) centreResult {
 				a[2] += ayy
 				bx += w * gx * gp
 				by += w * gy * gp
-				if dx*dy >= 0 {
-					a13[0] += axx
-					a13[1] += axy
-					a13[2] += ayy
-					bx13 += w * gx * gp
-					by13 += w * gy * gp
-				} else {
-					a24[0] += axx
-					a24[1] += axy
-					a24[2] += ayy
-					bx24 += w * gx * gp
-					by24 += w * gy * gp
-				}
+				k := sectorPair(dx, dy)
+				pa[k][0] += axx
+				pa[k][1] += axy
+				pa[k][2] += ayy
+				pbx[k] += w * gx * gp
+				pby[k] += w * gy * gp
 			}
 		}
 		ai, ok := a.inv()
@@ -125,70 +121,71 @@ func fitCentre(p *plane.Plane, cx, cy float64, o centreOpts) centreResult {
 			res.inlier = eIn / eAll
 		}
 		res.ok = true
-		// Split halves: opposite quadrant pairs are each point-symmetric.
-		split := 0.0
-		i13, ok13 := a13.inv()
-		i24, ok24 := a24.inv()
-		if ok13 && ok24 {
-			x13, y13 := i13.mul(bx13, by13)
-			x24, y24 := i24.mul(bx24, by24)
-			split = 0.5 * math.Hypot(x13-x24, y13-y24)
-		}
 		if it == max(o.iters, 1)-1 {
-			res.uncPx = math.Hypot(split, sandwich(p, res, ai, o))
+			res.uncPx = jackknife(a, bx, by, pa[:], pbx[:], pby[:])
 		}
 	}
 	return res
 }
 
-// sandwich returns the heteroscedasticity-consistent standard error (px) of
-// the centre: sqrt(trace(A^-1 S A^-1)), S = sum w^2 e_i^2 g g', e_i the
-// residual g . (p - c). Neighbouring pixels share noise through the
-// gradient stencil, so this alone is optimistic; fitCentre adds the
-// disagreement of the two halves.
-func sandwich(p *plane.Plane, c centreResult, ai sym2, o centreOpts) float64 {
-	var s sym2
-	for y := o.y0; y <= o.y1; y++ {
-		py := float64(y) + 0.5
-		dy := py - c.y
-		row := p.Pix[y*p.W:]
-		up, dn := p.Pix[(y-1)*p.W:], p.Pix[(y+1)*p.W:]
-		for x := o.x0; x <= o.x1; x++ {
-			px := float64(x) + 0.5
-			dx := px - c.x
-			r2 := dx*dx + dy*dy
-			if r2 < o.rMin*o.rMin || o.rMax > 0 && r2 > o.rMax*o.rMax {
-				continue
-			}
-			if o.keep != nil && !o.keep(x, y) {
-				continue
-			}
-			gx := 0.5 * float64(row[x+1]-row[x-1])
-			gy := 0.5 * float64(dn[x]-up[x])
-			g2 := gx*gx + gy*gy
-			if g2 == 0 {
-				continue
-			}
-			e := gx*dx + gy*dy
-			w := 1.0
-			if o.tukey > 0 {
-				u := e / math.Sqrt(g2*r2+1e-300) / o.tukey
-				if u*u >= 1 {
-					continue
-				}
-				w = (1 - u*u) * (1 - u*u)
-			}
-			w2e2 := w * w * e * e
-			s[0] += w2e2 * gx * gx
-			s[1] += w2e2 * gx * gy
-			s[2] += w2e2 * gy * gy
-		}
+// sectorPair returns the pair of opposite sectors, 0..7, that the direction
+// (dx, dy) falls in: the angle of the line through it, in [0, 180) degrees,
+// in steps of 22.5 degrees.
+func sectorPair(dx, dy float64) int {
+	if dy < 0 || dy == 0 && dx < 0 {
+		dx, dy = -dx, -dy
 	}
-	// trace(Ai S Ai)
-	m00 := ai[0]*s[0] + ai[1]*s[1]
-	m01 := ai[0]*s[1] + ai[1]*s[2]
-	m10 := ai[1]*s[0] + ai[2]*s[1]
-	m11 := ai[1]*s[1] + ai[2]*s[2]
-	tr := m00*ai[0] + m01*ai[1] + m10*ai[1] + m11*ai[2]
-	return math.Sqrt(math.Max(tr, 0))
+	const t1, t3 = 0.41421356237309503, 2.414213562373095 // tan 22.5, tan 67.5 degrees
+	mirror := dx < 0
+	if mirror {
+		dx = -dx
+	}
+	var k int
+	switch {
+	case dy < t1*dx:
+		k = 0
+	case dy < dx:
+		k = 1
+	case dy < t3*dx:
+		k = 2
+	default:
+		k = 3
+	}
+	if mirror {
+		k = 7 - k
+	}
+	return k
+}
+
+// jackknife returns the delete-one-group jackknife standard error (px) of
+// the centre, sqrt(var x + var y), over groups that are each a pair of
+// opposite sectors: every leave-one-out subset is point-symmetric, so the
+// pattern's own (symmetric) residuals cancel in each estimate, and the
+// sectors are large enough to hold the spatial correlation of the noise
+// (B. Efron and C. Stein, The jackknife estimate of variance, Ann. Statist.
+// 9 (1981) 586-596).
+func jackknife(a sym2, bx, by float64, pa []sym2, pbx, pby []float64) float64 {
+	k := len(pa)
+	xs := make([]float64, 0, k)
+	ys := make([]float64, 0, k)
+	for i := range pa {
+		m := sym2{a[0] - pa[i][0], a[1] - pa[i][1], a[2] - pa[i][2]}
+		mi, ok := m.inv()
+		if !ok {
+			return math.Inf(1)
+		}
+		x, y := mi.mul(bx-pbx[i], by-pby[i])
+		xs = append(xs, x)
+		ys = append(ys, y)
+	}
+	var mx, my float64
+	for i := range xs {
+		mx += xs[i] / float64(k)
+		my += ys[i] / float64(k)
+	}
+	var v float64
+	for i := range xs {
+		v += (xs[i]-mx)*(xs[i]-mx) + (ys[i]-my)*(ys[i]-my)
+	}
+	return math.Sqrt(v * float64(k-1) / float64(k))
 }

@@ -31,10 +31,9 @@
 //     the pixels p_i of an annulus, u_i the unit gradient: the least-squares
 //     meeting point of the isophotes. For any point-symmetric PSF the
 //     pixels at p and 2c - p contribute opposite residuals, so the estimate
-//     is unbiased even when blur bends the isophotes. Its uncertainty is the
-//     larger of a sandwich (heteroscedasticity-consistent) standard error and
-//     the disagreement of two independent halves of the annulus (opposite
-//     quadrant pairs).
+//     is unbiased even when blur bends the isophotes. Its uncertainty is a
+//     delete-one-group jackknife over 8 pairs of opposite sectors (each
+//     leave-one-out set stays point-symmetric).
 //  3. N is the strongest angular harmonic on circles about the centre
 //     (FFT of the samples), confirmed on two radii.
 //  4. Modulation: the pixels (never interpolated, so no resampling filter
@@ -64,7 +63,9 @@
 //
 // Sagittal and tangential curves for a star come from the segments whose
 // direction of measurement lies across or along the field radius through
-// the star's centre (Star.Along).
+// the star's centre (Star.Along, which also undoes the averaging of the MTF
+// over each segment's angular width; segments are kept as wedge averages
+// for polar plots).
 //
 // # Gratings
 //

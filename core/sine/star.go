@@ -231,37 +231,55 @@ func circleHarmonic(p *plane.Plane, cx, cy, r float64, want int) (k int, share, 
 }
 
 // ringSums accumulates, for rings 1 px wide about (cx, cy) with centres
-// r0, r0+1, ..., the harmonic-N sums of the pixels whose centres lie within
-// 0.5 px of each ring, over the full circle. Rings partly outside the image
-// are marked incomplete.
-func ringSums(p *plane.Plane, cx, cy float64, n int, r0 float64, count int) ([]harmonic, []bool) {
+// r0, r0+1, ..., r0+count-1, the harmonic-N sums of the pixels whose
+// centres lie within 0.5 px of each ring, over the full circle. Only the
+// pixels of the annulus are visited; parts outside the image are skipped.
+func ringSums(p *plane.Plane, cx, cy float64, n int, r0 float64, count int) []harmonic {
 	h := make([]harmonic, count)
-	rMax := r0 + float64(count) - 0.5
-	x0, x1 := int(math.Floor(cx-rMax)), int(math.Ceil(cx+rMax))
-	y0, y1 := int(math.Floor(cy-rMax)), int(math.Ceil(cy+rMax))
-	full := make([]bool, count)
-	for k := range full {
-		r := r0 + float64(k) + 0.5
-		full[k] = cx-r >= 0 && cy-r >= 0 && cx+r <= float64(p.W) && cy+r <= float64(p.H)
-	}
-	nf := float64(n)
-	for y := max(y0, 0); y <= min(y1, p.H-1); y++ {
+	rLo, rHi := math.Max(r0-0.5, 0), r0+float64(count)-0.5
+	y0, y1 := max(int(math.Floor(cy-rHi)), 0), min(int(math.Ceil(cy+rHi)), p.H-1)
+	for y := y0; y <= y1; y++ {
 		dy := float64(y) + 0.5 - cy
-		for x := max(x0, 0); x <= min(x1, p.W-1); x++ {
-			dx := float64(x) + 0.5 - cx
-			k := int(math.Floor(math.Hypot(dx, dy) - r0 + 0.5))
-			if k < 0 || k >= count {
+		span := math.Sqrt(math.Max(rHi*rHi-dy*dy, 0))
+		hole := math.Sqrt(math.Max(rLo*rLo-dy*dy, 0))
+		x0, x1 := max(int(math.Floor(cx-span)), 0), min(int(math.Ceil(cx+span)), p.W-1)
+		// skip the inner disc: x in (cx - hole, cx + hole)
+		h0, h1 := int(math.Ceil(cx-hole-0.5))+1, int(math.Floor(cx+hole-0.5))-1
+		for x := x0; x <= x1; x++ {
+			if x == h0 && h1 >= h0 {
+				x = h1
 				continue
 			}
-			s, c := math.Sincos(nf * math.Atan2(dy, dx))
+			dx := float64(x) + 0.5 - cx
+			r := math.Hypot(dx, dy)
+			k := int(math.Floor(r - r0 + 0.5))
+			if k < 0 || k >= count || r == 0 {
+				continue
+			}
+			c, s := powUnit(dx/r, dy/r, n)
 			h[k].add(c, s, float64(p.Pix[y*p.W+x]))
 		}
 	}
-	return h, full
+	return h
+}
+
+// powUnit returns (cos n phi, sin n phi) for the unit vector
+// (cos phi, sin phi) by binary exponentiation of the complex number,
+// cheaper than an arctangent and a sine.
+func powUnit(c, s float64, n int) (float64, float64) {
+	rc, rs := 1.0, 0.0
+	for n > 0 {
+		if n&1 == 1 {
+			rc, rs = rc*c-rs*s, rc*s+rs*c
+		}
+		c, s = c*c-s*s, 2*c*s
+		n >>= 1
+	}
+	return rc, rs
 }
 
 // outerRadius finds where the star's N-th harmonic ends: rEdge, where its
-// amplitude falls to half the plateau (the largest amplitude inside), and
+// amplitude falls to half the level just inside, and
 // rOut, the largest radius whose ring is clear of that boundary's blur
 // (r90 - (rEdge - r90) - 1, r90 the last radius inside at 90 % of the
 // plateau, so the boundary's transition is mirrored inward once more). The
@@ -269,19 +287,25 @@ func ringSums(p *plane.Plane, cx, cy float64, n int, r0 float64, count int) ([]h
 // star): the scan doubles until it finds the boundary or reaches the image
 // border, where the last complete ring less 3 px is used.
 func outerRadius(p *plane.Plane, cx, cy float64, n int, guess float64) (rEdge, rOut float64, ok bool) {
-	rLimit := math.Min(math.Min(cx, cy), math.Min(float64(p.W)-cx, float64(p.H)-cy))
+	// Rings may reach a little beyond the nearest image border (the ring
+	// fit uses the pixels present), so that a star close to the border
+	// still shows its boundary.
+	rInside := math.Min(math.Min(cx, cy), math.Min(float64(p.W)-cx, float64(p.H)-cy))
+	rLimit := rInside + 16
 	scan := math.Min(2*guess+12, rLimit)
+	var amp []float64 // ring k has radius k + 1
 	for {
 		count := int(scan)
 		if count < int(minStarRadius)+4 {
 			return 0, 0, false
 		}
-		h, _ := ringSums(p, cx, cy, n, 1, count)
-		amp := make([]float64, count)
-		for k := range h {
-			amp[k] = 0
-			if f := h[k].solve(); f.ok {
-				amp[k] = math.Hypot(f.b, f.c)
+		if count > len(amp) {
+			for _, h := range ringSums(p, cx, cy, n, float64(len(amp)+1), count-len(amp)) {
+				a := 0.0
+				if f := h.solve(); f.ok {
+					a = math.Hypot(f.b, f.c)
+				}
+				amp = append(amp, a)
 			}
 		}
 		peak, kPeak := 0.0, -1
@@ -293,10 +317,23 @@ func outerRadius(p *plane.Plane, cx, cy float64, n int, guess float64) (rEdge, r
 		if kPeak < 0 || peak == 0 {
 			return 0, 0, false
 		}
+		// The boundary: the first ring beyond the peak whose amplitude is
+		// below half the largest of the 8 rings inside it, and after which
+		// it stays so for 10 rings (inside a star the amplitude changes
+		// slowly with the MTF, even a sharpened one; at its border it
+		// drops within the blur).
 		kEdge := -1
-		for k := kPeak; k < count; k++ {
-			if amp[k] < 0.5*peak {
-				kEdge = k
+		for k := kPeak + 1; k < count-10; k++ {
+			level := 0.0
+			for j := max(k-8, 0); j < k; j++ {
+				level = math.Max(level, amp[j])
+			}
+			drop := true
+			for j := k; j <= k+10 && drop; j++ {
+				drop = amp[j] < 0.5*level
+			}
+			if drop {
+				kEdge, peak = k, level
 				break
 			}
 		}
@@ -306,12 +343,15 @@ func outerRadius(p *plane.Plane, cx, cy float64, n int, guess float64) (rEdge, r
 				continue
 			}
 			// The pattern reaches the image border.
-			rEdge = float64(count)
+			rEdge = math.Floor(rInside)
 			return rEdge, rEdge - 3, rEdge-3 > minStarRadius
 		}
 		// ring k has radius k + 1; interpolate the half-amplitude crossing
 		a0, a1 := amp[kEdge-1], amp[kEdge]
-		t := (a0 - 0.5*peak) / (a0 - a1)
+		t := 0.0
+		if a0 > a1 {
+			t = math.Max(0, math.Min(1, (a0-0.5*peak)/(a0-a1)))
+		}
 		rEdge = float64(kEdge) + t
 		k90 := kEdge - 1
 		for k90 > kPeak && amp[k90] < 0.9*peak {
