@@ -234,13 +234,13 @@ func spectrumPeak(p *plane.Plane, px []pix) (fx, fy float64, ok bool) {
 		}
 	}
 	// Strongest bin away from zero frequency.
-	fmin := 2.0 / float64(min(w, h))
 	best, bm, bq := 0.0, -1, -1
 	for q := range ny {
 		fyq := float64(freqIdx(q, ny)) / float64(ny)
 		for m := range nh {
 			fxm := float64(m) / float64(nx)
-			if math.Hypot(fxm, fyq) < fmin {
+			// skip the bins next to zero frequency (the window's own lobe)
+			if math.Abs(fxm)*float64(w) < 1.5 && math.Abs(fyq)*float64(h) < 1.5 {
 				continue
 			}
 			// f^2 weighting: the spectrum of the gradient, in which the

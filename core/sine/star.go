@@ -57,7 +57,7 @@ type Flag string
 // Quality flags. Thresholds are the constants below; a flag asks the user
 // to look, it does not discard the measurement.
 const (
-	FlagCentreUncertain Flag = "centre-uncertain"     // the centre is uncertain enough to shift frequencies by > 2 % at the innermost ring
+	FlagCentreUncertain Flag = "centre-uncertain"     // the centre's uncertainty exceeds 2 % of the Nyquist radius N/pi, or 0.25 px
 	FlagAliased         Flag = "aliased"              // moire beyond Nyquist near the centre: the system passes detail it cannot sample
 	FlagClipped         Flag = "clipped"              // pattern pixels at the file's limits
 	FlagFewCycles       Flag = "few-cycles"           // fewer than 2 cycles per segment (stars) or 4 in the area (gratings)
@@ -617,7 +617,10 @@ func (s *Star) flags(opt StarOptions, seMid []float64, clipShareMeasured, aliasN
 			s.Flags = append(s.Flags, f)
 		}
 	}
-	add(s.CentreUncPx/s.InnerPx > maxFreqShift || s.CentreUncPx > 0.5, FlagCentreUncertain)
+	// The centre must be known to maxFreqShift of the Nyquist radius N/pi
+	// (else measureRings moved the innermost ring out for it) and to a
+	// quarter pixel.
+	add(s.CentreUncPx > maxFreqShift*float64(s.Cycles)/math.Pi || s.CentreUncPx > 0.25, FlagCentreUncertain)
 	if aliasN >= 12 && s.Mean > 0 {
 		v := aliasSS/aliasN - (aliasS/aliasN)*(aliasS/aliasN)
 		v -= s.NoiseRMS * s.NoiseRMS
