@@ -25,7 +25,8 @@ import (
 //     gratingRatio times the larger, and most gradient energy within 15
 //     degrees of one direction) make a grating; lines that meet in one
 //     point inside the blob (a robust least-squares meeting point through
-//     which most of the gradient energy's isophotes pass) make a star.
+//     which most of the gradient energy's isophotes pass, and about which
+//     the same angular harmonic dominates two circles) make a star.
 //     Everything else (text, clusters of small shapes) is dropped.
 //
 // Candidates are checked and measured at full resolution by MeasureStar and
@@ -39,6 +40,7 @@ const (
 	gratingRatio   = 0.15 // eigenvalue ratio below which isophotes count as parallel
 	gratingCoher   = 0.6  // share of gradient energy within 15 degrees of the main direction
 	starInliers    = 0.45 // share of gradient energy whose isophote passes the centre (within 14.5 degrees)
+	pyramidLevels  = 4
 )
 
 // FindOptions tunes Find. The zero value uses the defaults.
@@ -90,17 +92,17 @@ type Candidate struct {
 }
 
 // Find returns the sinusoidal stars and sine gratings that p seems to hold.
-// The search runs on three levels of a pyramid (reductions by k, 2k and
-// 4k), because the texture test sees periods of about 2.5 to 10 px at
-// each level: fine gratings and the inner part of stars show at the first,
-// coarse gratings at the others. Candidates found on several levels are
+// The search runs on pyramidLevels levels of a pyramid (reductions by k,
+// 2k, 4k, 8k), because the texture test sees periods of about 2.5 to 8 px
+// at each level: fine gratings and the inner part of stars show at the
+// first, coarse gratings at the others. Candidates found on several levels are
 // reported once.
 func Find(p *plane.Plane, opt FindOptions) []Candidate {
 	opt = opt.withDefaults()
 	k := max(1, int(math.Ceil(float64(max(p.W, p.H))/float64(opt.CoarsePx))))
 	c := shrink(p, k)
 	var out []Candidate
-	for level := 0; level < 3; level++ {
+	for level := 0; level < pyramidLevels; level++ {
 		if level > 0 {
 			c = shrink(c, 2)
 			k *= 2
@@ -424,6 +426,14 @@ func classify(c *plane.Plane, cp comp, keep func(x, y int) bool, minR float64) (
 	slices.Sort(dist)
 	r := dist[len(dist)*95/100] - texRad/2
 	if r < minR {
+		return Candidate{}, false
+	}
+	// The same angular harmonic must dominate two circles in the outer
+	// part of the blob, where the pattern is coarsest at this level (text
+	// and clusters of shapes have no such order).
+	k1, d1, _ := circleHarmonic(c, cx, cy, 0.6*r, 0)
+	k2, d2, _ := circleHarmonic(c, cx, cy, 0.9*r, 0)
+	if k1 < minCycles || k1 != k2 || d1 < minDominance || d2 < minDominance {
 		return Candidate{}, false
 	}
 	return Candidate{Kind: KindStar, X: cx, Y: cy, RadiusPx: r}, true

@@ -525,12 +525,16 @@ func (s *Star) reference(ringF, ringMod []float64) (float64, []Flag) {
 	return m0, []Flag{}
 }
 
-// freqGrid returns 0, step, 2 step, ... up to top (inclusive within 1e-9).
+// freqGrid returns 0, step, 2 step, ... up to top, and top itself when it
+// falls between grid points, so a curve ends where the measurement does.
 func freqGrid(step, top float64) []float64 {
 	n := int(math.Floor(top/step+1e-9)) + 1
-	g := make([]float64, n)
+	g := make([]float64, n, n+1)
 	for i := range g {
 		g[i] = float64(i) * step
+	}
+	if top-g[n-1] > 1e-9 {
+		g = append(g, top)
 	}
 	return g
 }
@@ -702,6 +706,9 @@ func (s *Star) Along(dirDeg float64) (curve.Curve, []float64) {
 			e2 += coef[e] * coef[e] * 0.25 * (a.StdErr[i]*a.StdErr[i] + b.StdErr[i]*b.StdErr[i])
 		}
 		out.Value[i], se[i] = v, math.Sqrt(e2)
+	}
+	if grid[0] == 0 {
+		out.Value[0] = 1 // every segment is 1 there; drop the rounding of the sum
 	}
 	return out, se
 }
