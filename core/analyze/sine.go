@@ -303,6 +303,9 @@ func (ps *patterns) records(img *Image, geo field.Geometry, freqs []float64) []M
 		for _, dir := range []float64{radial, radial + 90} {
 			c, se := s.Along(dir)
 			dir = math.Mod(dir+360, 180)
+			if dir > 180-1e-9 {
+				dir = 0
+			}
 			o, ang := geo.Classify(s.X, s.Y, dir)
 			rec := patternRecord("star", s.X, s.Y, o, ang, dir, c, geo, freqs, s.RefFreq, s.MaxFreq)
 			rec.PatternID = info.ID
