@@ -147,12 +147,14 @@ func Measure(p *plane.Plane, r Region, opt Options) (*Measurement, error) {
 	case ISO:
 		err = measureISO(m, p, r, freq)
 	default:
-		err = measureRefined(m, fit, s, freq)
+		err = measureRefined(m, fit, s, freq, func(core float64) (float64, float64) {
+			return pairNoise(p, r, fit, flipped, core)
+		})
 	}
 	if err != nil {
 		return nil, err
 	}
-	assess(m, s, fit)
+	assess(m, s, fit, func(core float64) (float64, float64) { return pairNoise(p, r, fit, flipped, core) })
 	return m, nil
 }
 

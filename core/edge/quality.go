@@ -26,17 +26,18 @@ const (
 
 // assess fills the plateau statistics that the estimator did not and sets
 // the quality flags.
-func assess(m *Measurement, s samples, f lineFit) {
+func assess(m *Measurement, s samples, f lineFit, noise func(core float64) (float64, float64)) {
 	core := 4*f.Width + plateauMarginPx
 	d := make([]float64, len(s.v))
 	for i := range d {
 		d[i] = f.dist(s.u[i], s.w[i])
 	}
 	if m.NoiseRMS == 0 {
-		dark, light, sdD, sdL := plateaus(d, s.v, core)
+		dark, light, _, _ := plateaus(d, s.v, core)
 		if !math.IsNaN(dark) && !math.IsNaN(light) {
 			m.Dark, m.Light = dark, light
 		}
+		sdD, sdL := noise(core)
 		m.NoiseRMS = math.Sqrt(0.5 * (sdD*sdD + sdL*sdL))
 	}
 	step := m.Light - m.Dark

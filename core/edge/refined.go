@@ -45,7 +45,7 @@ type point struct {
 	n    float64 // number of pixels merged
 }
 
-func measureRefined(m *Measurement, f lineFit, s samples, freq []float64) error {
+func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, noise func(core float64) (float64, float64)) error {
 	n := len(s.v)
 	d := make([]float64, n)
 	reach := math.Inf(1) // distance to the nearest end of the sampled profile
@@ -62,7 +62,8 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64) error 
 
 	// Plateaus, noise and the coarse profile.
 	core := math.Min(4*f.Width+2, reach-1)
-	dark, light, sdDark, sdLight := plateaus(d, s.v, core)
+	dark, light, _, _ := plateaus(d, s.v, core)
+	sdDark, sdLight := noise(core)
 	step := light - dark
 	if !(step > 0) {
 		return ErrNoEdge
