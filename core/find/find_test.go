@@ -1,6 +1,7 @@
 package find
 
 import (
+	"fmt"
 	"math"
 	"testing"
 
@@ -72,5 +73,77 @@ func TestFlat(t *testing.T) {
 	}
 	if c, r := Edges(p, Options{}); len(c) != 0 || len(r) != 0 {
 		t.Errorf("flat image gave %d candidates, %d rejects", len(c), len(r))
+	}
+}
+
+func TestLightOnDarkAndVignetting(t *testing.T) {
+	// Light squares on a dark background, lit unevenly: the light falls to
+	// a quarter towards the corners (a strong vignette), so the squares in
+	// the corners are barely brighter than the background in the middle
+	// and a single global threshold would not separate them everywhere;
+	// the local one must.
+	w, h := 900, 600
+	s := simcam.Scene{Background: 0.08}
+	for j := 0; j < 3; j++ {
+		for i := 0; i < 4; i++ {
+			s.Polygons = append(s.Polygons, simcam.Square(120+float64(i)*220, 110+float64(j)*190, 110, 7+float64(i+j)*9, 0.8))
+		}
+	}
+	p := render(t, w, h, s, 1)
+	for y := 0; y < h; y++ {
+		for x := 0; x < w; x++ {
+			r2 := (math.Pow(float64(x)-450, 2) + math.Pow(float64(y)-300, 2)) / (540 * 540)
+			p.Pix[y*w+x] *= float32(1 / (1 + 3*r2)) // falls to 1/4 at the corners
+		}
+	}
+	cands, rej := Edges(p, Options{})
+	if len(cands) != 48 {
+		t.Errorf("%d candidates, want 48 (4 sides x 12 squares); rejects %v", len(cands), rej)
+	}
+}
+
+func TestRejectReasons(t *testing.T) {
+	s := simcam.Scene{Background: 0.7, Polygons: []simcam.Polygon{
+		// A tiny square: its sides are too short.
+		simcam.Square(60, 60, 30, 5, 0.05),
+		// Two squares 10 px apart: the facing sides are crowded.
+		simcam.Square(250, 100, 120, 0, 0.05),
+		simcam.Square(380, 100, 120, 0, 0.05),
+	}}
+	p := render(t, 520, 220, s, 1)
+	_, rej := Edges(p, Options{})
+	reasons := map[string]int{}
+	for _, r := range rej {
+		reasons[r.Reason]++
+	}
+	if reasons[ReasonShort] == 0 {
+		t.Errorf("no %q among %v", ReasonShort, rej)
+	}
+	if reasons[ReasonCrowded] == 0 {
+		t.Errorf("no %q among %v", ReasonCrowded, rej)
+	}
+}
+
+func BenchmarkEdges(b *testing.B) {
+	for _, size := range []struct{ w, h int }{{1500, 1000}, {6000, 4000}} {
+		s := simcam.Scene{Background: 0.7}
+		for j := 0; j < 6; j++ {
+			for i := 0; i < 9; i++ {
+				cx := (float64(i) + 0.5) * float64(size.w) / 9
+				cy := (float64(j) + 0.5) * float64(size.h) / 6
+				s.Polygons = append(s.Polygons, simcam.Square(cx, cy, 0.3*float64(size.h)/6*2, float64(i*7+j*3), 0.05))
+			}
+		}
+		cam := simcam.Camera{W: size.w, H: size.h, Lens: simcam.Fixed{PSF: simcam.Gaussian{Sigma1: 1, Sigma2: 1}}}
+		p, err := cam.Render(s)
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.Run(fmt.Sprintf("%dx%d", size.w, size.h), func(b *testing.B) {
+			b.ReportAllocs()
+			for i := 0; i < b.N; i++ {
+				Edges(p, Options{})
+			}
+		})
 	}
 }
