@@ -45,13 +45,13 @@ const (
 
 // FindOptions tunes Find. The zero value uses the defaults.
 type FindOptions struct {
-	CoarsePx    int     // longer side of the reduced image, px (default 2000)
+	CoarsePx    int     // longer side of the reduced image, px (default 1500)
 	MinRadiusPx float64 // smallest star radius, and half the smallest grating side, to report, px (default 24)
 }
 
 func (o FindOptions) withDefaults() FindOptions {
 	if o.CoarsePx <= 0 {
-		o.CoarsePx = 2000
+		o.CoarsePx = 1500
 	}
 	if !(o.MinRadiusPx > 0) {
 		o.MinRadiusPx = 24
@@ -101,6 +101,7 @@ func Find(p *plane.Plane, opt FindOptions) []Candidate {
 	opt = opt.withDefaults()
 	k := max(1, int(math.Ceil(float64(max(p.W, p.H))/float64(opt.CoarsePx))))
 	c := shrink(p, k)
+	ws := newWorkspace(c.W * c.H)
 	var out []Candidate
 	for level := 0; level < pyramidLevels; level++ {
 		if level > 0 {
@@ -110,7 +111,7 @@ func Find(p *plane.Plane, opt FindOptions) []Candidate {
 		if c.W < 4*texRad || c.H < 4*texRad {
 			break
 		}
-		for _, cand := range findLevel(c, float64(k), opt.MinRadiusPx) {
+		for _, cand := range findLevel(ws, c, float64(k), opt.MinRadiusPx) {
 			if !duplicate(out, cand) {
 				out = append(out, cand)
 			}
@@ -122,9 +123,9 @@ func Find(p *plane.Plane, opt FindOptions) []Candidate {
 // findLevel runs the texture test and the classification on one reduced
 // image, k full-resolution px per pixel, and returns candidates in
 // full-resolution coordinates.
-func findLevel(c *plane.Plane, fk, minRadiusPx float64) []Candidate {
-	mask := textureMask(c)
-	labels, comps := components(mask, c.W, c.H)
+func findLevel(ws *workspace, c *plane.Plane, fk, minRadiusPx float64) []Candidate {
+	mask := textureMask(ws, c)
+	labels, comps := components(ws, mask, c.W, c.H)
 	minR := math.Max(minRadiusPx/fk, 2*texRad/2)
 	var out []Candidate
 	for ci, comp := range comps {
@@ -258,54 +259,61 @@ func boxMean(dst, src, tmp []float32, w, h, rad int) {
 	}
 }
 
+// workspace holds the buffers of the texture test, reused on every level
+// of the pyramid (each level is a quarter of the one before).
+type workspace struct {
+	mean, tmp, d, buf, s2 []float32
+	mask                  []bool
+	labels                []int32
+}
+
+func newWorkspace(n int) *workspace {
+	return &workspace{
+		mean: make([]float32, n), tmp: make([]float32, n), d: make([]float32, n),
+		buf: make([]float32, n), s2: make([]float32, n), mask: make([]bool, n), labels: make([]int32, n),
+	}
+}
+
 // textureMask marks the textured pixels of the reduced image c (see the
-// comment at the top of this file).
-func textureMask(c *plane.Plane) []bool {
+// comment at the top of this file). The mask lives in ws.
+func textureMask(ws *workspace, c *plane.Plane) []bool {
 	w, h := c.W, c.H
 	n := w * h
-	mean := make([]float32, n)
-	tmp := make([]float32, n)
+	mean, tmp, d, buf, s2 := ws.mean[:n], ws.tmp[:n], ws.d[:n], ws.buf[:n], ws.s2[:n]
 	boxMean(mean, c.Pix, tmp, w, h, texRad)
-	d := make([]float32, n)
 	for i := range d {
 		d[i] = c.Pix[i] - mean[i]
-	}
-	// s^2 into buf
-	buf := make([]float32, n)
-	for i := range buf {
 		buf[i] = d[i] * d[i]
 	}
-	s2 := make([]float32, n)
 	boxMean(s2, buf, tmp, w, h, texRad)
-	// crossings into buf
+	// crossings into buf: a sign change with a step above stepFactor times
+	// the local rms, compared in squares
+	const f2 = stepFactor * stepFactor
 	for y := range h {
 		for x := range w {
 			i := y*w + x
 			var z float32
-			thr := stepFactor * float32(math.Sqrt(float64(s2[i])))
-			if x+1 < w && d[i]*d[i+1] < 0 && abs32(d[i]-d[i+1]) > thr {
-				z++
+			thr2 := f2 * s2[i]
+			if x+1 < w && d[i]*d[i+1] < 0 {
+				if e := d[i] - d[i+1]; e*e > thr2 {
+					z++
+				}
 			}
-			if y+1 < h && d[i]*d[i+w] < 0 && abs32(d[i]-d[i+w]) > thr {
-				z++
+			if y+1 < h && d[i]*d[i+w] < 0 {
+				if e := d[i] - d[i+w]; e*e > thr2 {
+					z++
+				}
 			}
 			buf[i] = z
 		}
 	}
 	boxMean(d, buf, tmp, w, h, texRad) // d now holds the crossing density
-	mask := make([]bool, n)
+	mask := ws.mask[:n]
 	for i := range mask {
 		m := mean[i]
 		mask[i] = m > 0 && d[i] >= minCrossings && s2[i] >= minTexContrast*minTexContrast*m*m
 	}
 	return mask
-}
-
-func abs32(v float32) float32 {
-	if v < 0 {
-		return -v
-	}
-	return v
 }
 
 // comp is a connected component: its pixel count and bounding box.
@@ -315,9 +323,10 @@ type comp struct {
 }
 
 // components labels the 8-connected components of mask (labels 1, 2, ...;
-// 0 = background) and returns the label image and the components.
-func components(mask []bool, w, h int) ([]int32, []comp) {
-	labels := make([]int32, len(mask))
+// 0 = background) and returns the label image (in ws) and the components.
+func components(ws *workspace, mask []bool, w, h int) ([]int32, []comp) {
+	labels := ws.labels[:len(mask)]
+	clear(labels)
 	var comps []comp
 	var stack []int
 	for i, m := range mask {
