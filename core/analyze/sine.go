@@ -51,6 +51,7 @@ type StarInfo struct {
 	Modulation  float64        `json:"modulation"`
 	RefFreq     float64        `json:"ref_freq_cy_px"`
 	MaxFreq     float64        `json:"max_freq_cy_px"`
+	Resolved    float64        `json:"resolved_cy_px"` // the modulation stays above 3 standard errors up to here
 	AliasMod    float64        `json:"alias_modulation"`
 	Segments    []sine.Segment `json:"segments"`
 	Agreement   *StarAgreement `json:"agreement"` // against nearby edges; null when there are none
@@ -292,7 +293,7 @@ func (ps *patterns) records(img *Image, geo field.Geometry, freqs []float64) []M
 	for i, s := range ps.stars {
 		info := StarInfo{ID: i + 1, XPx: s.X, YPx: s.Y, HeightMM: geo.HeightMM(s.X, s.Y),
 			CentreUncPx: s.CentreUncPx, Cycles: s.Cycles, RadiusPx: s.RadiusPx, InnerPx: s.InnerPx,
-			OuterPx: s.OuterPx, Modulation: s.Modulation, RefFreq: s.RefFreq, MaxFreq: s.MaxFreq,
+			OuterPx: s.OuterPx, Modulation: s.Modulation, RefFreq: s.RefFreq, MaxFreq: s.MaxFreq, Resolved: s.ResolvedFreq,
 			AliasMod: s.AliasMod, Segments: s.Segments, Flags: []string{}, Warnings: []string{}, Records: []int{}}
 		for _, f := range s.Flags {
 			info.Flags = append(info.Flags, string(f))
@@ -573,7 +574,7 @@ var sineFlagText = map[sine.Flag]string{
 	sine.FlagCentreUncertain: "the star's centre is uncertain: its frequencies may be off",
 	sine.FlagAliased:         "moire at the star's centre: the system passes detail beyond Nyquist",
 	sine.FlagClipped:         "the pattern reaches the limit of the file's values",
-	sine.FlagFewCycles:       "few cycles: the fit rests on little of the pattern",
+	sine.FlagFewCycles:       "few cycles resolved: the fit rests on little of the pattern",
 	sine.FlagShortRange:      "measured only part of the way to Nyquist",
 	sine.FlagNotSine:         "the pattern is not sinusoidal (bars, or a tone curve that is not linear)",
 	sine.FlagNoisy:           "noisy",

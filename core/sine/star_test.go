@@ -238,6 +238,11 @@ func TestStarFlags(t *testing.T) {
 			return render(t, 300, 300, simcam.Fixed{PSF: simcam.Gaussian{Sigma1: 0.5, Sigma2: 0.5}},
 				simcam.Scene{Background: 0.7, Polygons: barStar(150, 150, 130, 24, 0.1, 0.7)})
 		}, []Flag{FlagNotSine}, nil},
+		{"heavy blur and noise: few cycles resolved", false, func(t *testing.T) *plane.Plane {
+			cam := simcam.Camera{W: 300, H: 300, Lens: simcam.Fixed{PSF: simcam.Gaussian{Sigma1: 3, Sigma2: 3}},
+				FullWellE: 2000, Seed: 5, Encoding: simcam.Linear16}
+			return capture(t, cam, simcam.Scene{Background: 0.4, Stars: []simcam.Star{clean}})
+		}, []Flag{FlagFewCycles}, nil},
 		{"noisy", false, func(t *testing.T) *plane.Plane {
 			cam := simcam.Camera{W: 300, H: 300, Lens: simcam.Fixed{PSF: simcam.Gaussian{Sigma1: 1, Sigma2: 1}},
 				FullWellE: 40, Seed: 3, Encoding: simcam.Linear16}
@@ -253,8 +258,8 @@ func TestStarFlags(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			t.Logf("flags %v (alias %.3f, third harmonic %.3f, max %.3f cy/px, centre %.3f +- %.3f px)",
-				s.Flags, s.AliasMod, s.ThirdHarmonic, s.MaxFreq, math.Hypot(s.X-150, s.Y-150), s.CentreUncPx)
+			t.Logf("flags %v (alias %.3f, third harmonic %.3f, max %.3f resolved %.3f cy/px, centre %.3f +- %.3f px)",
+				s.Flags, s.AliasMod, s.ThirdHarmonic, s.MaxFreq, s.ResolvedFreq, math.Hypot(s.X-150, s.Y-150), s.CentreUncPx)
 			for _, f := range c.want {
 				if !hasFlag(s.Flags, f) {
 					t.Errorf("missing flag %s", f)
