@@ -55,6 +55,9 @@ func TestLookStars(t *testing.T) {
 		}
 		f.Close()
 		t.Logf("%s: agreement %+v, warnings %q", c.name, img.Agreement, img.Warnings)
+		for _, s := range img.Stars {
+			t.Logf("  star %d: flags %v, resolved to %.3f cy/px, centre +- %.3f px", s.ID, s.Flags, s.Resolved, s.CentreUncPx)
+		}
 	}
 }
 

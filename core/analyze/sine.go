@@ -579,6 +579,7 @@ var sineFlagText = map[sine.Flag]string{
 	sine.FlagNotSine:         "the pattern is not sinusoidal (bars, or a tone curve that is not linear)",
 	sine.FlagNoisy:           "noisy",
 	sine.FlagWeakReference:   "the low-frequency reference is not low enough: values may read high",
+	sine.FlagSharpened:       "the star's modulation rises with frequency (in-camera sharpening): it is normalised at its largest ring, so it reads low by that ring's own gain",
 	sine.FlagDisagree:        "disagrees with nearby edges",
 }
 

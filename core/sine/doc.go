@@ -45,14 +45,19 @@
 //     of a ring is N / (2 pi r) at its radius; the direction of measurement
 //     of a segment is perpendicular to the radius through its middle.
 //  5. Normalisation: the star's modulation at zero frequency, M0, is the
-//     value at f = 0 of log M(f) = log M0 - beta f^2 fitted to the outer
-//     rings (f from the largest usable radius up to 0.05 cy/px beyond). A
-//     finite-second-moment PSF has an MTF that is quadratic in f near 0, so
-//     this removes most of the loss that plain normalisation by the largest
-//     radius would leave (for a Gaussian PSF of sigma 1.5 px and a largest
-//     radius at 0.04 cy/px the outer ring already carries only 94 % of the
-//     modulation). Star.OuterMod keeps the largest radius' value for
-//     comparison.
+//     value at f = 0 of log M(f) = c0 + c1 f + c2 f^2 fitted to the outer
+//     rings (f from the largest usable radius up to 0.1 cy/px beyond). The
+//     quadratic term is the leading one for blur with finite second moments
+//     (Gaussian, pixel aperture), the linear one for diffraction, whose MTF
+//     falls linearly from 1 (Goodman ch. 6). Plain normalisation by the
+//     largest radius would leave the loss there in every value: for a
+//     Gaussian PSF of sigma 2 px and a largest radius at 0.054 cy/px the
+//     outer ring carries only 79 % of the modulation. Star.OuterMod keeps
+//     the largest radius' value for comparison; a correction beyond 25 % is
+//     flagged. When the modulation rises with frequency at the largest
+//     radius (in-camera sharpening; no lens does that) the trend below it is
+//     unknown: the star is then normalised by the largest radius, as in the
+//     standard's method, and flagged "sharpened".
 //  6. Curves: each segment's ring values divided by M0 are resampled onto a
 //     0.01 cy/px grid by local linear regression. Frequencies below the
 //     largest radius' (Star.RefFreq) are not measured: the curve joins 1 at

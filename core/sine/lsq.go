@@ -137,3 +137,34 @@ func (s sym2) eig() (l1, l2, ang float64) {
 	d := math.Hypot((s[0]-s[2])/2, s[1])
 	return tr/2 + d, tr/2 - d, 0.5 * math.Atan2(2*s[1], s[0]-s[2])
 }
+
+// normalEq3 accumulates the normal equations of a three-term linear
+// least-squares fit.
+type normalEq3 struct {
+	a [3][3]float64
+	b [3]float64
+}
+
+func (e *normalEq3) add(x [3]float64, v float64) {
+	for i := range 3 {
+		for j := range 3 {
+			e.a[i][j] += x[i] * x[j]
+		}
+		e.b[i] += x[i] * v
+	}
+}
+
+// solve returns the coefficients; ok is false when the basis is degenerate.
+func (e *normalEq3) solve() ([3]float64, bool) {
+	var out [3]float64
+	inv, ok := inv3(e.a)
+	if !ok {
+		return out, false
+	}
+	for i := range 3 {
+		for j := range 3 {
+			out[i] += inv[i][j] * e.b[j]
+		}
+	}
+	return out, true
+}

@@ -277,32 +277,50 @@ func (s *Star) measureRings(p *plane.Plane, opt StarOptions) error {
 	return nil
 }
 
-// reference fits log M(f) = log M0 - beta f^2 to the rings from RefFreq to
-// RefFreq + refBandCyPx and returns M0 (see the package doc). It falls back
+// reference returns the star's modulation at zero frequency, M0: the value
+// at f = 0 of
+//
+//	log M(f) = c0 + c1 f + c2 f^2
+//
+// fitted by least squares to the rings from RefFreq to RefFreq +
+// refBandCyPx. Near zero frequency the MTF of a PSF with finite second
+// moments is 1 - a f^2 (Gaussian blur, the pixel aperture), and that of a
+// diffraction-limited lens falls linearly, 1 - 4 f / (pi vc) (from the OTF
+// of a circular pupil, Goodman ch. 6), so both terms are kept. It falls back
 // to the outer ring's modulation, with FlagWeakReference, when the fit has
-// too few rings or would change the reference by more than maxRefCorr.
+// fewer than 6 rings or gives a ratio M0 / OuterMod outside [1/maxRefRatio,
+// maxRefRatio], and flags (but uses) a correction beyond flagRefCorr. When
+// the fitted modulation rises with frequency at RefFreq it falls back too,
+// with FlagSharpened.
 func (s *Star) reference(ringF, ringMod []float64) (float64, []Flag) {
-	var sx, sy, sxx, sxy, n float64
-	top := s.RefFreq + refBandCyPx
+	var ne normalEq3
+	n := 0
 	for k := range ringF {
-		if ringF[k] > top || !(ringMod[k] > 0) {
+		if ringF[k] > s.RefFreq+refBandCyPx || !(ringMod[k] > 0) {
 			continue
 		}
-		x, y := ringF[k]*ringF[k], math.Log(ringMod[k])
-		sx += x
-		sy += y
-		sxx += x * x
-		sxy += x * y
+		f := ringF[k]
+		ne.add([3]float64{1, f, f * f}, math.Log(ringMod[k]))
 		n++
 	}
-	d := n*sxx - sx*sx
-	if n < 4 || !(d > 0) {
+	b, ok := ne.solve()
+	if n < 6 || !ok {
 		return s.OuterMod, []Flag{FlagWeakReference}
 	}
-	beta := -(n*sxy - sx*sy) / d
-	m0 := math.Exp((sy + beta*sx) / n)
-	if math.Abs(m0/s.OuterMod-1) > maxRefCorr {
+	// A modulation that rises with frequency at the largest ring is
+	// in-camera sharpening (no lens does that): then the trend below the
+	// largest ring is unknown, and the star is normalised there, as the
+	// s-SFR method does, and says so.
+	if b[1]+2*b[2]*s.RefFreq > 0 {
+		return s.OuterMod, []Flag{FlagSharpened}
+	}
+	m0 := math.Exp(b[0])
+	r := m0 / s.OuterMod
+	if !(r >= 1/maxRefRatio && r <= maxRefRatio) {
 		return s.OuterMod, []Flag{FlagWeakReference}
+	}
+	if math.Abs(r-1) > flagRefCorr {
+		return m0, []Flag{FlagWeakReference}
 	}
 	return m0, []Flag{}
 }

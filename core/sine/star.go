@@ -64,7 +64,8 @@ const (
 	FlagShortRange      Flag = "short-range"          // the measurement stops below Nyquist
 	FlagNotSine         Flag = "not-sine"             // strong third harmonic: a bar pattern, or a tone curve that is not linear
 	FlagNoisy           Flag = "noisy"                // the MTF's standard error exceeds 0.03 at mid frequencies
-	FlagWeakReference   Flag = "weak-reference"       // the zero-frequency modulation rests on a long extrapolation
+	FlagWeakReference   Flag = "weak-reference"       // the zero-frequency modulation rests on a long extrapolation (> 25 %), or none was possible
+	FlagSharpened       Flag = "sharpened"            // the modulation rises with frequency at the largest ring: normalised there, reads low
 	FlagDisagree        Flag = "disagrees-with-edges" // set by the caller when nearby edges measure otherwise
 )
 
@@ -76,8 +77,9 @@ const (
 	darkLimit       = 1e-6  // linear value at or below which a pixel sits at the bottom code
 	maxThirdHarm    = 0.15  // third/first harmonic amplitude at the outer radius
 	maxStdErr       = 0.03  // median standard error of the normalised MTF, 0.05..0.35 cy/px
-	maxRefCorr      = 0.15  // largest accepted change of the reference by extrapolation
-	refBandCyPx     = 0.05  // width of the band above RefFreq used to extrapolate to 0
+	flagRefCorr     = 0.25  // an extrapolation that changes the reference by more is flagged
+	maxRefRatio     = 2.0   // one that changes it by more than this factor is not used
+	refBandCyPx     = 0.1   // width of the band above RefFreq used to extrapolate to 0
 	minCellPixels   = 8     // fewest pixels in a ring segment at the innermost ring
 	resolvedSE      = 3     // modulation below this many standard errors is not resolved
 	minResolvedFreq = 0.25  // cy/px: a star resolved only below this has too few cycles resolved
