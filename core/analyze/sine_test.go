@@ -160,6 +160,7 @@ func TestStarsAgreeWithEdges(t *testing.T) {
 			for f := 0.05; f <= 0.35+1e-9; f += 0.01 {
 				d = math.Max(d, math.Abs(sc.At(f)-ec.At(f)))
 			}
+			t.Logf("star %s, edge %d at %.2f mm: max difference %.4f", st.Orientation, e.ID, e.HeightMM, d)
 			if d > 0.05 {
 				t.Errorf("star %s and edge %d differ by %.3f", st.Orientation, e.ID, d)
 			}
