@@ -115,8 +115,9 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 
 	progress(StageFinding, 0.15)
 	cands, rejects := find.Edges(dec.Lum, find.Options{})
-	pats := findPatterns(dec.Lum, geo) // sine stars and gratings (sine.go)
+	pats := findPatterns(ctx, dec.Lum, geo, s.Workers) // sine stars and gratings (sine.go)
 	cands, rejects = pats.exclude(cands, rejects)
+	img.Rejected = append(img.Rejected, pats.rejected...)
 	for _, r := range rejects {
 		img.Rejected = append(img.Rejected, Rejected{r.X0, r.Y0, r.X1, r.Y1, r.Reason})
 	}

@@ -55,7 +55,7 @@ func BenchmarkWholePhoto(b *testing.B) {
 		geo := field.NewGeometry(dec.Width, dec.Height, 6)
 		b.ReportAllocs()
 		for i := 0; i < b.N; i++ {
-			findPatterns(dec.Lum, geo)
+			findPatterns(context.Background(), dec.Lum, geo, 0)
 		}
 	})
 	b.Run("measure", func(b *testing.B) {

@@ -1,9 +1,13 @@
 package analyze
 
 import (
+	"context"
+	"errors"
 	"fmt"
 	"math"
+	"runtime"
 	"sort"
+	"sync"
 
 	"sagitta/core/curve"
 	"sagitta/core/edge"
@@ -123,29 +127,62 @@ type patterns struct {
 	gratings []*sine.Grating
 	discs    [][3]float64    // x, y, r of areas kept clear of edge finding
 	quads    [][4][2]float64 // likewise
+	rejected []Rejected      // stars found but not measurable
 }
 
-// findPatterns finds and measures the sine patterns of the linear plane p.
-func findPatterns(p *plane.Plane, geo field.Geometry) *patterns {
+// findPatterns finds and measures the sine patterns of the linear plane p,
+// measuring them in parallel over workers goroutines (GOMAXPROCS when 0).
+// Stars that are real but unusable are listed in rejected.
+func findPatterns(ctx context.Context, p *plane.Plane, geo field.Geometry, workers int) *patterns {
 	ps := &patterns{}
-	for _, c := range sine.Find(p, sine.FindOptions{}) {
-		switch c.Kind {
-		case sine.KindStar:
-			align := math.Atan2(c.Y-geo.CenterY, c.X-geo.CenterX) * 180 / math.Pi
-			s, err := measureStar(p, c, align)
-			if err != nil {
-				continue
+	cands := sine.Find(p, sine.FindOptions{})
+	type result struct {
+		s   *sine.Star
+		g   *sine.Grating
+		err error
+	}
+	res := make([]result, len(cands))
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	var wg sync.WaitGroup
+	next := make(chan int)
+	for range min(workers, max(len(cands), 1)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				c := cands[i]
+				if c.Kind == sine.KindStar {
+					align := math.Atan2(c.Y-geo.CenterY, c.X-geo.CenterX) * 180 / math.Pi
+					res[i].s, res[i].err = measureStar(p, c, align)
+				} else {
+					res[i].g, res[i].err = measureGrating(p, c)
+				}
 			}
-			ps.stars = append(ps.stars, s)
-			r := math.Max(s.RadiusPx, c.RadiusPx)
-			ps.discs = append(ps.discs, [3]float64{s.X, s.Y, r + math.Max(patternMarginPx, 0.05*r)})
-		case sine.KindGrating:
-			g, err := measureGrating(p, c)
-			if err != nil {
-				continue
-			}
-			ps.gratings = append(ps.gratings, g)
+		}()
+	}
+	for i := range cands {
+		if ctx.Err() != nil {
+			break
+		}
+		next <- i
+	}
+	close(next)
+	wg.Wait()
+	for i, c := range cands {
+		r := res[i]
+		switch {
+		case r.s != nil:
+			ps.stars = append(ps.stars, r.s)
+			rad := math.Max(r.s.RadiusPx, c.RadiusPx)
+			ps.discs = append(ps.discs, [3]float64{r.s.X, r.s.Y, rad + math.Max(patternMarginPx, 0.05*rad)})
+		case r.g != nil:
+			ps.gratings = append(ps.gratings, r.g)
 			ps.quads = append(ps.quads, grow(c.Corners, patternMarginPx))
+		case errors.Is(r.err, sine.ErrStarTooSmall):
+			ps.rejected = append(ps.rejected, Rejected{c.X - c.RadiusPx, c.Y, c.X + c.RadiusPx, c.Y,
+				"sine star too small for its number of cycles"})
 		}
 	}
 	return ps
@@ -314,7 +351,10 @@ func (ps *patterns) records(img *Image, geo field.Geometry, freqs []float64) []M
 			rec.Flags, rec.Warnings = append(rec.Flags, info.Flags...), append(rec.Warnings, info.Warnings...)
 			r := s.RadiusPx
 			rec.Region = [4][2]float64{{s.X - r, s.Y - r}, {s.X + r, s.Y - r}, {s.X + r, s.Y + r}, {s.X - r, s.Y + r}}
-			rec.Contrast = Number((1 + s.Modulation) / (1 - s.Modulation))
+			rec.Contrast = Number(math.NaN()) // light/dark ratio; undefined for a modulation of 1 or more (bars)
+			if s.Modulation < 1 {
+				rec.Contrast = Number((1 + s.Modulation) / (1 - s.Modulation))
+			}
 			if s.NoiseRMS > 0 {
 				rec.SNR = Number(s.Modulation * s.Mean / s.NoiseRMS)
 			} else {

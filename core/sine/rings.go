@@ -141,6 +141,8 @@ func outerRadius(p *plane.Plane, cx, cy float64, n int, guess float64) (rEdge, r
 		}
 		r90 := 1 + float64(k90)
 		rOut = math.Floor(r90 - math.Max(rEdge-r90, 1) - 1)
+		// keep every measured ring whole inside the image
+		rOut = math.Min(rOut, math.Floor(rInside)-1)
 		return rEdge, rOut, rOut > minStarRadius
 	}
 }
@@ -263,15 +265,23 @@ func (s *Star) measureRings(p *plane.Plane, opt StarOptions) error {
 		seg.Curve.Freq = grid
 		seg.Curve.Value = make([]float64, len(grid))
 		seg.StdErr = make([]float64, len(grid))
-		if len(fr) >= 2 {
-			s.resample(&seg, fr, vr, er)
+		if len(fr) < 2 {
+			return ErrNoStar // a segment without data: nothing to report for it
 		}
+		s.resample(&seg, fr, vr, er)
 		for i, f := range grid {
 			if f >= 0.05 && f <= 0.35 {
 				seMid = append(seMid, seg.StdErr[i])
 			}
 		}
 		s.Segments = append(s.Segments, seg)
+	}
+	for _, sg := range s.Segments {
+		for i := range sg.Curve.Value {
+			if !finite(sg.Curve.Value[i]) || !finite(sg.StdErr[i]) {
+				return ErrNoStar // a fit that came apart; never hand on NaN
+			}
+		}
 	}
 	s.flags(opt, seMid, clipped/math.Max(clipN, 1), aliasN, aliasS, aliasSS)
 	return nil
@@ -475,3 +485,5 @@ func (s *Star) resolved() float64 {
 	}
 	return s.MaxFreq
 }
+
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
