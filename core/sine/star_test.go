@@ -357,3 +357,32 @@ func TestMeasureStarErrors(t *testing.T) {
 		})
 	}
 }
+
+// TestStarAtBorder: a star cut by the image border is measured on the
+// rings that lie whole inside the image, still within 0.05 of the
+// analytic MTF (as TestStarMTF) over the frequencies those rings reach.
+func TestStarAtBorder(t *testing.T) {
+	if testing.Short() {
+		t.Skip("heavy")
+	}
+	st := simcam.Star{X: 180.4, Y: 95.2, Radius: 150, Cycles: 48, Mean: 0.4, Amplitude: 0.3}
+	lens := simcam.Fixed{PSF: simcam.Gaussian{Sigma1: 1, Sigma2: 1}}
+	p := render(t, 360, 300, lens, simcam.Scene{Background: 0.6, Stars: []simcam.Star{st}})
+	s, err := MeasureStar(p, StarGuess{X: 180, Y: 96, RadiusPx: 80}, StarOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s.OuterPx > st.Y-0.5 {
+		t.Errorf("outer ring %.1f px reaches beyond the border at %.1f px", s.OuterPx, st.Y)
+	}
+	for _, dir := range []float64{0, 90} {
+		got, _ := s.Along(dir)
+		worst, at := maxErr(got.Freq, got.Value, s.RefFreq, 0.35, func(f float64) float64 {
+			return simcam.TrueMTF(lens, 0, 0, dir, f)
+		})
+		t.Logf("direction %.0f: max error %.4f at %.2f cy/px (outer ring %.1f px, from %.3f cy/px)", dir, worst, at, s.OuterPx, s.RefFreq)
+		if worst > 0.05 {
+			t.Errorf("direction %.0f: %.3f from the analytic MTF at %.2f cy/px", dir, worst, at)
+		}
+	}
+}
