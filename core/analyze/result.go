@@ -37,6 +37,10 @@ type Image struct {
 	Measurements []Measurement `json:"measurements"`
 	Rejected     []Rejected    `json:"rejected"`
 	Warnings     []string      `json:"warnings"`
+
+	// Summary describes sharpness across the frame (field curves, MTF50
+	// map, astigmatism, balance); see field.Summary.
+	Summary *field.Summary `json:"summary"`
 }
 
 // Measurement is one measured target (one edge, or one orientation of a

@@ -1,0 +1,313 @@
+package field
+
+import (
+	"math"
+	"sort"
+)
+
+// LOWESS: locally weighted linear regression with bisquare robustness
+// iterations, after W. S. Cleveland, "Robust locally weighted regression and
+// smoothing scatterplots", J. Amer. Statist. Assoc. 74 (1979) 829-836,
+// https://doi.org/10.1080/01621459.1979.10481038 (section 2 for the fit,
+// section 3 for the choices used here).
+//
+// At a point x0 the q = round(span * n) points nearest in x form the
+// neighbourhood; h is the distance to the farthest of them. Point k gets the
+// weight
+//
+//	v_k = r_k * W(|x_k - x0| / h),  W(u) = (1 - u^3)^3 for u < 1, else 0 (tricube),
+//
+// where r_k is its robustness weight (1 in the first pass), and the fit is
+// the weighted least-squares line through the neighbourhood evaluated at x0.
+// After each pass the residuals e_i give s = median |e_i| and new robustness
+// weights r_i = B(e_i / (6 s)), B(u) = (1 - u^2)^2 for |u| < 1, else 0
+// (bisquare). Cleveland recommends two robustness iterations; so do we.
+//
+// The fit is linear in the data: yhat(x0) = sum_k l_k(x0) y_k with
+//
+//	l_k(x0) = v_k [1/V + (x0 - xbar)(x_k - xbar) / S],
+//	V = sum v_k, xbar = sum v_k x_k / V, S = sum v_k (x_k - xbar)^2,
+//
+// so with a residual scale sigma the pointwise standard error is
+// se(x0) = sigma sqrt(sum_k l_k(x0)^2) (W. S. Cleveland and S. J. Devlin,
+// "Locally weighted regression: an approach to regression analysis by local
+// fitting", J. Amer. Statist. Assoc. 83 (1988) 596-610, section 2; it treats
+// the final robustness weights as fixed and ignores the smoothing bias).
+//
+// Deviations from Cleveland (1979): the span is chosen from Spans by
+// leave-one-out cross-validation (see chooseSpan) instead of being fixed;
+// the bisquare and the standard error use the local median residual of the
+// neighbourhood instead of the global one (see localMAD); the neighbourhood
+// never holds fewer than minNeighbours points; and when every weight of a
+// neighbourhood is zero the robustness weights are dropped there.
+
+// Spans are the candidate fractions of the points that form each local
+// neighbourhood; the smoother picks one by cross-validation.
+var Spans = []float64{0.25, 0.33, 0.45, 0.6, 0.8}
+
+// RobustIterations is the number of bisquare robustness passes after the
+// first fit (Cleveland 1979, section 3: "t = 2").
+const RobustIterations = 2
+
+// minNeighbours is the smallest neighbourhood of a local line.
+const minNeighbours = 6
+
+// smooth is a fitted LOWESS curve over points sorted by x.
+type smooth struct {
+	x, y   []float64 // data sorted by x
+	rw     []float64 // final robustness weights, 0..1
+	fit    []float64 // fitted values at the data
+	lii    []float64 // diagonal of the smoother matrix, l_i(x_i)
+	q      int       // neighbourhood size, points
+	span   float64   // q / n as chosen
+	sigma  float64   // robust residual scale of the whole curve
+	mad    float64   // median absolute residual of the whole curve
+	dof    float64   // sqrt(n / (n - nu)), the scale's degrees-of-freedom factor
+	absRes []float64 // absolute residuals of the final fit
+	sel    []float64 // scratch for local medians
+	nu     float64   // equivalent number of parameters, trace of the smoother
+	cv     float64   // cross-validation score of this span
+	wbuf   []float64 // scratch local weights
+}
+
+// newSmooth sorts the points by x (keeping pairs together) and returns an
+// unfitted smoother. It panics if len(x) != len(y) (a programmer error).
+func newSmooth(x, y []float64) *smooth {
+	if len(x) != len(y) {
+		panic("field: lowess x and y lengths differ")
+	}
+	idx := make([]int, len(x))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return x[idx[a]] < x[idx[b]] })
+	s := &smooth{x: make([]float64, len(x)), y: make([]float64, len(x))}
+	for i, k := range idx {
+		s.x[i], s.y[i] = x[k], y[k]
+	}
+	return s
+}
+
+// fitSpan fits the curve with a neighbourhood of round(span * n) points (at
+// least minNeighbours, at most n) and iters robustness passes.
+func (s *smooth) fitSpan(span float64, iters int) {
+	n := len(s.x)
+	s.q = min(n, max(minNeighbours, int(math.Round(span*float64(n)))))
+	s.span = float64(s.q) / float64(n)
+	s.rw = resize(s.rw, n)
+	s.fit = resize(s.fit, n)
+	s.lii = resize(s.lii, n)
+	s.wbuf = resize(s.wbuf, s.q)
+	for i := range s.rw {
+		s.rw[i] = 1
+	}
+	res := make([]float64, n)
+	for pass := 0; ; pass++ {
+		for i := range s.x {
+			s.fit[i], _, s.lii[i] = s.local(s.x[i], i, nil)
+		}
+		for i := range res {
+			res[i] = math.Abs(s.y[i] - s.fit[i])
+		}
+		m := median(append([]float64(nil), res...))
+		if pass == iters || !(m > 1e-12*(1+maxAbs(s.y))) {
+			break
+		}
+		for i, e := range res {
+			u := e / (6 * s.localMAD(s.x[i], res, m))
+			if u < 1 {
+				s.rw[i] = (1 - u*u) * (1 - u*u)
+			} else {
+				s.rw[i] = 0
+			}
+		}
+	}
+	s.absRes = res
+	// Residual scale: 1.4826 * MAD is the normal-consistent robust scale
+	// (Hampel 1974; common practice), inflated by n / (n - nu) for the
+	// parameters the smoother spends.
+	s.nu = 0
+	for _, l := range s.lii {
+		s.nu += l
+	}
+	s.mad = median(append([]float64(nil), res...))
+	s.dof = math.Sqrt(float64(n) / math.Max(float64(n)-s.nu, 1))
+	s.sigma = 1.4826 * s.mad * s.dof
+	// Leave-one-out residual of a linear smoother: e_i / (1 - l_ii)
+	// (T. J. Hastie and R. J. Tibshirani, Generalized Additive Models (1990),
+	// section 3.4), weighted by the robustness weights so outliers do not
+	// steer the choice.
+	var num, den float64
+	for i := range res {
+		d := 1 - s.lii[i]
+		if d < 1e-6 {
+			d = 1e-6
+		}
+		e := (s.y[i] - s.fit[i]) / d
+		num += s.rw[i] * e * e
+		den += s.rw[i]
+	}
+	s.cv = num / math.Max(den, 1e-12)
+}
+
+// chooseSpan fits every span in spans and keeps the one with the smallest
+// cross-validation score (ties go to the wider span, which is listed later).
+func (s *smooth) chooseSpan(spans []float64, iters int) {
+	best, bestCV := -1.0, math.Inf(1)
+	seen := map[int]bool{}
+	for _, f := range spans {
+		s.fitSpan(f, iters)
+		if seen[s.q] {
+			continue
+		}
+		seen[s.q] = true
+		if s.cv <= bestCV {
+			best, bestCV = f, s.cv
+		}
+	}
+	s.fitSpan(best, iters)
+}
+
+// local fits the weighted line at x0 and returns its value there, the sum of
+// the squared smoother weights sum_k l_k(x0)^2, and l_self(x0) for the data
+// index self (0 if self < 0). If l is not nil it receives l_k(x0) for every
+// data index k (zero outside the neighbourhood).
+func (s *smooth) local(x0 float64, self int, l []float64) (yhat, sumL2, lself float64) {
+	lo := s.window(x0)
+	hi := lo + s.q
+	h := math.Max(x0-s.x[lo], s.x[hi-1]-x0)
+	w := s.wbuf[:s.q]
+	for pass := 0; pass < 2; pass++ {
+		var V float64
+		for k := lo; k < hi; k++ {
+			u := 0.0
+			if h > 0 {
+				u = math.Abs(s.x[k]-x0) / h
+			}
+			t := 0.0
+			if u < 1 {
+				t = 1 - u*u*u
+				t = t * t * t
+			}
+			if pass == 0 {
+				t *= s.rw[k]
+			}
+			w[k-lo] = t
+			V += t
+		}
+		if V > 0 {
+			break
+		}
+		if pass == 1 {
+			// Every neighbour lies at distance h (only possible when
+			// q = n and x0 is at the middle of two clusters): equal weights.
+			for k := range w {
+				w[k] = 1
+			}
+		}
+	}
+	var V, xbar float64
+	for k := lo; k < hi; k++ {
+		V += w[k-lo]
+		xbar += w[k-lo] * s.x[k]
+	}
+	xbar /= V
+	var S float64
+	for k := lo; k < hi; k++ {
+		d := s.x[k] - xbar
+		S += w[k-lo] * d * d
+	}
+	// A neighbourhood whose x spread is negligible fits a local constant.
+	slope := S > 1e-12*V*(1+xbar*xbar)
+	if l != nil {
+		for k := range l {
+			l[k] = 0
+		}
+	}
+	for k := lo; k < hi; k++ {
+		lk := w[k-lo] / V
+		if slope {
+			lk = w[k-lo] * (1/V + (x0-xbar)*(s.x[k]-xbar)/S)
+		}
+		yhat += lk * s.y[k]
+		sumL2 += lk * lk
+		if k == self {
+			lself = lk
+		}
+		if l != nil {
+			l[k] = lk
+		}
+	}
+	return yhat, sumL2, lself
+}
+
+// window returns the first index of the q points nearest to x0 (a
+// contiguous run of the sorted x).
+func (s *smooth) window(x0 float64) int {
+	n := len(s.x)
+	// Start with the run whose left end is the first x >= x0 - ..., then
+	// slide: the run [lo, lo+q) moves right while the point that would
+	// enter is nearer than the one that would leave.
+	lo := sort.SearchFloat64s(s.x, x0) - s.q/2
+	lo = max(0, min(lo, n-s.q))
+	for lo > 0 && x0-s.x[lo-1] < s.x[lo+s.q-1]-x0 {
+		lo--
+	}
+	for lo+s.q < n && s.x[lo+s.q]-x0 < x0-s.x[lo] {
+		lo++
+	}
+	return lo
+}
+
+// at returns the fitted value and its standard error at x0, the latter
+// from the local residual scale (see localMAD).
+func (s *smooth) at(x0 float64) (value, se float64) {
+	v, l2, _ := s.local(x0, -1, nil)
+	return v, 1.4826 * s.localMAD(x0, s.absRes, s.mad) * s.dof * math.Sqrt(l2)
+}
+
+// localMAD returns the median of the absolute residuals res over the
+// neighbourhood of x0 (the q nearest points), or global when that median
+// is zero. Cleveland (1979) scales the bisquare by the median over all
+// points; field data are heteroscedastic (the scatter grows towards the
+// corners, and a decentred lens splits the points at one height into a
+// sharp and a soft group), and a global scale would then discard whole
+// groups of valid outer measurements as outliers. A local scale keeps
+// rejecting isolated outliers only.
+func (s *smooth) localMAD(x0 float64, res []float64, global float64) float64 {
+	lo := s.window(x0)
+	s.sel = append(s.sel[:0], res[lo:lo+s.q]...)
+	if m := median(s.sel); m > 0 {
+		return m
+	}
+	return global
+}
+
+// median returns the median of v, reordering it; NaN for an empty slice.
+func median(v []float64) float64 {
+	n := len(v)
+	if n == 0 {
+		return math.NaN()
+	}
+	sort.Float64s(v)
+	if n%2 == 1 {
+		return v[n/2]
+	}
+	return (v[n/2-1] + v[n/2]) / 2
+}
+
+func maxAbs(v []float64) float64 {
+	m := 0.0
+	for _, x := range v {
+		m = math.Max(m, math.Abs(x))
+	}
+	return m
+}
+
+// resize returns v with length n, reusing its storage when it can.
+func resize(v []float64, n int) []float64 {
+	if cap(v) >= n {
+		return v[:n]
+	}
+	return make([]float64, n)
+}
