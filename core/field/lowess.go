@@ -35,15 +35,17 @@ import (
 // the final robustness weights as fixed and ignores the smoothing bias).
 //
 // Deviations from Cleveland (1979): the span is chosen from Spans by
-// leave-one-out cross-validation (see chooseSpan) instead of being fixed;
+// cross-validation (see chooseSpan and clusterCV) instead of being fixed;
 // the bisquare and the standard error use the local median residual of the
 // neighbourhood instead of the global one (see localMAD); the neighbourhood
-// never holds fewer than minNeighbours points; and when every weight of a
-// neighbourhood is zero the robustness weights are dropped there.
+// never holds fewer than minNeighbours points, and widens until minHeights
+// distinct heights carry weight (measurements cluster at equal heights);
+// and when every weight of a neighbourhood is zero the robustness weights
+// are dropped there.
 
 // Spans are the candidate fractions of the points that form each local
 // neighbourhood; the smoother picks one by cross-validation.
-var Spans = []float64{0.25, 0.33, 0.45, 0.6, 0.8}
+var Spans = []float64{0.1, 0.15, 0.2, 0.25, 0.33, 0.45, 0.6, 0.8}
 
 // RobustIterations is the number of bisquare robustness passes after the
 // first fit (Cleveland 1979, section 3: "t = 2").
@@ -51,6 +53,10 @@ const RobustIterations = 2
 
 // minNeighbours is the smallest neighbourhood of a local line.
 const minNeighbours = 6
+
+// minHeights is the fewest distinct heights with a non-zero weight in a
+// local fit; the neighbourhood widens until it holds them.
+const minHeights = 3
 
 // smooth is a fitted LOWESS curve over points sorted by x.
 type smooth struct {
@@ -97,14 +103,13 @@ func (s *smooth) fitSpan(span float64, iters int) {
 	s.rw = resize(s.rw, n)
 	s.fit = resize(s.fit, n)
 	s.lii = resize(s.lii, n)
-	s.wbuf = resize(s.wbuf, s.q)
 	for i := range s.rw {
 		s.rw[i] = 1
 	}
 	res := make([]float64, n)
 	for pass := 0; ; pass++ {
 		for i := range s.x {
-			s.fit[i], _, s.lii[i] = s.local(s.x[i], i, nil)
+			s.fit[i], _, s.lii[i] = s.local(s.x[i], i, -1, -1)
 		}
 		for i := range res {
 			res[i] = math.Abs(s.y[i] - s.fit[i])
@@ -133,21 +138,41 @@ func (s *smooth) fitSpan(span float64, iters int) {
 	s.mad = median(append([]float64(nil), res...))
 	s.dof = math.Sqrt(float64(n) / math.Max(float64(n)-s.nu, 1))
 	s.sigma = 1.4826 * s.mad * s.dof
-	// Leave-one-out residual of a linear smoother: e_i / (1 - l_ii)
-	// (T. J. Hastie and R. J. Tibshirani, Generalized Additive Models (1990),
-	// section 3.4), weighted by the robustness weights so outliers do not
-	// steer the choice.
+	s.cv = s.clusterCV()
+}
+
+// clusterCV returns the cross-validation score of the current fit: the
+// robustness-weighted mean squared error of predicting each measurement
+// from the others, leaving out at once every measurement at (nearly) the
+// same height. Leaving out one point at a time, which the hat-matrix
+// shortcut e_i / (1 - l_ii) of a linear smoother gives (T. J. Hastie and
+// R. J. Tibshirani, Generalized Additive Models (1990), section 3.4), would
+// let the tied neighbours of a point predict it and favour spans that are
+// too narrow; leaving out whole groups is the usual remedy for grouped data
+// (common practice).
+func (s *smooth) clusterCV() float64 {
+	n := len(s.x)
+	tol := 1e-3 * (s.x[n-1] - s.x[0])
 	var num, den float64
-	for i := range res {
-		d := 1 - s.lii[i]
-		if d < 1e-6 {
-			d = 1e-6
+	for a := 0; a < n; {
+		b := a + 1
+		for b < n && s.x[b]-s.x[b-1] <= tol {
+			b++
 		}
-		e := (s.y[i] - s.fit[i]) / d
-		num += s.rw[i] * e * e
-		den += s.rw[i]
+		if b-a < n {
+			for i := a; i < b; i++ {
+				v, _, _ := s.local(s.x[i], -1, a, b)
+				e := s.y[i] - v
+				num += s.rw[i] * e * e
+				den += s.rw[i]
+			}
+		}
+		a = b
 	}
-	s.cv = num / math.Max(den, 1e-12)
+	if !(den > 0) {
+		return math.Inf(1)
+	}
+	return num / den
 }
 
 // chooseSpan fits every span in spans and keeps the one with the smallest
@@ -170,13 +195,25 @@ func (s *smooth) chooseSpan(spans []float64, iters int) {
 
 // local fits the weighted line at x0 and returns its value there, the sum of
 // the squared smoother weights sum_k l_k(x0)^2, and l_self(x0) for the data
-// index self (0 if self < 0). If l is not nil it receives l_k(x0) for every
-// data index k (zero outside the neighbourhood).
-func (s *smooth) local(x0 float64, self int, l []float64) (yhat, sumL2, lself float64) {
-	lo := s.window(x0)
-	hi := lo + s.q
-	h := math.Max(x0-s.x[lo], s.x[hi-1]-x0)
-	w := s.wbuf[:s.q]
+// index self (0 if self < 0). The data with index in [exLo, exHi) are left
+// out (weight 0); pass -1, -1 to use all.
+func (s *smooth) local(x0 float64, self, exLo, exHi int) (yhat, sumL2, lself float64) {
+	// Measurements come in clusters of equal height (the sides of one
+	// target, targets placed symmetrically about the centre), so the q
+	// nearest points can hold only one or two distinct heights with a
+	// non-zero weight, and the local line would be a wild extrapolation.
+	// Widen the neighbourhood until minHeights distinct heights weigh in.
+	q := s.q
+	lo := s.windowQ(x0, q)
+	h := math.Max(x0-s.x[lo], s.x[lo+q-1]-x0)
+	for q < len(s.x) && s.distinct(lo, lo+q, x0, h, exLo, exHi) < minHeights {
+		q++
+		lo = s.windowQ(x0, q)
+		h = math.Max(x0-s.x[lo], s.x[lo+q-1]-x0)
+	}
+	hi := lo + q
+	s.wbuf = resize(s.wbuf, q)
+	w := s.wbuf[:q]
 	for pass := 0; pass < 2; pass++ {
 		var V float64
 		for k := lo; k < hi; k++ {
@@ -192,6 +229,9 @@ func (s *smooth) local(x0 float64, self int, l []float64) (yhat, sumL2, lself fl
 			if pass == 0 {
 				t *= s.rw[k]
 			}
+			if k >= exLo && k < exHi {
+				t = 0
+			}
 			w[k-lo] = t
 			V += t
 		}
@@ -200,9 +240,11 @@ func (s *smooth) local(x0 float64, self int, l []float64) (yhat, sumL2, lself fl
 		}
 		if pass == 1 {
 			// Every neighbour lies at distance h (only possible when
-			// q = n and x0 is at the middle of two clusters): equal weights.
+			// all of them sit in two clusters with x0 midway): equal weights.
 			for k := range w {
-				w[k] = 1
+				if k+lo < exLo || k+lo >= exHi {
+					w[k] = 1
+				}
 			}
 		}
 	}
@@ -210,6 +252,9 @@ func (s *smooth) local(x0 float64, self int, l []float64) (yhat, sumL2, lself fl
 	for k := lo; k < hi; k++ {
 		V += w[k-lo]
 		xbar += w[k-lo] * s.x[k]
+	}
+	if !(V > 0) {
+		return math.NaN(), math.NaN(), 0
 	}
 	xbar /= V
 	var S float64
@@ -219,11 +264,6 @@ func (s *smooth) local(x0 float64, self int, l []float64) (yhat, sumL2, lself fl
 	}
 	// A neighbourhood whose x spread is negligible fits a local constant.
 	slope := S > 1e-12*V*(1+xbar*xbar)
-	if l != nil {
-		for k := range l {
-			l[k] = 0
-		}
-	}
 	for k := lo; k < hi; k++ {
 		lk := w[k-lo] / V
 		if slope {
@@ -234,26 +274,42 @@ func (s *smooth) local(x0 float64, self int, l []float64) (yhat, sumL2, lself fl
 		if k == self {
 			lself = lk
 		}
-		if l != nil {
-			l[k] = lk
-		}
 	}
 	return yhat, sumL2, lself
 }
 
+// distinct counts the distinct heights among x[lo:hi] that lie strictly
+// within h of x0 (those with a non-zero tricube weight); heights within
+// h/20 of the first of a run count as one (the targets of one cluster lie
+// a few hundredths of a pixel apart in height).
+func (s *smooth) distinct(lo, hi int, x0, h float64, exLo, exHi int) int {
+	tol := h / 20
+	n, last := 0, math.Inf(-1)
+	for k := lo; k < hi; k++ {
+		if (k < exLo || k >= exHi) && math.Abs(s.x[k]-x0) < h && s.x[k]-last > tol {
+			n++
+			last = s.x[k]
+		}
+	}
+	return n
+}
+
 // window returns the first index of the q points nearest to x0 (a
 // contiguous run of the sorted x).
-func (s *smooth) window(x0 float64) int {
+func (s *smooth) window(x0 float64) int { return s.windowQ(x0, s.q) }
+
+// windowQ returns the first index of the q points nearest to x0.
+func (s *smooth) windowQ(x0 float64, q int) int {
 	n := len(s.x)
 	// Start with the run whose left end is the first x >= x0 - ..., then
 	// slide: the run [lo, lo+q) moves right while the point that would
 	// enter is nearer than the one that would leave.
-	lo := sort.SearchFloat64s(s.x, x0) - s.q/2
-	lo = max(0, min(lo, n-s.q))
-	for lo > 0 && x0-s.x[lo-1] < s.x[lo+s.q-1]-x0 {
+	lo := sort.SearchFloat64s(s.x, x0) - q/2
+	lo = max(0, min(lo, n-q))
+	for lo > 0 && x0-s.x[lo-1] < s.x[lo+q-1]-x0 {
 		lo--
 	}
-	for lo+s.q < n && s.x[lo+s.q]-x0 < x0-s.x[lo] {
+	for lo+q < n && s.x[lo+q]-x0 < x0-s.x[lo] {
 		lo++
 	}
 	return lo
@@ -262,7 +318,7 @@ func (s *smooth) window(x0 float64) int {
 // at returns the fitted value and its standard error at x0, the latter
 // from the local residual scale (see localMAD).
 func (s *smooth) at(x0 float64) (value, se float64) {
-	v, l2, _ := s.local(x0, -1, nil)
+	v, l2, _ := s.local(x0, -1, -1, -1)
 	return v, 1.4826 * s.localMAD(x0, s.absRes, s.mad) * s.dof * math.Sqrt(l2)
 }
 
