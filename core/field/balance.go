@@ -56,6 +56,8 @@ type Balance struct {
 	// Quarters gives each quarter of the frame's offset from the whole
 	// frame's curves, for a picture of where the softness lies.
 	Quarters []PartOffset `json:"quarters"`
+
+	score float64 // of the pair quoted in a balanced Text
 }
 
 // BalancePair compares two opposite parts of the frame.
@@ -169,22 +171,45 @@ func balance(geo Geometry, pts []Point, fs *fitSet, freqs []float64) Balance {
 		b.Quarters = append(b.Quarters, po)
 	}
 
-	var found, ok []string
-	for _, p := range b.Pairs {
+	// The card leads with the most telling comparison; others that agree
+	// follow in a few words.
+	var worst *BalancePair
+	var also []string
+	anyOK := false
+	for i := range b.Pairs {
+		p := &b.Pairs[i]
 		switch p.Verdict {
 		case VerdictUnbalanced:
-			found = append(found, p.Text)
+			if worst == nil || leadScore(*p) > leadScore(*worst) {
+				worst = p
+			}
 		case VerdictBalanced:
-			ok = append(ok, p.Text)
+			anyOK = true
+			if worst == nil && (b.Text == "" || pairScore(*p) > b.score) {
+				b.Text, b.score = p.Text, pairScore(*p)
+			}
 		}
 	}
 	switch {
-	case len(found) > 0:
+	case worst != nil:
 		b.Verdict = VerdictUnbalanced
-		b.Text = strings.Join(found, " ")
-	case len(ok) > 0:
+		b.Text = worst.Text
+		for _, p := range b.Pairs {
+			if p.Verdict == VerdictUnbalanced && p.A != worst.A {
+				d := p.ByFreq[bestFreq(p)]
+				soft := p.A
+				if d.Diff > 0 {
+					soft = p.B
+				}
+				also = append(also, fmt.Sprintf("%s %s by %.2f", soft, area(p.A), math.Abs(float64(d.Diff))))
+			}
+		}
+		if len(also) > 0 {
+			b.Text += " Also softer: " + strings.Join(also, "; ") + "."
+		}
+	case anyOK:
 		b.Verdict = VerdictBalanced
-		b.Text = "The frame is balanced: opposite sides are equally sharp at matched image heights. " + strings.Join(ok, " ")
+		b.Text = "Opposite sides of the frame are equally sharp at matched image heights. " + b.Text
 	default:
 		b.Verdict = VerdictTooFew
 		b.Text = fmt.Sprintf("Not enough measurements beyond %.1f mm from the centre to compare opposite sides of the frame (at least %d per side are needed).", b.FromHeightMM, MinSidePoints)
@@ -217,9 +242,32 @@ func meanSE(rs []residual, p part) (mean, se float64, n int) {
 	return mean, math.Sqrt(sum2 / float64(n-1) / float64(n)), n
 }
 
-// pairText words one comparison: the verdict, then the numbers of the most
-// telling frequency (the largest difference relative to its threshold).
-func pairText(bp BalancePair) (verdict, text string) {
+// pairScore is how telling a comparison is: its largest difference over
+// the threshold for reporting it (1 = just notable).
+func pairScore(bp BalancePair) float64 {
+	i := bestFreq(bp)
+	if i < 0 {
+		return -1
+	}
+	d := bp.ByFreq[i]
+	return math.Abs(float64(d.Diff)) / math.Max(NotableSE*float64(d.SE), NotableGap)
+}
+
+// leadScore ranks unbalanced comparisons for the lead sentence: halves
+// first, because a tilt towards one side shows in both diagonal pairs of
+// quarters as well; a pair of quarters leads only when its score is over
+// 1.4 times (about sqrt 2, the ratio for a purely diagonal tilt) that of
+// the halves.
+func leadScore(bp BalancePair) float64 {
+	if area(bp.A) == "quarter" {
+		return pairScore(bp) / 1.4
+	}
+	return pairScore(bp)
+}
+
+// bestFreq returns the index of the frequency whose difference is largest
+// relative to its threshold, or -1 if none could be compared.
+func bestFreq(bp BalancePair) int {
 	best, score := -1, -1.0
 	for i, d := range bp.ByFreq {
 		if !finite(float64(d.Diff)) {
@@ -230,30 +278,42 @@ func pairText(bp BalancePair) (verdict, text string) {
 			best, score = i, s
 		}
 	}
+	return best
+}
+
+// area names the kind of part: "half" or "quarter".
+func area(name string) string {
+	if strings.Contains(name, "-") {
+		return "quarter"
+	}
+	return "half"
+}
+
+// pairText words one comparison: the verdict, then the numbers of the most
+// telling frequency.
+func pairText(bp BalancePair) (verdict, text string) {
+	best := bestFreq(bp)
 	if best < 0 {
 		return VerdictTooFew, fmt.Sprintf("Too few measurements to compare %s and %s.", bp.A, bp.B)
 	}
 	d := bp.ByFreq[best]
 	diff, se := float64(d.Diff), float64(d.SE)
-	nums := fmt.Sprintf("difference %.2f +/- %.2f (one standard error) at %s lp/mm; %d measurements %s, %d %s",
-		math.Abs(diff), se, fmtNum(d.FreqLPMM), d.NA, bp.A, d.NB, bp.B)
-	area := "half"
-	if strings.Contains(bp.A, "-") {
-		area = "quarter"
-	}
+	nums := fmt.Sprintf("%.3f +/- %.3f, one standard error; %d measurements %s, %d %s",
+		math.Abs(diff), se, d.NA, bp.A, d.NB, bp.B)
 	if d.Notable {
 		soft, sharp := bp.A, bp.B
 		if diff > 0 {
 			soft, sharp = bp.B, bp.A
 		}
 		return VerdictUnbalanced, fmt.Sprintf("%s %s softer than the %s towards the edge of the frame, by %.2f at %s lp/mm, more than the spread between edges explains (%s).",
-			capitalise(soft), area, sharp, math.Abs(diff), fmtNum(d.FreqLPMM), nums)
+			capitalise(soft), area(bp.A), sharp, math.Abs(diff), fmtNum(d.FreqLPMM), nums)
 	}
 	why := "within the spread between edges"
 	if math.Abs(diff) > NotableSE*se {
 		why = fmt.Sprintf("below %.2f, too small to matter", NotableGap)
 	}
-	return VerdictBalanced, fmt.Sprintf("%s and %s %ss match: the largest difference is %s (%s).", capitalise(bp.A), bp.B, area, why, nums)
+	return VerdictBalanced, fmt.Sprintf("%s and %s %ss match: the largest difference, %.2f at %s lp/mm, is %s (%s).",
+		capitalise(bp.A), bp.B, area(bp.A), math.Abs(diff), fmtNum(d.FreqLPMM), why, nums)
 }
 
 func capitalise(s string) string {

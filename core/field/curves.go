@@ -170,7 +170,12 @@ type Astigmatism struct {
 	Notable bool `json:"notable"`
 	// Text says it in words first, numbers second.
 	Text string `json:"text"`
+	// Caution is the set-up caution that belongs with this result.
+	Caution string `json:"caution"`
 }
+
+// astigmatismCaution goes with every astigmatism result.
+const astigmatismCaution = "Focus a little in front of or behind the chart, or a chart that is not flat, moves sagittal and tangential sharpness apart too. Refocus, check the chart, and repeat before calling it astigmatism."
 
 // astigmatism differences the sagittal and tangential fits at each field
 // frequency.
@@ -199,7 +204,7 @@ func astigmatism(fs *fitSet, freqs []float64) []Astigmatism {
 			}
 		}
 		a.Notable = math.Abs(a.MaxGap) > NotableSE*a.MaxGapSE && math.Abs(a.MaxGap) >= NotableGap
-		a.Text = astigmatismText(a)
+		a.Text, a.Caution = astigmatismText(a), astigmatismCaution
 		out = append(out, a)
 	}
 	return out
@@ -211,17 +216,17 @@ func astigmatismText(a Astigmatism) string {
 	if a.MaxGap < 0 {
 		lower = "sagittal"
 	}
-	nums := fmt.Sprintf("largest gap %.2f at %.1f mm from the centre, uncertainty +/-%.2f (one standard error)",
-		math.Abs(a.MaxGap), a.MaxGapHeightMM, a.MaxGapSE)
+	nums := fmt.Sprintf("%.3f +/- %.3f, one standard error", math.Abs(a.MaxGap), a.MaxGapSE)
 	if a.Notable {
-		return fmt.Sprintf("Sagittal and tangential detail differ at %s lp/mm: %s detail is softer, most at %.1f mm from the centre (%s). A gap like this is astigmatism, or the chart or the focus not being flat across the frame.",
-			fmtNum(a.FreqLPMM), lower, a.MaxGapHeightMM, nums)
+		return fmt.Sprintf("Sagittal and tangential detail differ at %s lp/mm: %s detail is softer, most at %.1f mm from the centre, by %.2f (%s). A gap like this is astigmatism, or the chart or the focus not being flat across the frame.",
+			fmtNum(a.FreqLPMM), lower, a.MaxGapHeightMM, math.Abs(a.MaxGap), nums)
 	}
 	why := "within the measurement uncertainty"
 	if math.Abs(a.MaxGap) > NotableSE*a.MaxGapSE {
 		why = fmt.Sprintf("below %.2f, too small to matter", NotableGap)
 	}
-	return fmt.Sprintf("Sagittal and tangential detail agree at %s lp/mm: the difference is %s (%s).", fmtNum(a.FreqLPMM), why, nums)
+	return fmt.Sprintf("Sagittal and tangential detail agree at %s lp/mm: the largest gap, %.2f at %.1f mm from the centre, is %s (%s).",
+		fmtNum(a.FreqLPMM), math.Abs(a.MaxGap), a.MaxGapHeightMM, why, nums)
 }
 
 // fmtNum formats a frequency or height without trailing zeros.
