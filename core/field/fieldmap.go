@@ -1,9 +1,6 @@
 package field
 
-import (
-	"math"
-	"sort"
-)
+import "math"
 
 // MapCells is the number of map cells along the photo's longer side; the
 // shorter side gets round(MapCells * short / long) cells (16 for 3:2).
@@ -187,11 +184,11 @@ func siteSpacing(sites []mapSite) float64 {
 		d = d[:0]
 		for j, t := range sites {
 			if j != i {
-				d = append(d, math.Hypot(s.x-t.x, s.y-t.y))
+				dx, dy := s.x-t.x, s.y-t.y
+				d = append(d, dx*dx+dy*dy)
 			}
 		}
-		sort.Float64s(d)
-		kth[i] = d[k-1]
+		kth[i] = math.Sqrt(selectK(d, k-1))
 	}
 	return median(kth)
 }

@@ -34,6 +34,9 @@ import (
 // fitting", J. Amer. Statist. Assoc. 83 (1988) 596-610, section 2; it treats
 // the final robustness weights as fixed and ignores the smoothing bias).
 //
+// As in Cleveland's program, points closer than Delta of the range to the
+// last fitted point are interpolated rather than fitted.
+//
 // Deviations from Cleveland (1979): the span is chosen from Spans by
 // cross-validation (see chooseSpan and clusterCV) instead of being fixed;
 // the bisquare and the standard error use the local median residual of the
@@ -60,20 +63,21 @@ const minHeights = 3
 
 // smooth is a fitted LOWESS curve over points sorted by x.
 type smooth struct {
-	x, y   []float64 // data sorted by x
-	rw     []float64 // final robustness weights, 0..1
-	fit    []float64 // fitted values at the data
-	lii    []float64 // diagonal of the smoother matrix, l_i(x_i)
-	q      int       // neighbourhood size, points
-	span   float64   // q / n as chosen
-	sigma  float64   // robust residual scale of the whole curve
-	mad    float64   // median absolute residual of the whole curve
-	dof    float64   // sqrt(n / (n - nu)), the scale's degrees-of-freedom factor
-	absRes []float64 // absolute residuals of the final fit
-	sel    []float64 // scratch for local medians
-	nu     float64   // equivalent number of parameters, trace of the smoother
-	cv     float64   // cross-validation score of this span
-	wbuf   []float64 // scratch local weights
+	x, y    []float64 // data sorted by x
+	rw      []float64 // final robustness weights, 0..1
+	fit     []float64 // fitted values at the data
+	lii     []float64 // diagonal of the smoother matrix, l_i(x_i)
+	q       int       // neighbourhood size, points
+	span    float64   // q / n as chosen
+	sigma   float64   // robust residual scale of the whole curve
+	mad     float64   // median absolute residual of the whole curve
+	dof     float64   // sqrt(n / (n - nu)), the scale's degrees-of-freedom factor
+	absRes  []float64 // absolute residuals of the final fit
+	sel     []float64 // scratch for local medians
+	anchors []int     // indices fitted exactly (see Delta)
+	nu      float64   // equivalent number of parameters, trace of the smoother
+	cv      float64   // cross-validation score of this span
+	wbuf    []float64 // scratch local weights
 }
 
 // newSmooth sorts the points by x (keeping pairs together) and returns an
@@ -91,6 +95,7 @@ func newSmooth(x, y []float64) *smooth {
 	for i, k := range idx {
 		s.x[i], s.y[i] = x[k], y[k]
 	}
+	s.setAnchors()
 	return s
 }
 
@@ -107,10 +112,13 @@ func (s *smooth) fitSpan(span float64, iters int) {
 		s.rw[i] = 1
 	}
 	res := make([]float64, n)
+	scale := make([]float64, n)
 	for pass := 0; ; pass++ {
-		for i := range s.x {
+		for _, i := range s.anchors {
 			s.fit[i], _, s.lii[i] = s.local(s.x[i], i, -1, -1)
 		}
+		s.interpolate(s.fit)
+		s.interpolate(s.lii)
 		for i := range res {
 			res[i] = math.Abs(s.y[i] - s.fit[i])
 		}
@@ -118,8 +126,12 @@ func (s *smooth) fitSpan(span float64, iters int) {
 		if pass == iters || !(m > 1e-12*(1+maxAbs(s.y))) {
 			break
 		}
+		for _, i := range s.anchors {
+			scale[i] = s.localMAD(s.x[i], res, m)
+		}
+		s.interpolate(scale)
 		for i, e := range res {
-			u := e / (6 * s.localMAD(s.x[i], res, m))
+			u := e / (6 * scale[i])
 			if u < 1 {
 				s.rw[i] = (1 - u*u) * (1 - u*u)
 			} else {
@@ -141,6 +153,47 @@ func (s *smooth) fitSpan(span float64, iters int) {
 	s.cv = s.clusterCV()
 }
 
+// Delta is the spacing, as a fraction of the range of heights, below which
+// the smoother fits only the first of several nearby points and
+// interpolates the others linearly: the device of Cleveland's own program
+// (its argument delta, suggested there as 0.01 of the range), which makes
+// the cost grow with the number of distinct heights, not of points.
+const Delta = 0.01
+
+// setAnchors chooses the points fitted exactly: the first, each one at
+// least Delta of the range beyond the last chosen, and the last.
+func (s *smooth) setAnchors() {
+	n := len(s.x)
+	s.anchors = s.anchors[:0]
+	if n == 0 {
+		return
+	}
+	d := Delta * (s.x[n-1] - s.x[0])
+	last := 0
+	s.anchors = append(s.anchors, 0)
+	for i := 1; i < n; i++ {
+		if s.x[i]-s.x[last] >= d || i == n-1 {
+			s.anchors = append(s.anchors, i)
+			last = i
+		}
+	}
+}
+
+// interpolate fills v between anchors by linear interpolation in x; v must
+// hold its values at the anchors.
+func (s *smooth) interpolate(v []float64) {
+	for k := 1; k < len(s.anchors); k++ {
+		a, b := s.anchors[k-1], s.anchors[k]
+		for i := a + 1; i < b; i++ {
+			t := 0.0
+			if s.x[b] > s.x[a] {
+				t = (s.x[i] - s.x[a]) / (s.x[b] - s.x[a])
+			}
+			v[i] = v[a] + t*(v[b]-v[a])
+		}
+	}
+}
+
 // clusterCV returns the cross-validation score of the current fit: the
 // robustness-weighted mean squared error of predicting each measurement
 // from the others, leaving out at once every measurement at (nearly) the
@@ -160,8 +213,10 @@ func (s *smooth) clusterCV() float64 {
 			b++
 		}
 		if b-a < n {
+			// One fit serves the whole cluster: its heights differ by at
+			// most a thousandth of the range.
+			v, _, _ := s.local(s.x[a], -1, a, b)
 			for i := a; i < b; i++ {
-				v, _, _ := s.local(s.x[i], -1, a, b)
 				e := s.y[i] - v
 				num += s.rw[i] * e * e
 				den += s.rw[i]
@@ -207,7 +262,7 @@ func (s *smooth) local(x0 float64, self, exLo, exHi int) (yhat, sumL2, lself flo
 	lo := s.windowQ(x0, q)
 	h := math.Max(x0-s.x[lo], s.x[lo+q-1]-x0)
 	for q < len(s.x) && s.distinct(lo, lo+q, x0, h, exLo, exHi) < minHeights {
-		q++
+		q = min(len(s.x), q+max(1, q/8))
 		lo = s.windowQ(x0, q)
 		h = math.Max(x0-s.x[lo], s.x[lo+q-1]-x0)
 	}
@@ -345,11 +400,61 @@ func median(v []float64) float64 {
 	if n == 0 {
 		return math.NaN()
 	}
-	sort.Float64s(v)
+	m := selectK(v, n/2)
 	if n%2 == 1 {
-		return v[n/2]
+		return m
 	}
-	return (v[n/2-1] + v[n/2]) / 2
+	// The lower middle is the largest of the elements before n/2.
+	lo := v[0]
+	for _, x := range v[1 : n/2] {
+		lo = math.Max(lo, x)
+	}
+	return (lo + m) / 2
+}
+
+// selectK reorders v so that v[k] is the element that sorting would put
+// there, with no larger element before it and no smaller after it, and
+// returns it (C. A. R. Hoare, "Algorithm 65: Find", Commun. ACM 4 (1961)
+// 321-322; expected linear time). v must not hold NaN.
+func selectK(v []float64, k int) float64 {
+	lo, hi := 0, len(v)-1
+	for lo < hi {
+		// Median of three as the pivot keeps sorted input linear.
+		mid := lo + (hi-lo)/2
+		if v[mid] < v[lo] {
+			v[mid], v[lo] = v[lo], v[mid]
+		}
+		if v[hi] < v[lo] {
+			v[hi], v[lo] = v[lo], v[hi]
+		}
+		if v[hi] < v[mid] {
+			v[hi], v[mid] = v[mid], v[hi]
+		}
+		p := v[mid]
+		i, j := lo, hi
+		for i <= j {
+			for v[i] < p {
+				i++
+			}
+			for v[j] > p {
+				j--
+			}
+			if i <= j {
+				v[i], v[j] = v[j], v[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return v[k]
+		}
+	}
+	return v[k]
 }
 
 func maxAbs(v []float64) float64 {

@@ -3,6 +3,7 @@ package field
 import (
 	"math"
 	"math/rand/v2"
+	"sort"
 	"testing"
 )
 
@@ -168,6 +169,27 @@ func TestLOWESSWindow(t *testing.T) {
 	}{{-5, 0}, {0.9, 0}, {2.6, 1}, {6.4, 2}, {7, 3}, {10.4, 3}, {25, 4}, {100, 4}} {
 		if got := s.window(tc.x0); got != tc.want {
 			t.Errorf("window(%g) starts at %d, want %d", tc.x0, got, tc.want)
+		}
+	}
+}
+
+// TestMedian checks the selection-based median against sorting (the
+// standard library's sort.Float64s as the reference), with ties.
+func TestMedian(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 10))
+	for n := 1; n < 60; n++ {
+		v := make([]float64, n)
+		for i := range v {
+			v[i] = float64(rng.IntN(7)) // many ties
+		}
+		ref := append([]float64(nil), v...)
+		sort.Float64s(ref)
+		want := ref[n/2]
+		if n%2 == 0 {
+			want = (ref[n/2-1] + ref[n/2]) / 2
+		}
+		if got := median(v); got != want {
+			t.Fatalf("n %d: median %g, want %g", n, got, want)
 		}
 	}
 }
