@@ -201,7 +201,7 @@ func balance(geo Geometry, pts []Point, fs *fitSet, freqs []float64) Balance {
 				if d.Diff > 0 {
 					soft = p.B
 				}
-				also = append(also, fmt.Sprintf("%s %s by %.2f", soft, area(p.A), math.Abs(float64(d.Diff))))
+				also = append(also, fmt.Sprintf("%s %s by %.2f at %s lp/mm", soft, area(p.A), math.Abs(float64(d.Diff)), fmtNum(d.FreqLPMM)))
 			}
 		}
 		if len(also) > 0 {
