@@ -121,11 +121,11 @@ func fitCurve(pts []Point, or Orientation, value func(Point) float64) *fitted {
 		return nil
 	}
 	sm := newSmooth(x, y) // x is already sorted: the order, and idx, stay
-	sm.chooseSpan(Spans, RobustIterations)
+	sm.chooseSpan(Spans, Degrees, RobustIterations)
 	c := Curve{
 		Orientation: or, Points: len(x),
 		HMinMM: x[0], HMaxMM: x[len(x)-1],
-		Span: sm.span, ResidualSD: sm.sigma,
+		Span: sm.span, Degree: sm.degree, ResidualSD: sm.sigma,
 	}
 	c.HeightMM = sampleHeights(c.HMinMM, c.HMaxMM)
 	for _, h := range c.HeightMM {

@@ -5,11 +5,15 @@ import (
 	"sort"
 )
 
-// LOWESS: locally weighted linear regression with bisquare robustness
-// iterations, after W. S. Cleveland, "Robust locally weighted regression and
-// smoothing scatterplots", J. Amer. Statist. Assoc. 74 (1979) 829-836,
+// LOWESS: locally weighted regression with bisquare robustness iterations,
+// after W. S. Cleveland, "Robust locally weighted regression and smoothing
+// scatterplots", J. Amer. Statist. Assoc. 74 (1979) 829-836,
 // https://doi.org/10.1080/01621459.1979.10481038 (section 2 for the fit,
-// section 3 for the choices used here).
+// section 3 for the choices used here), with the local quadratic of W. S.
+// Cleveland and S. J. Devlin, "Locally weighted regression: an approach to
+// regression analysis by local fitting", J. Amer. Statist. Assoc. 83 (1988)
+// 596-610, https://doi.org/10.1080/01621459.1988.10478639, as the other
+// choice of degree.
 //
 // At a point x0 the q = round(span * n) points nearest in x form the
 // neighbourhood; h is the distance to the farthest of them. Point k gets the
@@ -18,27 +22,30 @@ import (
 //	v_k = r_k * W(|x_k - x0| / h),  W(u) = (1 - u^3)^3 for u < 1, else 0 (tricube),
 //
 // where r_k is its robustness weight (1 in the first pass), and the fit is
-// the weighted least-squares line through the neighbourhood evaluated at x0.
+// the weighted least-squares polynomial of degree 1 (a line, Cleveland 1979)
+// or 2 (a parabola, Cleveland and Devlin 1988; less biased where the curve
+// bends, notably at the ends of the range) through the neighbourhood,
+// evaluated at x0.
 // After each pass the residuals e_i give s = median |e_i| and new robustness
 // weights r_i = B(e_i / (6 s)), B(u) = (1 - u^2)^2 for |u| < 1, else 0
 // (bisquare). Cleveland recommends two robustness iterations; so do we.
 //
 // The fit is linear in the data: yhat(x0) = sum_k l_k(x0) y_k with
 //
-//	l_k(x0) = v_k [1/V + (x0 - xbar)(x_k - xbar) / S],
-//	V = sum v_k, xbar = sum v_k x_k / V, S = sum v_k (x_k - xbar)^2,
+//	l_k(x0) = v_k e1' (X' V X)^-1 p(d_k),  p(d) = (1, d, d^2 for degree 2),
+//	d_k = (x_k - x0)/h, X the rows p(d_k), V = diag(v_k),
 //
 // so with a residual scale sigma the pointwise standard error is
-// se(x0) = sigma sqrt(sum_k l_k(x0)^2) (W. S. Cleveland and S. J. Devlin,
-// "Locally weighted regression: an approach to regression analysis by local
-// fitting", J. Amer. Statist. Assoc. 83 (1988) 596-610, section 2; it treats
-// the final robustness weights as fixed and ignores the smoothing bias).
+// se(x0) = sigma sqrt(sum_k l_k(x0)^2) (Cleveland and Devlin 1988, section
+// 2; it treats the final robustness weights as fixed and ignores the
+// smoothing bias).
 //
 // As in Cleveland's program, points closer than Delta of the range to the
 // last fitted point are interpolated rather than fitted.
 //
-// Deviations from Cleveland (1979): the span is chosen from Spans by
-// cross-validation (see chooseSpan and clusterCV) instead of being fixed;
+// Deviations from Cleveland (1979): the span and the degree are chosen from
+// Spans and Degrees by cross-validation (see chooseSpan and clusterCV)
+// instead of being fixed;
 // the bisquare and the standard error use the local median residual of the
 // neighbourhood instead of the global one (see localMAD); the neighbourhood
 // never holds fewer than minNeighbours points, and widens until minHeights
@@ -50,6 +57,10 @@ import (
 // neighbourhood; the smoother picks one by cross-validation.
 var Spans = []float64{0.1, 0.15, 0.2, 0.25, 0.33, 0.45, 0.6, 0.8}
 
+// Degrees are the candidate degrees of the local polynomials: lines and
+// parabolas.
+var Degrees = []int{1, 2}
+
 // RobustIterations is the number of bisquare robustness passes after the
 // first fit (Cleveland 1979, section 3: "t = 2").
 const RobustIterations = 2
@@ -58,7 +69,8 @@ const RobustIterations = 2
 const minNeighbours = 6
 
 // minHeights is the fewest distinct heights with a non-zero weight in a
-// local fit; the neighbourhood widens until it holds them.
+// local line (one more for a local parabola); the neighbourhood widens until
+// it holds them.
 const minHeights = 3
 
 // smooth is a fitted LOWESS curve over points sorted by x.
@@ -68,6 +80,7 @@ type smooth struct {
 	fit     []float64 // fitted values at the data
 	lii     []float64 // diagonal of the smoother matrix, l_i(x_i)
 	q       int       // neighbourhood size, points
+	degree  int       // of the local polynomial: 1 (line) or 2 (parabola)
 	span    float64   // q / n as chosen
 	sigma   float64   // robust residual scale of the whole curve
 	mad     float64   // median absolute residual of the whole curve
@@ -95,6 +108,7 @@ func newSmooth(x, y []float64) *smooth {
 	for i, k := range idx {
 		s.x[i], s.y[i] = x[k], y[k]
 	}
+	s.degree = 1
 	s.setAnchors()
 	return s
 }
@@ -195,9 +209,9 @@ func (s *smooth) interpolate(v []float64) {
 }
 
 // clusterCV returns the cross-validation score of the current fit: the
-// robustness-weighted mean squared error of predicting each measurement
-// from the others, leaving out at once every measurement at (nearly) the
-// same height. Leaving out one point at a time, which the hat-matrix
+// robustness-weighted mean squared error of predicting measurements from
+// the others, leaving out at once every measurement at (nearly) the same
+// height. Leaving out one point at a time, which the hat-matrix
 // shortcut e_i / (1 - l_ii) of a linear smoother gives (T. J. Hastie and
 // R. J. Tibshirani, Generalized Additive Models (1990), section 3.4), would
 // let the tied neighbours of a point predict it and favour spans that are
@@ -207,22 +221,28 @@ func (s *smooth) clusterCV() float64 {
 	n := len(s.x)
 	tol := 1e-3 * (s.x[n-1] - s.x[0])
 	var num, den float64
-	for a := 0; a < n; {
+	// The groups held out are those that begin at an anchor (see Delta):
+	// at most about 1/Delta of them, so the cost does not grow with the
+	// square of the number of measurements.
+	for k, a := range s.anchors {
+		if k > 0 && a <= s.anchors[k-1] {
+			continue
+		}
 		b := a + 1
 		for b < n && s.x[b]-s.x[b-1] <= tol {
 			b++
 		}
-		if b-a < n {
-			// One fit serves the whole cluster: its heights differ by at
-			// most a thousandth of the range.
-			v, _, _ := s.local(s.x[a], -1, a, b)
-			for i := a; i < b; i++ {
-				e := s.y[i] - v
-				num += s.rw[i] * e * e
-				den += s.rw[i]
-			}
+		if b-a == n {
+			continue
 		}
-		a = b
+		// One fit serves the whole group: its heights differ by at most a
+		// thousandth of the range per step.
+		v, _, _ := s.local(s.x[a], -1, a, b)
+		for i := a; i < b; i++ {
+			e := s.y[i] - v
+			num += s.rw[i] * e * e
+			den += s.rw[i]
+		}
 	}
 	if !(den > 0) {
 		return math.Inf(1)
@@ -230,22 +250,27 @@ func (s *smooth) clusterCV() float64 {
 	return num / den
 }
 
-// chooseSpan fits every span in spans and keeps the one with the smallest
-// cross-validation score (ties go to the wider span, which is listed later).
-func (s *smooth) chooseSpan(spans []float64, iters int) {
-	best, bestCV := -1.0, math.Inf(1)
-	seen := map[int]bool{}
-	for _, f := range spans {
-		s.fitSpan(f, iters)
-		if seen[s.q] {
-			continue
-		}
-		seen[s.q] = true
-		if s.cv <= bestCV {
-			best, bestCV = f, s.cv
+// chooseSpan fits every span in spans with a local polynomial of each
+// degree in degrees and keeps the pair with the smallest cross-validation
+// score (ties go to the later, smoother choice).
+func (s *smooth) chooseSpan(spans []float64, degrees []int, iters int) {
+	bestF, bestD, bestCV := -1.0, 1, math.Inf(1)
+	for _, d := range degrees {
+		s.degree = d
+		seen := map[int]bool{}
+		for _, f := range spans {
+			s.fitSpan(f, iters)
+			if seen[s.q] {
+				continue
+			}
+			seen[s.q] = true
+			if s.cv <= bestCV {
+				bestF, bestD, bestCV = f, d, s.cv
+			}
 		}
 	}
-	s.fitSpan(best, iters)
+	s.degree = bestD
+	s.fitSpan(bestF, iters)
 }
 
 // local fits the weighted line at x0 and returns its value there, the sum of
@@ -261,7 +286,7 @@ func (s *smooth) local(x0 float64, self, exLo, exHi int) (yhat, sumL2, lself flo
 	q := s.q
 	lo := s.windowQ(x0, q)
 	h := math.Max(x0-s.x[lo], s.x[lo+q-1]-x0)
-	for q < len(s.x) && s.distinct(lo, lo+q, x0, h, exLo, exHi) < minHeights {
+	for q < len(s.x) && s.distinct(lo, lo+q, x0, h, exLo, exHi) < minHeights+s.degree-1 {
 		q = min(len(s.x), q+max(1, q/8))
 		lo = s.windowQ(x0, q)
 		h = math.Max(x0-s.x[lo], s.x[lo+q-1]-x0)
@@ -303,27 +328,44 @@ func (s *smooth) local(x0 float64, self, exLo, exHi int) (yhat, sumL2, lself flo
 			}
 		}
 	}
-	var V, xbar float64
-	for k := lo; k < hi; k++ {
-		V += w[k-lo]
-		xbar += w[k-lo] * s.x[k]
+	// Weighted least squares in d = (x - x0)/h, which keeps the normal
+	// equations well scaled (|d| <= 1); yhat is the fitted intercept.
+	sc := h
+	if !(sc > 0) {
+		sc = 1
 	}
-	if !(V > 0) {
+	var m [3][3]float64
+	for k := lo; k < hi; k++ {
+		if w[k-lo] == 0 {
+			continue
+		}
+		d := (s.x[k] - x0) / sc
+		p := [3]float64{1, d, d * d}
+		for a := 0; a < 3; a++ {
+			for b := 0; b < 3; b++ {
+				m[a][b] += w[k-lo] * p[a] * p[b]
+			}
+		}
+	}
+	if !(m[0][0] > 0) {
 		return math.NaN(), math.NaN(), 0
 	}
-	xbar /= V
-	var S float64
-	for k := lo; k < hi; k++ {
-		d := s.x[k] - xbar
-		S += w[k-lo] * d * d
-	}
-	// A neighbourhood whose x spread is negligible fits a local constant.
-	slope := S > 1e-12*V*(1+xbar*xbar)
-	for k := lo; k < hi; k++ {
-		lk := w[k-lo] / V
-		if slope {
-			lk = w[k-lo] * (1/V + (x0-xbar)*(s.x[k]-xbar)/S)
+	// A neighbourhood that cannot carry the polynomial (too few distinct
+	// heights) fits one of lower degree.
+	deg := s.degree
+	var c [3]float64
+	for ; deg > 0; deg-- {
+		var ok bool
+		if c, ok = firstColumn(m, deg+1); ok {
+			break
 		}
+	}
+	if deg == 0 {
+		c = [3]float64{1 / m[0][0]}
+	}
+	for k := lo; k < hi; k++ {
+		d := (s.x[k] - x0) / sc
+		lk := w[k-lo] * (c[0] + c[1]*d + c[2]*d*d)
 		yhat += lk * s.y[k]
 		sumL2 += lk * lk
 		if k == self {
@@ -331,6 +373,48 @@ func (s *smooth) local(x0 float64, self, exLo, exHi int) (yhat, sumL2, lself flo
 		}
 	}
 	return yhat, sumL2, lself
+}
+
+// firstColumn returns the first column of the inverse of the leading n x n
+// block of the symmetric matrix m (the coefficients that give the fitted
+// intercept), by Gaussian elimination with partial pivoting; ok is false
+// when a pivot falls below 1e-9 of the largest diagonal element (the local
+// design cannot carry a polynomial of that degree).
+func firstColumn(m [3][3]float64, n int) (c [3]float64, ok bool) {
+	var a [3][4]float64
+	big := 0.0
+	for i := 0; i < n; i++ {
+		for j := 0; j < n; j++ {
+			a[i][j] = m[i][j]
+		}
+		big = math.Max(big, m[i][i])
+	}
+	a[0][n] = 1
+	for col := 0; col < n; col++ {
+		p := col
+		for r := col + 1; r < n; r++ {
+			if math.Abs(a[r][col]) > math.Abs(a[p][col]) {
+				p = r
+			}
+		}
+		if !(math.Abs(a[p][col]) > 1e-9*big) {
+			return c, false
+		}
+		a[col], a[p] = a[p], a[col]
+		for r := 0; r < n; r++ {
+			if r == col {
+				continue
+			}
+			f := a[r][col] / a[col][col]
+			for k := col; k <= n; k++ {
+				a[r][k] -= f * a[col][k]
+			}
+		}
+	}
+	for i := 0; i < n; i++ {
+		c[i] = a[i][n] / a[i][i]
+	}
+	return c, true
 }
 
 // distinct counts the distinct heights among x[lo:hi] that lie strictly

@@ -61,6 +61,39 @@ func TestLOWESSLine(t *testing.T) {
 	}
 }
 
+// TestLOWESSParabola: a local quadratic reproduces a parabola exactly at
+// every span (Cleveland and Devlin 1988, section 2: local fitting of degree
+// p has no bias for polynomials of degree p), also at the ends of the range
+// where a local line is biased.
+func TestLOWESSParabola(t *testing.T) {
+	f := func(x float64) float64 { return 0.9 - 0.002*x*x }
+	var x, y []float64
+	for i := 0; i < 50; i++ {
+		xi := 20 * float64(i) / 49
+		x, y = append(x, xi), append(y, f(xi))
+	}
+	for _, span := range Spans {
+		s := newSmooth(x, y)
+		s.degree = 2
+		s.fitSpan(span, RobustIterations)
+		for _, x0 := range []float64{0, 7.3, 20} {
+			if v, _ := s.at(x0); math.Abs(v-f(x0)) > 1e-10 {
+				t.Errorf("span %g: at %g got %.12g, want %.12g", span, x0, v, f(x0))
+			}
+		}
+	}
+	s := newSmooth(x, y)
+	s.fitSpan(0.45, 0) // degree 1
+	if v, _ := s.at(0); math.Abs(v-f(0)) < 1e-3 {
+		t.Errorf("a local line at the end of a parabola should be biased; got %g, truth %g", v, f(0))
+	}
+	// Cross-validation prefers the parabola here.
+	s.chooseSpan(Spans, Degrees, RobustIterations)
+	if s.degree != 2 {
+		t.Errorf("chose degree %d for an exact parabola", s.degree)
+	}
+}
+
 // TestLOWESSOutlier: with the bisquare robustness passes, a gross outlier
 // gets weight 0 (its residual exceeds six median residuals) and the line
 // through the other points is recovered exactly (Cleveland 1979, section 3).
@@ -147,9 +180,9 @@ func TestLOWESSSpanChoice(t *testing.T) {
 		yw = append(yw, 0.5+0.3*math.Sin(xi*1.6)+0.01*rng.NormFloat64())
 	}
 	sl := newSmooth(x, yl)
-	sl.chooseSpan(Spans, RobustIterations)
+	sl.chooseSpan(Spans, []int{1}, RobustIterations)
 	sw := newSmooth(x, yw)
-	sw.chooseSpan(Spans, RobustIterations)
+	sw.chooseSpan(Spans, []int{1}, RobustIterations)
 	if sl.span < 0.6 {
 		t.Errorf("noisy line: span %g, want a wide one (>= 0.6)", sl.span)
 	}

@@ -125,8 +125,8 @@ func TestFieldCurvesAgainstTruth(t *testing.T) {
 				worst, at = d, h
 			}
 		}
-		t.Logf("%-10s %2g lp/mm: %3d points over %.2f..%.2f mm, span %.2f, residual sd %.4f, worst error %+.4f at %.2f mm",
-			c.Orientation, c.FreqLPMM, c.Points, c.HMinMM, c.HMaxMM, c.Span, c.ResidualSD, worst, at)
+		t.Logf("%-10s %2g lp/mm: %3d points over %.2f..%.2f mm, span %.2f degree %d, residual sd %.4f, worst error %+.4f at %.2f mm",
+			c.Orientation, c.FreqLPMM, c.Points, c.HMinMM, c.HMaxMM, c.Span, c.Degree, c.ResidualSD, worst, at)
 		if math.Abs(worst) > 0.03 {
 			t.Errorf("%s %g lp/mm: curve differs from the true MTF by %.4f at %.2f mm (limit 0.03)", c.Orientation, c.FreqLPMM, worst, at)
 		}

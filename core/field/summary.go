@@ -99,9 +99,11 @@ type Curve struct {
 	// measurements, mm: the curve's extent.
 	HMinMM float64 `json:"h_min_mm"`
 	HMaxMM float64 `json:"h_max_mm"`
-	// Span is the fraction of the points in each local fit (chosen by
-	// cross-validation).
-	Span float64 `json:"span"`
+	// Span is the fraction of the points in each local fit and Degree the
+	// degree of the local polynomial (1 line, 2 parabola), both chosen by
+	// cross-validation.
+	Span   float64 `json:"span"`
+	Degree int     `json:"degree"`
 	// ResidualSD is the robust standard deviation of the points about the
 	// curve: the spread between repeated measurements at one height.
 	ResidualSD float64 `json:"residual_sd"`
