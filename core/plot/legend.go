@@ -132,4 +132,3 @@ func (f *Figure) renderLegend(c draw.Canvas, b box) {
 		y += legendRow
 	}
 }
-
