@@ -142,6 +142,10 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 		}
 		img.Measurements = append(img.Measurements, record(r.m, c.Region, geo, freqs))
 	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	recogniseChart(dec, img)
 	sort.SliceStable(img.Measurements, func(a, b int) bool {
 		return img.Measurements[a].HeightMM < img.Measurements[b].HeightMM
 	})

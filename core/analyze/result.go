@@ -37,6 +37,8 @@ type Image struct {
 	Measurements []Measurement `json:"measurements"`
 	Rejected     []Rejected    `json:"rejected"`
 	Warnings     []string      `json:"warnings"`
+	// Chart is set when the photo shows Sagitta's printed chart (chart.go).
+	Chart *ChartResult `json:"chart,omitempty"`
 }
 
 // Measurement is one measured target (one edge, or one orientation of a
@@ -70,6 +72,16 @@ type Measurement struct {
 	Overshoot float64       `json:"overshoot"`
 	ESF       edge.Profile  `json:"esf"`
 	LSF       edge.Profile  `json:"lsf"`
+
+	// On Sagitta's chart (chart.go): the target's id ("sq12", "star0",
+	// "grating-x-240"), the square's edge (1..4; see chart.Square), and the
+	// target centre's designed position, in chart units (the chart's short
+	// side is 1, origin at its centre) and as a fraction of the way from
+	// the chart's centre to its corner.
+	TargetID   string      `json:"target_id,omitempty"`
+	TargetEdge int         `json:"target_edge,omitempty"`
+	ChartXY    *[2]float64 `json:"chart_xy,omitempty"`
+	ChartField *float64    `json:"chart_field,omitempty"`
 }
 
 // Rejected is a candidate that was not measured or whose measurement was

@@ -266,18 +266,19 @@ func sqrt2x2(a, b, c float64) (float64, float64, float64) {
 	return (a + s) / t, b / t, (c + s) / t
 }
 
-// lightAround reports whether the ellipse 1.15 times the size of a region's
-// moment ellipse lies on light pixels all round (true of a mark's disc,
-// whose light gap reaches 1.6 times its radius; not of a square, whose
-// corners reach 1.22 times its moment ellipse), and its half-size ellipse
-// on dark pixels.
+// lightAround reports whether the ellipse 1.35 times the size of a region's
+// moment ellipse lies on light pixels all round, and its half-size ellipse
+// on dark pixels: true of a mark's disc, whose light gap reaches 1.6 times
+// its radius (the thresholded region can be a little smaller than the
+// disc), and of few other shapes (a square's corners reach 1.22 times its
+// moment ellipse, so squares may pass; reading the ring rejects them).
 func lightAround(c *plane.Plane, lv []float32, mx, my, cxx, cxy, cyy float64) bool {
 	a, b, d := sqrt2x2(cxx, cxy, cyy)
 	a, b, d = 2*a, 2*b, 2*d // boundary ellipse: centre + A (cos t, sin t)
 	const n = 96
 	for i := range n {
 		s, co := math.Sincos(2 * math.Pi * float64(i) / n)
-		for _, f := range [2]float64{1.15, 0.5} {
+		for _, f := range [2]float64{1.35, 0.5} {
 			x := mx + f*(a*co+b*s)
 			y := my + f*(b*co+d*s)
 			xi, yi := int(x), int(y)
@@ -292,6 +293,13 @@ func lightAround(c *plane.Plane, lv []float32, mx, my, cxx, cxy, cyy float64) bo
 	}
 	return true
 }
+
+// minMarkContrast is the least ratio of the light gap to the dark disc of a
+// mark: black ink on paper reflects a few per cent of the light the paper
+// does (from memory), so even a photo with flare keeps well above it, while
+// the mean grey at a blurred sine star's centre (mean over paper, 1.6 at
+// 4:1) stays below.
+const minMarkContrast = 2.5
 
 // refineDisc measures a candidate disc at full resolution: the dark level
 // is the mean within half its radius, the light level the median on the
@@ -336,7 +344,7 @@ func refineDisc(p *plane.Plane, d disc) (disc, bool) {
 			return d, false
 		}
 		dark := dsum / dn
-		if !(light > dark*1.3) || light <= 0 {
+		if !(light > dark*minMarkContrast) || light <= 0 {
 			return d, false
 		}
 		var sw, sx, sy, sxx, sxy, syy float64

@@ -182,6 +182,12 @@ func (ps *Pose) sizesAgree() bool {
 	return true
 }
 
+// minMargin is the least distance of every sector's mean from the
+// threshold, in units of the disc-to-gap contrast, for a reading to count:
+// a sharp ring reads near 0.5; grey patterns and sectors split by the
+// sampling read near 0.
+const minMargin = 0.15
+
 // readMark reads the ring of a candidate disc. The ring is sampled on the
 // disc's own ellipse scaled by 1.9, 2.33 and 2.75 (the ring spans 1.6 to
 // 3.07 disc radii), at 128 angles; a sector is dark when the mean of the
@@ -223,7 +229,7 @@ func readMark(p *plane.Plane, d disc) (FoundMark, bool) {
 			margin = math.Min(margin, math.Abs(m-thr)/span)
 		}
 		v, _, dist, good := decodeWord(word)
-		if !good {
+		if !good || margin < minMargin {
 			continue
 		}
 		if dist < bestErr || dist == bestErr && margin > bestMargin {

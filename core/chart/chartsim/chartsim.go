@@ -50,7 +50,7 @@ func (v View) Homography(d *chart.Design) chart.Homography {
 	sy, cyw := math.Sincos(v.YawDeg * math.Pi / 180)
 	sp, cp := math.Sincos(v.PitchDeg * math.Pi / 180)
 	rz := [3][3]float64{{cr, -sr, 0}, {sr, cr, 0}, {0, 0, 1}}
-	ry := [3][3]float64{{cyw, 0, sy}, {0, 1, 0}, {-sy, 0, cyw}}
+	ry := [3][3]float64{{cyw, 0, -sy}, {0, 1, 0}, {sy, 0, cyw}}
 	rx := [3][3]float64{{1, 0, 0}, {0, cp, -sp}, {0, sp, cp}}
 	r := mul3(rz, mul3(ry, rx))
 	if v.FocalPx <= 0 {
@@ -106,10 +106,14 @@ func (p Print) withDefaults() Print {
 	return p
 }
 
+// arcTolPx is the largest distance, px, between a mark's circles and the
+// polygons that stand for them in the scene.
+const arcTolPx = 0.05
+
 // Scene returns the chart of design d seen through homography h as a
 // simcam Scene: squares and marks as polygons mapped exactly (a homography
-// maps straight lines to straight lines; circles are mapped as polygons of
-// 2 degree steps), stars and gratings as simcam patterns placed with the
+// maps straight lines to straight lines; circles are mapped as polygons
+// within arcTolPx of them), stars and gratings as simcam patterns placed with the
 // homography's local similarity at their centre (exact for a view without
 // perspective; within the perspective's change of scale across one target
 // otherwise).
@@ -130,23 +134,27 @@ func Scene(d *chart.Design, h chart.Homography, pr Print) simcam.Scene {
 	}
 	ink := pr.Paper * pr.Ink
 	for _, m := range d.Marks {
-		var disc [][2]float64
-		for a := 0.0; a < 360; a += 2 {
-			s, c := math.Sincos(a * math.Pi / 180)
-			disc = append(disc, mp(m.X+chart.DiscOfR*m.R*c, m.Y+chart.DiscOfR*m.R*s))
+		sc, _ := similarity(h, m.X, m.Y)
+		// Arc step with a chord sagitta of arcTolPx at the ring's outer
+		// radius: r (1 - cos(step/2)) = tol.
+		step := 2 * math.Acos(1-arcTolPx/(chart.RingOutOfR*m.R*sc)) * 180 / math.Pi
+		arc := func(r, a0, a1 float64, rev bool) [][2]float64 {
+			n := max(2, int(math.Ceil((a1-a0)/step)))
+			pts := make([][2]float64, 0, n+1)
+			for i := 0; i <= n; i++ {
+				k := i
+				if rev {
+					k = n - i
+				}
+				a := (a0 + (a1-a0)*float64(k)/float64(n)) * math.Pi / 180
+				pts = append(pts, mp(m.X+r*math.Cos(a), m.Y+r*math.Sin(a)))
+			}
+			return pts
 		}
-		s.Polygons = append(s.Polygons, simcam.Polygon{Pts: disc, Level: ink})
+		disc := arc(chart.DiscOfR*m.R, 0, 360, false)
+		s.Polygons = append(s.Polygons, simcam.Polygon{Pts: disc[:len(disc)-1], Level: ink})
 		for _, run := range m.DarkRuns() {
-			var pts [][2]float64
-			steps := int(math.Ceil((run[1] - run[0]) / 2))
-			for i := 0; i <= steps; i++ {
-				a := (run[0] + (run[1]-run[0])*float64(i)/float64(steps)) * math.Pi / 180
-				pts = append(pts, mp(m.X+chart.RingOutOfR*m.R*math.Cos(a), m.Y+chart.RingOutOfR*m.R*math.Sin(a)))
-			}
-			for i := steps; i >= 0; i-- {
-				a := (run[0] + (run[1]-run[0])*float64(i)/float64(steps)) * math.Pi / 180
-				pts = append(pts, mp(m.X+chart.RingInOfR*m.R*math.Cos(a), m.Y+chart.RingInOfR*m.R*math.Sin(a)))
-			}
+			pts := append(arc(chart.RingOutOfR*m.R, run[0], run[1], false), arc(chart.RingInOfR*m.R, run[0], run[1], true)...)
 			s.Polygons = append(s.Polygons, simcam.Polygon{Pts: pts, Level: ink})
 		}
 	}
