@@ -276,6 +276,19 @@ func safeSlant(s float64) bool {
 	return true
 }
 
+// safeRotations are the rotations (modulo 90 degrees, every 0.25 degree)
+// whose slant from the pixel axes is safe.
+var safeRotations = func() []float64 {
+	var out []float64
+	for k := 0; k < 360; k++ {
+		c := float64(k) * 0.25
+		if safeSlant(math.Min(c, 90-c)) {
+			out = append(out, c)
+		}
+	}
+	return out
+}()
+
 // slantFor returns the square rotation for a square whose centre lies in
 // direction radDeg from the chart centre: the rotation nearest radDeg
 // (modulo 90) whose slant from the pixel axes is safe. The square's edges
@@ -286,12 +299,7 @@ func safeSlant(s float64) bool {
 func slantFor(radDeg float64) float64 {
 	t := math.Mod(math.Mod(radDeg, 90)+90, 90) // 0..90
 	best, bestD := 0.0, math.Inf(1)
-	for k := 0; k <= 360; k++ { // candidates every 0.25 degrees
-		c := float64(k) * 0.25
-		s := math.Min(c, 90-c)
-		if !safeSlant(s) {
-			continue
-		}
+	for _, c := range safeRotations {
 		dd := math.Abs(c - t)
 		dd = math.Min(dd, 90-dd)
 		if dd < bestD-1e-12 {

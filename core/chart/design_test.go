@@ -149,8 +149,14 @@ func rect(x, y, w, h float64) [][2]float64 {
 }
 
 // gap returns the distance between two polygons' outlines (0 if one holds
-// a vertex of the other).
+// a vertex of the other); pairs whose bounding circles are more than 0.1
+// apart return that lower bound.
 func gap(a, b [][2]float64) float64 {
+	ca, ra := bound(a)
+	cb, rb := bound(b)
+	if d := math.Hypot(ca[0]-cb[0], ca[1]-cb[1]) - ra - rb; d > 0.1 {
+		return d
+	}
 	if inside(a[0], b) || inside(b[0], a) {
 		return 0
 	}
@@ -161,6 +167,21 @@ func gap(a, b [][2]float64) float64 {
 		}
 	}
 	return best
+}
+
+// bound returns a circle holding the polygon: its vertices' mean and the
+// largest distance from it.
+func bound(p [][2]float64) ([2]float64, float64) {
+	var c [2]float64
+	for _, q := range p {
+		c[0] += q[0] / float64(len(p))
+		c[1] += q[1] / float64(len(p))
+	}
+	var r float64
+	for _, q := range p {
+		r = math.Max(r, math.Hypot(q[0]-c[0], q[1]-c[1]))
+	}
+	return c, r
 }
 
 func inside(p [2]float64, poly [][2]float64) bool {

