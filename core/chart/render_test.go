@@ -354,7 +354,9 @@ func TestRenderErrors(t *testing.T) {
 	}
 }
 
-// TestSVG checks the SVG's size attributes and viewBox in millimetres.
+// TestSVG checks the SVG's size attributes and viewBox in millimetres (SVG
+// 1.1 §7.10), one embedded image per sine pattern, and the ruler in an
+// independent rendering.
 func TestSVG(t *testing.T) {
 	l, err := NewLayout(Options{DPI: 100})
 	if err != nil {
@@ -372,5 +374,25 @@ func TestSVG(t *testing.T) {
 	}
 	if n := strings.Count(string(b), "<image"); n != len(l.Design.Stars)+len(l.Design.Gratings) {
 		t.Errorf("%d images, want one per star and grating (%d)", n, len(l.Design.Stars)+len(l.Design.Gratings))
+	}
+	// An independent renderer, librsvg's rsvg-convert, at 300 dpi: the
+	// ruler measures 100 mm, 1181.1 px, within one pixel.
+	if testing.Short() {
+		return
+	}
+	if _, err := exec.LookPath("rsvg-convert"); err != nil {
+		t.Skip("rsvg-convert not on PATH")
+	}
+	in := writeTemp(t, "c.svg", b)
+	out := filepath.Join(filepath.Dir(in), "c.png")
+	runTool(t, "rsvg-convert", "-d", "300", "-p", "300", "-b", "white", "-o", out, in)
+	png, err := os.ReadFile(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := rulerPx(t, decodeGray(t, png), l, 300)
+	t.Logf("ruler in rsvg-convert's rendering: %.2f px (want 1181.10)", got)
+	if math.Abs(got-1181.1) > 1 {
+		t.Errorf("ruler %.2f px at 300 dpi, want 1181.1 +- 1", got)
 	}
 }

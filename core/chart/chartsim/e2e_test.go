@@ -2,7 +2,9 @@ package chartsim_test
 
 import (
 	"context"
+	"encoding/json"
 	"math"
+	"strings"
 	"testing"
 
 	"sagitta/core/analyze"
@@ -73,6 +75,16 @@ func TestEndToEnd(t *testing.T) {
 	}
 	if len(img.Warnings) > 0 {
 		t.Errorf("warnings for a straight, filled view: %q", img.Warnings)
+	}
+	// The JSON contract carries the chart and the tags.
+	js, err := json.Marshal(img)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, key := range []string{`"chart":{"code":"S1-3:2-L"`, `"target_id":"sq`, `"target_edge":`, `"chart_field":`, `"homography":`, `"setup":`} {
+		if !strings.Contains(string(js), key) {
+			t.Errorf("the JSON lacks %s", key)
+		}
 	}
 	byID := map[string]chart.Square{}
 	for _, q := range d.Squares {
