@@ -177,6 +177,10 @@ func (l *Layout) DarkReflectance() float64 {
 	return 0.25
 }
 
+// printerDPIs are printer resolutions in common use, ascending (from
+// memory: the 300/600/1200 and 360/720/1440/2880 families).
+var printerDPIs = []float64{300, 360, 600, 720, 1200, 1440, 2880}
+
 // Notes lists what the printer resolution cannot print faithfully: sine
 // gratings with fewer than printLimitDots printer dots per cycle, which may
 // print with false patterns. (The stars' centres, where the same limit is
@@ -189,8 +193,16 @@ func (l *Layout) Notes() []string {
 		dots := l.UnitMM / g.FreqPerUnit / dot
 		if dots < printLimitDots && !seen[g.FreqPerUnit] {
 			seen[g.FreqPerUnit] = true
-			out = append(out, fmt.Sprintf("At %g dpi the %g-cycle gratings get only %.1f printer dots per cycle and may print with false patterns: print at %.0f dpi or more, or on a larger sheet.",
-				l.DPI, g.FreqPerUnit, dots, math.Ceil(l.DPI*printLimitDots/dots/100)*100))
+			need := l.DPI * printLimitDots / dots
+			better := fmt.Sprintf("%.0f dpi or more", math.Ceil(need))
+			for _, r := range printerDPIs {
+				if r >= need {
+					better = fmt.Sprintf("%g dpi", r)
+					break
+				}
+			}
+			out = append(out, fmt.Sprintf("At %g dpi the %g-cycle gratings get only %.1f printer dots per cycle and may print with false patterns: print at %s, or on a larger sheet.",
+				l.DPI, g.FreqPerUnit, dots, better))
 		}
 	}
 	return out

@@ -3,6 +3,12 @@
 // camera and turns its targets into a simcam Scene, for tests, benchmarks
 // and demo photos of the chart.
 //
+// The simulated chart is an ideal print: the squares and marks have sharp
+// edges, and the stars keep their full modulation right to the centre,
+// which a real print fades to grey where the printer cannot resolve it
+// (see core/chart's starPattern); the rulers, text and corner marks outside
+// the chart frame are left out.
+//
 // Camera model: the pinhole camera of R. Hartley and A. Zisserman, Multiple
 // View Geometry in Computer Vision, 2nd ed. (2003), section 6.1: a chart
 // point (X, Y, 0) in chart units maps to K (R (X, Y, 0) + t), K =
