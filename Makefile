@@ -4,9 +4,9 @@ GO ?= go
 GOROOT_DIR := $(shell $(GO) env GOROOT)
 WASM_EXEC := $(GOROOT_DIR)/lib/wasm/go_js_wasm_exec
 BIN := bin
-DEMO := $(BIN)/demo.png
+DEMO := $(BIN)/demo.jpg
 
-.PHONY: all build test test-go test-wasm vet run bench deps clean demo
+.PHONY: all build test test-go test-wasm vet run bench deps tools clean demo
 
 all: build
 
@@ -21,12 +21,19 @@ vet: deps
 	$(GO) vet ./...
 	@test -z "$$(gofmt -l core wasm site 2>/dev/null)" || { echo "gofmt needed:"; gofmt -l core wasm site; exit 1; }
 
-test-go: deps
+# Debian tools the tests use as independent references (poppler's pdfinfo
+# and pdftoppm read our PDFs). Installed when missing; tests that need them
+# skip only when they cannot be had.
+tools:
+	@command -v pdftoppm >/dev/null 2>&1 || { (apt-get install -y poppler-utils >/dev/null 2>&1 || (apt-get update >/dev/null && apt-get install -y poppler-utils >/dev/null)) || echo "warning: poppler-utils could not be installed"; }
+
+test-go: deps tools
 	$(GO) test -count=1 ./...
 
 # Core's tests compiled to WebAssembly and run under Node, so the browser
 # build cannot silently diverge from the native one.
 test-wasm: deps
+	GOOS=js GOARCH=wasm $(GO) build -o /dev/null ./wasm
 	GOOS=js GOARCH=wasm $(GO) test -count=1 -short -exec="$(WASM_EXEC)" ./core/...
 
 test: vet test-go test-wasm
@@ -37,7 +44,7 @@ $(DEMO): build
 demo: $(DEMO)
 
 run: $(DEMO)
-	$(BIN)/sagitta analyze --pitch-um 6 $(DEMO)
+	$(BIN)/sagitta analyze $(DEMO)
 
 bench: deps
 	$(GO) test -run '^$$' -bench . -benchmem ./core/...

@@ -93,6 +93,7 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 		Tone: dec.Tone.String(), ToneSource: dec.ToneSource,
 		Method: method.String(), FreqsLPMM: freqs, Exif: dec.Exif,
 		Measurements: []Measurement{}, Rejected: []Rejected{},
+		Stars: []StarInfo{}, Gratings: []GratingInfo{},
 		Warnings: append([]string{}, dec.Warnings...),
 	}
 	img.PitchUM, img.PitchSource, err = pitch(s, dec)
@@ -114,6 +115,9 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 
 	progress(StageFinding, 0.15)
 	cands, rejects := find.Edges(dec.Lum, find.Options{})
+	pats := findPatterns(ctx, dec.Lum, geo, s.Workers) // sine stars and gratings (sine.go)
+	cands, rejects = pats.exclude(cands, rejects)
+	img.Rejected = append(img.Rejected, pats.rejected...)
 	for _, r := range rejects {
 		img.Rejected = append(img.Rejected, Rejected{r.X0, r.Y0, r.X1, r.Y1, r.Reason})
 	}
@@ -142,21 +146,54 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 		}
 		img.Measurements = append(img.Measurements, record(r.m, c.Region, geo, freqs))
 	}
+	img.Measurements = append(img.Measurements, pats.records(img, geo, freqs)...)
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	recogniseChart(dec, img)
+	recogniseChart(dec, img) // tags measurements on Sagitta's chart (chart.go)
+	nEdges := 0
+	for _, m := range img.Measurements {
+		if m.Kind == "edge" {
+			nEdges++
+		}
+	}
 	sort.SliceStable(img.Measurements, func(a, b int) bool {
 		return img.Measurements[a].HeightMM < img.Measurements[b].HeightMM
 	})
 	for i := range img.Measurements {
 		img.Measurements[i].ID = i + 1
 	}
+	agreement(img)
 	if len(img.Measurements) == 0 {
-		img.Warnings = append(img.Warnings, "no measurable edge was found in this photo")
+		return nil, noTargets(img.Rejected)
+	}
+	if nEdges == 0 {
+		img.Warnings = append(img.Warnings, "no measurable edge was found in this photo, only sine patterns")
 	}
 	progress(StageSumming, 1)
 	return img, nil
+}
+
+// ErrNoTargets is returned (wrapped) when a photo holds nothing measurable.
+var ErrNoTargets = errors.New("no measurable edge found")
+
+// noTargets explains an empty result in one line: what was set aside, and
+// why, most common reason first.
+func noTargets(rej []Rejected) error {
+	if len(rej) == 0 {
+		return fmt.Errorf("analyze: %w: the photo shows no straight boundary between dark and light areas", ErrNoTargets)
+	}
+	count := map[string]int{}
+	for _, r := range rej {
+		count[r.Reason]++
+	}
+	best, n := "", 0
+	for reason, c := range count {
+		if c > n || c == n && reason < best {
+			best, n = reason, c
+		}
+	}
+	return fmt.Errorf("analyze: %w: %d candidates set aside, most often because: %s", ErrNoTargets, len(rej), best)
 }
 
 // pitch chooses the pixel pitch: the user's value, else the sensor width

@@ -23,8 +23,9 @@ var errUsage = errors.New("usage")
 const usage = `sagitta: measure lens sharpness (MTF) from photos of edges and charts
 
 commands:
-  analyze   measure every usable edge in photos and summarise them over the frame
+  analyze   measure every usable edge and sine pattern in photos and summarise them over the frame
   chart     draw the printable test chart for your sheet and printer (PDF, SVG or PNG)
+  demo      write the built-in demo photo (a simulated lens and camera of our own)
   plan      how far to stand for your lens and camera, and whether the print is sharp enough
   help      show this text
 
@@ -46,6 +47,8 @@ func run(args []string, stdout, stderr io.Writer) int {
 	switch args[0] {
 	case "analyze":
 		err = cmdAnalyze(args[1:], stdout)
+	case "demo":
+		err = cmdDemo(args[1:], stdout)
 	case "chart":
 		err = cmdChart(args[1:], stdout)
 	case "plan":
