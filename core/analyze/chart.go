@@ -23,11 +23,21 @@ type ChartResult struct {
 	// EdgesIdentified those measured and tagged with their target.
 	EdgesExpected   int `json:"edges_expected"`
 	EdgesIdentified int `json:"edges_identified"`
+	// Patterns names the chart target of each sine pattern the analysis
+	// measured (Image.Stars and Image.Gratings, by their ids).
+	Patterns []PatternTarget `json:"patterns"`
 	// Missing lists the targets inside the photo that gave no measurement,
 	// with the reason when one is known; OutsideFrame the targets that lie
 	// (partly) outside the photo.
 	Missing      []MissingTarget `json:"missing"`
 	OutsideFrame []string        `json:"outside_frame"`
+}
+
+// PatternTarget ties a measured sine pattern to its chart target.
+type PatternTarget struct {
+	Kind     string `json:"kind"` // "star" or "grating"
+	ID       int    `json:"id"`   // in Image.Stars or Image.Gratings
+	TargetID string `json:"target_id"`
 }
 
 // MissingTarget is a chart target (or one edge of a square) with no
@@ -63,7 +73,7 @@ func recogniseChart(dec *decode.Image, img *Image) {
 	}
 	cr := &ChartResult{
 		Code: pose.Code.String(), Marks: pose.Marks, Homography: pose.H,
-		Setup: pose.Check(focalPx), Missing: []MissingTarget{}, OutsideFrame: []string{},
+		Setup: pose.Check(focalPx), Patterns: []PatternTarget{}, Missing: []MissingTarget{}, OutsideFrame: []string{},
 	}
 	img.Chart = cr
 	img.Warnings = append(img.Warnings, cr.Setup.Warnings...)
@@ -83,6 +93,9 @@ func recogniseChart(dec *decode.Image, img *Image) {
 		case m.Kind == "edge" && (hit.Kind == chart.HitStar || hit.Kind == chart.HitGrating):
 			img.Rejected = append(img.Rejected, rejectOfRegion(m.Region, reasonOnSine))
 			continue
+		case m.Kind == "grating":
+			// A grating record groups the gratings of one direction (sine.go);
+			// ChartResult.Patterns names each grating's target instead.
 		case hit.ID != "" && hit.Kind != chart.HitMark:
 			m.TargetID, m.TargetEdge = hit.ID, hit.Edge
 			m.ChartXY = &[2]float64{hit.X, hit.Y}
@@ -128,12 +141,22 @@ func recogniseChart(dec *decode.Image, img *Image) {
 			cr.Missing = append(cr.Missing, MissingTarget{q.ID, e, reason})
 		}
 	}
-	// Stars and gratings are listed only when this analysis measures sine
-	// patterns at all (a measurement of another kind than "edge").
-	sine := false
-	for _, m := range img.Measurements {
-		sine = sine || m.Kind != "edge"
+	// The sine analysis's stars and gratings, by the target under each;
+	// stars and gratings are listed as missing only when the photo's sine
+	// analysis found any pattern at all.
+	for _, st := range img.Stars {
+		if hit := pose.Locate(st.XPx, st.YPx); hit.Kind == chart.HitStar {
+			cr.Patterns = append(cr.Patterns, PatternTarget{"star", st.ID, hit.ID})
+			got[key{hit.ID, 0}] = true
+		}
 	}
+	for _, g := range img.Gratings {
+		if hit := pose.Locate(g.XPx, g.YPx); hit.Kind == chart.HitGrating {
+			cr.Patterns = append(cr.Patterns, PatternTarget{"grating", g.ID, hit.ID})
+			got[key{hit.ID, 0}] = true
+		}
+	}
+	sine := len(img.Stars)+len(img.Gratings) > 0
 	inFrame := func(x0, y0, x1, y1 float64) bool {
 		return pose.InFrame(x0, y0, margin) && pose.InFrame(x1, y1, margin) && pose.InFrame(x0, y1, margin) && pose.InFrame(x1, y0, margin)
 	}
@@ -142,7 +165,7 @@ func recogniseChart(dec *decode.Image, img *Image) {
 		case !inFrame(s.X-s.Radius, s.Y-s.Radius, s.X+s.Radius, s.Y+s.Radius):
 			cr.OutsideFrame = append(cr.OutsideFrame, s.ID)
 		case sine && !got[key{s.ID, 0}]:
-			cr.Missing = append(cr.Missing, MissingTarget{TargetID: s.ID, Reason: "not measured"})
+			cr.Missing = append(cr.Missing, MissingTarget{TargetID: s.ID, Reason: "not found as a sine star"})
 		}
 	}
 	for _, g := range pose.Design.Gratings {
@@ -150,7 +173,7 @@ func recogniseChart(dec *decode.Image, img *Image) {
 		case !inFrame(g.X-g.W/2, g.Y-g.H/2, g.X+g.W/2, g.Y+g.H/2):
 			cr.OutsideFrame = append(cr.OutsideFrame, g.ID)
 		case sine && !got[key{g.ID, 0}]:
-			cr.Missing = append(cr.Missing, MissingTarget{TargetID: g.ID, Reason: "not measured"})
+			cr.Missing = append(cr.Missing, MissingTarget{TargetID: g.ID, Reason: "not found as a sine grating"})
 		}
 	}
 	sort.SliceStable(cr.Missing, func(a, b int) bool { return cr.Missing[a].TargetID < cr.Missing[b].TargetID })

@@ -87,11 +87,12 @@ type Measurement struct {
 	StdErr       []float64      `json:"mtf_std_err,omitempty"`    // standard error of each mtf value
 	Agreement    *StarAgreement `json:"agreement,omitempty"`      // stars: against nearby edges
 
-	// On Sagitta's chart (chart.go): the target's id ("sq12", "star0",
-	// "grating-x-240"), the square's edge (1..4; see chart.Square), and the
-	// target centre's designed position, in chart units (the chart's short
-	// side is 1, origin at its centre) and as a fraction of the way from
-	// the chart's centre to its corner.
+	// On Sagitta's chart (chart.go): the target's id ("sq12", "star0"), the
+	// square's edge (1..4; see chart.Square), and the target centre's
+	// designed position, in chart units (the chart's short side is 1,
+	// origin at its centre) and as a fraction of the way from the chart's
+	// centre to its corner. Grating records, which group several gratings,
+	// are not tagged; Chart.Patterns names each grating's target.
 	TargetID   string      `json:"target_id,omitempty"`
 	TargetEdge int         `json:"target_edge,omitempty"`
 	ChartXY    *[2]float64 `json:"chart_xy,omitempty"`

@@ -66,7 +66,8 @@ func codeOf(v int) Code { return Code{Aspect: aspects[v/2].name, Portrait: v%2 =
 // The frame is divided into a grid of Cols x Rows cells (7 along the short
 // side). The centre cell holds a sine star, four more stars sit at about half
 // the field towards the corners, the cells just above and below the centre
-// hold sine gratings, and every other cell holds one dark square. The eight
+// hold sine gratings (2 x 2 patches each), and every other cell holds one
+// dark square. The eight
 // marks sit on grid corners, clear of every cell's target.
 type Design struct {
 	Code       Code
@@ -126,21 +127,27 @@ type Mark struct {
 
 // Sizes in chart units or in fractions of a grid cell.
 const (
-	squareOfCell  = 0.52  // square side / smaller cell side
-	starOfCell    = 0.42  // star radius / smaller cell side
-	gratingOfCell = 0.80  // grating block size / cell size
-	gratingGap    = 0.008 // gap between grating strips, chart units
+	squareOfCell  = 0.52 // square side / smaller cell side
+	starOfCell    = 0.37 // star radius / smaller cell side
+	gratingOfCell = 0.72 // grating block size / cell size
+	gratingGap    = 0.02 // gap between the patches of a grating block, chart units
 	// MarkR is the radius of a mark's code ring, chart units.
 	MarkR = 0.03
 	// StarCycles is the number of sine cycles around every star.
 	StarCycles = 72
 )
 
-// GratingFreqs are the grating frequencies, cycles per chart short side. The
-// first is the reference. When the chart fills the frame, cycles per chart
-// short side are cycles per picture height; on a 24 mm tall sensor 240 and
-// 720 are 10 and 30 lp/mm, the usual field frequencies (common practice).
-var GratingFreqs = []float64{24, 240, 480, 720}
+// GratingFreqs are the grating frequencies, cycles per chart short side, in
+// the order of the patches of a block (left to right, top to bottom). The
+// first is the low-frequency reference. When the chart fills the frame,
+// cycles per chart short side are cycles per picture height; on a 24 mm
+// tall sensor 96, 240, 360 and 720 are 4, 10, 15 and 30 lp/mm (10 and 30
+// are the usual field frequencies, common practice). 480 (20 lp/mm) would
+// be the rounder choice, but with the chart filling the frame it falls on
+// the Nyquist frequency of the reduced copy, 1500 px across, in which
+// core/sine looks for gratings, whatever the camera's resolution, and is
+// never found there.
+var GratingFreqs = []float64{96, 240, 360, 720}
 
 // NewDesign builds the layout of code c. It returns an OptionError for an
 // unknown aspect.
@@ -173,30 +180,23 @@ func NewDesign(c Code) (*Design, error) {
 		d.Stars = append(d.Stars, Star{ID: fmt.Sprintf("star%d", k), X: x, Y: y, Radius: starOfCell * cell, Cycles: StarCycles})
 		used[sc] = true
 	}
-	// Gratings: above the centre, strips side by side modulated along y;
-	// below it, strips stacked and modulated along x.
-	n := float64(len(GratingFreqs))
+	// Gratings: above the centre modulated along y (along the radius there:
+	// tangential), below it along x (sagittal); each block is 2 x 2
+	// separate patches, one per frequency, so that each is found and
+	// measured on its own.
 	for k, dir := range []float64{90, 0} {
 		i, j := ic, jc-1+2*k
 		used[[2]int{i, j}] = true
 		x0, y0 := centre(i, j)
-		bw, bh := gratingOfCell*cw, gratingOfCell*ch
+		pw := (gratingOfCell*cw - gratingGap) / 2
+		ph := (gratingOfCell*ch - gratingGap) / 2
+		axis := map[float64]string{0: "x", 90: "y"}[dir]
 		for m, f := range GratingFreqs {
-			g := Grating{FreqPerUnit: f, DirDeg: dir, Reference: m == 0}
-			off := -0.5 + (float64(m)+0.5)/n
-			if dir == 90 {
-				g.W, g.H = (bw-(n-1)*gratingGap)/n, bh
-				g.X, g.Y = x0+off*(bw+gratingGap), y0
-			} else {
-				g.W, g.H = bw, (bh-(n-1)*gratingGap)/n
-				g.X, g.Y = x0, y0+off*(bh+gratingGap)
-			}
-			axis := "x"
-			if dir == 90 {
-				axis = "y"
-			}
-			g.ID = fmt.Sprintf("grating-%s-%g", axis, f)
-			d.Gratings = append(d.Gratings, g)
+			sx, sy := float64(m%2)*2-1, float64(m/2)*2-1 // -1 or +1
+			d.Gratings = append(d.Gratings, Grating{
+				ID: fmt.Sprintf("grating-%s-%g", axis, f), FreqPerUnit: f, DirDeg: dir, Reference: m == 0,
+				X: x0 + sx*(pw+gratingGap)/2, Y: y0 + sy*(ph+gratingGap)/2, W: pw, H: ph,
+			})
 		}
 	}
 	// Squares in every other cell, reading order.

@@ -4,6 +4,7 @@ import (
 	"math"
 	"math/bits"
 	"math/rand/v2"
+	"strings"
 	"testing"
 )
 
@@ -211,9 +212,13 @@ func segDist(a, b, c, d [2]float64) float64 {
 // TestClearance checks the space around targets. core/find's regions reach
 // up to 32 px on each side of an edge, and keep a further 6 px plus the
 // reduction factor (2 at 3000 px) clear of other detail (core/find,
-// find.go): 40 px. Between any two targets the design leaves 0.021 chart
+// find.go): 40 px. Between any two squares the design leaves 0.021 chart
 // units, which is 42 px when the chart's short side spans 2000 px (a 6 MP
-// photo filled by the chart) and twice that at 24 MP. A mark's light quiet
+// photo filled by the chart) and twice that at 24 MP. core/analyze drops
+// edge regions (up to 32 px wide on each side) that come within 8 px of a
+// sine pattern (sine.go): between a square and a star or grating the design
+// leaves 0.0364 chart units, 40 px when the chart's short side spans 1100 px
+// (a 1.8 MP photo). A mark's light quiet
 // zone (QuietOfR) holds nothing else, and its ring is at least 0.0105 chart
 // units (42 px at 4000 px, a 24 MP photo) from any other target. Every
 // target lies inside the frame, clear of its border by at least 0.01.
@@ -238,8 +243,9 @@ func TestClearance(t *testing.T) {
 		for _, g := range d.Gratings {
 			fps = append(fps, fp{g.ID, rect(g.X, g.Y, g.W, g.H)})
 		}
+		sine := func(id string) bool { return strings.HasPrefix(id, "star") || strings.HasPrefix(id, "grating") }
 		frame := rect(0, 0, d.W-0.02, d.H-0.02)
-		minGap := math.Inf(1)
+		minGap, minSine := math.Inf(1), math.Inf(1)
 		for i, a := range fps {
 			for _, p := range a.poly {
 				if !inside(p, frame) {
@@ -248,13 +254,19 @@ func TestClearance(t *testing.T) {
 				}
 			}
 			for _, b := range fps[i+1:] {
-				if len(a.id) > 7 && len(b.id) > 7 && a.id[:8] == "grating-" && b.id[:8] == "grating-" {
-					continue // strips of one grating block
-				}
 				g := gap(a.poly, b.poly)
-				minGap = math.Min(minGap, g)
-				if g < 0.021 {
-					t.Errorf("%v: %s and %s are %.4f apart, want >= 0.021", code, a.id, b.id, g)
+				want := 0.021
+				switch {
+				case sine(a.id) && sine(b.id):
+					want = gratingGap // patches of one grating block
+				case sine(a.id) || sine(b.id):
+					want = 0.0364
+					minSine = math.Min(minSine, g)
+				default:
+					minGap = math.Min(minGap, g)
+				}
+				if g < want-1e-12 {
+					t.Errorf("%v: %s and %s are %.4f apart, want >= %g", code, a.id, b.id, g, want)
 				}
 			}
 		}
@@ -277,7 +289,8 @@ func TestClearance(t *testing.T) {
 				}
 			}
 		}
-		t.Logf("%v: %d squares, smallest gap between targets %.4f, between a mark's ring and a target %.4f", code, len(d.Squares), minGap, minMark)
+		t.Logf("%v: %d squares, smallest gap between squares %.4f, between a square and a sine pattern %.4f, between a mark's ring and a target %.4f",
+			code, len(d.Squares), minGap, minSine, minMark)
 	}
 }
 

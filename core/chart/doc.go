@@ -27,17 +27,21 @@
 //     memory, 144, but 72 keeps the centre printable on a home printer) in
 //     the centre cell and in four cells at about half the field towards
 //     the corners;
-//   - sine gratings in the cells above (bars across y) and below (bars
-//     across x) the centre: a low-frequency reference at 24 cycles per chart
-//     short side and 240, 480 and 720, which on a 24 mm tall sensor filled by
-//     the chart are 10, 20 and 30 lp/mm;
+//   - sine gratings in the cells above (modulated along y) and below
+//     (along x) the centre, 2 x 2 separate patches each: a low-frequency
+//     reference at 96 cycles per chart short side and 240, 360 and 720,
+//     which on a 24 mm tall sensor filled by the chart are 4, 10, 15 and 30
+//     lp/mm;
 //   - eight recognition marks on grid corners (mark.go): a dark disc inside
 //     a ring of 16 sectors that spells a word of a 64-word ring code, giving
 //     the chart's design (aspect and orientation) and the mark's index, and
 //     correcting one misread sector;
-//   - every target clear of every other by at least 0.021 chart units (42 px
+//   - every square clear of every other by at least 0.021 chart units (42 px
 //     when the chart's short side spans 2000 px), room for core/find's
-//     regions of up to 32 px on each side of an edge plus its margins.
+//     regions of up to 32 px on each side of an edge plus its margins, and
+//     of every sine pattern by at least 0.0364 (40 px at 1100 px), room for
+//     those regions plus the 8 px the analyser keeps between edge regions
+//     and sine patterns.
 //
 // A Layout places the Design on a sheet (layout.go): the frame as large as
 // the margins allow, small corner marks just outside it to frame the photo

@@ -61,7 +61,7 @@ func TestLayoutFits(t *testing.T) {
 
 // TestNotes: at 300 dpi on A4 (chart short side 164.9 mm) the 720-cycle
 // grating has 164.9 / 720 / (25.4 / 300) = 2.7 dots per cycle, fewer than
-// printLimitDots, and is named; the 480-cycle one has 4.06 and is not; at
+// printLimitDots, and is named; the 360-cycle one has 5.4 and is not; at
 // 600 dpi nothing is named.
 func TestNotes(t *testing.T) {
 	l, err := NewLayout(Options{DPI: 300})

@@ -54,7 +54,7 @@ func (ps *Pose) Locate(x, y float64) Hit {
 		}
 	}
 	for _, g := range d.Gratings {
-		if math.Abs(u-g.X) <= g.W/2+gratingGap/2 && math.Abs(v-g.Y) <= g.H/2+gratingGap/2 {
+		if math.Abs(u-g.X) <= g.W/2+gratingGap/4 && math.Abs(v-g.Y) <= g.H/2+gratingGap/4 {
 			return Hit{Kind: HitGrating, ID: g.ID, X: g.X, Y: g.Y, Field: d.Field(g.X, g.Y)}
 		}
 	}
