@@ -41,11 +41,8 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 		fmt.Fprintln(stdout, "usage: sagitta analyze [options] PHOTO...")
 		fs.PrintDefaults()
 	}
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return errHelp
-		}
-		return fmt.Errorf("%w: %v", errUsage, err)
+	if err := parseFlags(fs, args); err != nil {
+		return err
 	}
 	if fs.NArg() == 0 {
 		return fmt.Errorf("%w: analyze needs at least one photo", errUsage)

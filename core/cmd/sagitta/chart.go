@@ -1,7 +1,6 @@
 package main
 
 import (
-	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -49,11 +48,8 @@ func cmdChart(args []string, stdout io.Writer) error {
 		fmt.Fprintln(stdout, "measure the 100 mm ruler, and if it is off, draw again with --ruler-measured-mm.")
 		fs.PrintDefaults()
 	}
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return errHelp
-		}
-		return fmt.Errorf("%w: %v", errUsage, err)
+	if err := parseFlags(fs, args); err != nil {
+		return err
 	}
 	if fs.NArg() > 0 {
 		return fmt.Errorf("%w: unexpected argument %q (options come before nothing else; use -o FILE)", errUsage, fs.Arg(0))

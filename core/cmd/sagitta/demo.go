@@ -1,7 +1,6 @@
 package main
 
 import (
-	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -21,11 +20,8 @@ func cmdDemo(args []string, stdout io.Writer) error {
 		fmt.Fprintln(stdout, "usage: sagitta demo [-o FILE] [-reduce N]")
 		fs.PrintDefaults()
 	}
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return errHelp
-		}
-		return fmt.Errorf("%w: %v", errUsage, err)
+	if err := parseFlags(fs, args); err != nil {
+		return err
 	}
 	if *reduce < 1 || *reduce > 20 {
 		return fmt.Errorf("%w: -reduce must be between 1 and 20", errUsage)

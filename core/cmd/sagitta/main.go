@@ -12,6 +12,7 @@ package main
 
 import (
 	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"os"
@@ -70,6 +71,18 @@ func run(args []string, stdout, stderr io.Writer) int {
 		return 2
 	}
 	return 1
+}
+
+// parseFlags parses a command's options: -h becomes errHelp (the flag
+// package has printed the usage), a bad option a usage error.
+func parseFlags(fs *flag.FlagSet, args []string) error {
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return errHelp
+		}
+		return fmt.Errorf("%w: %v", errUsage, err)
+	}
+	return nil
 }
 
 // oneLine keeps an error message on one line.

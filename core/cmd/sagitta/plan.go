@@ -2,7 +2,6 @@ package main
 
 import (
 	"encoding/json"
-	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -33,11 +32,8 @@ func cmdPlan(args []string, stdout io.Writer) error {
 		fmt.Fprintln(stdout, "Tells how far to stand so the chart fills the frame, and whether the print is sharp enough.")
 		fs.PrintDefaults()
 	}
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return errHelp
-		}
-		return fmt.Errorf("%w: %v", errUsage, err)
+	if err := parseFlags(fs, args); err != nil {
+		return err
 	}
 	if fs.NArg() > 0 {
 		return fmt.Errorf("%w: unexpected argument %q", errUsage, fs.Arg(0))
