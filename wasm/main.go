@@ -9,13 +9,17 @@
 //
 //	sagittaAnalyze(name string, bytes Uint8Array, settings string (JSON),
 //	               onProgress(stage string, fraction number)) -> string (JSON)
-//	    the analysis of one photo: the JSON of analyze.Image (core/analyze)
+//	    the analysis of one photo: the JSON of analyze.Image (core/analyze);
+//	    settings are analyze.Settings plus "fallback_sensor_mm": [w, h], the
+//	    sensor size to assume when the file's Exif gives no pixel pitch
 //	sagittaPreview(bytes Uint8Array, maxSide number, tone string)
 //	    -> {width, height, factor, pixels Uint8Array}
 //	    an 8-bit grey display image of the decoded photo, reduced by an
 //	    integer factor (core/preview), for formats a browser cannot show
 //	sagittaCSV(results string (JSON {"images":[...]})) -> string
 //	    the CSV of `sagitta analyze --csv` (analyze.WriteCSV)
+//	sagittaJSON(results string (JSON {"images":[...]})) -> string
+//	    the same document as `sagitta analyze --json` prints it
 //
 // Every function throws an Error whose message is one plain line on
 // failure; a Go panic is recovered and thrown the same way.
@@ -30,6 +34,7 @@ import (
 
 	"sagitta/core/analyze"
 	"sagitta/core/decode"
+	"sagitta/core/exif"
 	"sagitta/core/preview"
 )
 
@@ -37,6 +42,7 @@ func main() {
 	register("sagittaAnalyze", analyzeJS)
 	register("sagittaPreview", previewJS)
 	register("sagittaCSV", csvJS)
+	register("sagittaJSON", jsonJS)
 	js.Global().Set("sagittaReady", true)
 	select {}
 }
@@ -65,11 +71,20 @@ func analyzeJS(args []js.Value) (any, error) {
 	}
 	name := args[0].String()
 	data := goBytes(args[1])
-	var s analyze.Settings
+	var in struct {
+		analyze.Settings
+		// FallbackSensorMM is used as the sensor size when neither a pitch
+		// nor a sensor size is given and the file's Exif gives no pitch.
+		FallbackSensorMM [2]float64 `json:"fallback_sensor_mm"`
+	}
 	if txt := args[2].String(); txt != "" {
-		if err := json.Unmarshal([]byte(txt), &s); err != nil {
+		if err := json.Unmarshal([]byte(txt), &in); err != nil {
 			return nil, fmt.Errorf("settings: %v", err)
 		}
+	}
+	s := in.Settings
+	if s.PitchUM == 0 && s.SensorMM[0] == 0 && in.FallbackSensorMM[0] > 0 && !exifHasPitch(data) {
+		s.SensorMM = in.FallbackSensorMM
 	}
 	s.Workers = 1
 	var progress analyze.Progress
@@ -117,18 +132,57 @@ func previewJS(args []js.Value) (any, error) {
 
 // csvJS writes the CSV of a results document.
 func csvJS(args []js.Value) (any, error) {
-	if len(args) < 1 || args[0].Type() != js.TypeString {
-		return nil, fmt.Errorf("sagittaCSV(results): wrong arguments")
-	}
-	var res analyze.Result
-	if err := json.Unmarshal([]byte(args[0].String()), &res); err != nil {
-		return nil, fmt.Errorf("results: %v", err)
+	res, err := results(args)
+	if err != nil {
+		return nil, err
 	}
 	var buf bytes.Buffer
 	if err := analyze.WriteCSV(&buf, res); err != nil {
 		return nil, err
 	}
 	return buf.String(), nil
+}
+
+// jsonJS rewrites a results document exactly as the command-line tool
+// prints it (indented by one space, with a final newline).
+func jsonJS(args []js.Value) (any, error) {
+	res, err := results(args)
+	if err != nil {
+		return nil, err
+	}
+	b, err := json.MarshalIndent(res, "", " ")
+	return string(b) + "\n", err
+}
+
+// results reads the results document passed as the first argument.
+func results(args []js.Value) (analyze.Result, error) {
+	var res analyze.Result
+	if len(args) < 1 || args[0].Type() != js.TypeString {
+		return res, fmt.Errorf("expected the results as a JSON string")
+	}
+	if err := json.Unmarshal([]byte(args[0].String()), &res); err != nil {
+		return res, fmt.Errorf("results: %v", err)
+	}
+	return res, nil
+}
+
+// exifHasPitch reports whether a JPEG or TIFF file's Exif gives a pixel
+// pitch (the focal-plane resolution).
+func exifHasPitch(data []byte) bool {
+	var (
+		t   exif.Tags
+		err error
+	)
+	switch {
+	case bytes.HasPrefix(data, []byte{0xFF, 0xD8}):
+		t, err = exif.ReadJPEG(data)
+	case bytes.HasPrefix(data, []byte("II*\x00")), bytes.HasPrefix(data, []byte("MM\x00*")):
+		t, err = exif.ReadTIFF(data)
+	default:
+		return false
+	}
+	p, ok := t.PixelPitchUM()
+	return err == nil && ok && p > 0
 }
 
 // goBytes copies a Uint8Array into Go memory.

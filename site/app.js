@@ -1,0 +1,494 @@
+// Sagitta's page: places (Measure, Compare, Print and plan), the photo
+// list, the settings, exports and the automation hooks
+// (window.sagitta.results, document.body.dataset.status).
+
+import { engine } from './engine.js';
+import { AbortError } from './pool.js';
+import { readSettings, settingsKey, watchSettings, settingsSummary } from './settings.js';
+import { renderResult, refreshUnits, outcome } from './results.js';
+import { saveBlob } from './plot.js';
+import { fmtFNumber } from './units.js';
+
+const $ = (id) => document.getElementById(id);
+
+/** state shared by the places. */
+const state = {
+  photos: [], // in the order added
+  selected: null, // key of the photo shown in Measure
+  pool: null,
+  functions: new Set(),
+  units: 'lpmm',
+};
+let nextKey = 1;
+
+// Automation hooks: the JSON contract of every analysed photo, and the status.
+window.sagitta = {
+  get results() {
+    return { images: state.photos.filter((p) => p.result).map((p) => p.result) };
+  },
+};
+
+function setStatus() {
+  const ps = state.photos;
+  let s = 'ready';
+  if (ps.some((p) => p.status === 'queued' || p.status === 'working')) s = 'working';
+  else if (ps.some((p) => p.status === 'error')) s = 'error';
+  else if (ps.some((p) => p.result)) s = 'done';
+  document.body.dataset.status = s;
+  $('queue-head').hidden = ps.length === 0;
+  $('cancel-all').hidden = s !== 'working';
+  const any = ps.some((p) => p.result);
+  for (const id of ['export-json', 'export-csv', 'export-report']) $(id).disabled = !any;
+}
+
+function announce(text) {
+  $('announce').textContent = text;
+}
+
+// ---------------------------------------------------------------- places
+
+function showPlace(name) {
+  for (const tab of document.querySelectorAll('[role=tab]')) {
+    const on = tab.id === 'tab-' + name;
+    tab.setAttribute('aria-selected', String(on));
+    tab.tabIndex = on ? 0 : -1;
+    $(tab.getAttribute('aria-controls')).hidden = !on;
+  }
+}
+
+function setupTabs() {
+  const tabs = [...document.querySelectorAll('[role=tab]')];
+  for (const tab of tabs) {
+    tab.addEventListener('click', () => showPlace(tab.id.slice(4)));
+    tab.addEventListener('keydown', (e) => {
+      const visible = tabs.filter((t) => !t.hidden);
+      const i = visible.indexOf(tab);
+      let j = -1;
+      if (e.key === 'ArrowRight') j = (i + 1) % visible.length;
+      if (e.key === 'ArrowLeft') j = (i - 1 + visible.length) % visible.length;
+      if (j >= 0) {
+        e.preventDefault();
+        visible[j].focus();
+        showPlace(visible[j].id.slice(4));
+      }
+    });
+  }
+}
+
+// ---------------------------------------------------------------- intake
+
+function setupIntake() {
+  const dz = $('dropzone');
+  const input = $('file-input');
+  input.addEventListener('change', () => {
+    addFiles([...input.files]);
+    input.value = '';
+  });
+  // Photos may be dropped anywhere on the Measure place.
+  const place = $('place-measure');
+  let depth = 0;
+  place.addEventListener('dragenter', (e) => {
+    if (!hasFiles(e)) return;
+    e.preventDefault();
+    depth++;
+    dz.classList.add('over');
+  });
+  place.addEventListener('dragover', (e) => {
+    if (!hasFiles(e)) return;
+    e.preventDefault();
+    e.dataTransfer.dropEffect = 'copy';
+  });
+  place.addEventListener('dragleave', () => {
+    depth = Math.max(0, depth - 1);
+    if (depth === 0) dz.classList.remove('over');
+  });
+  place.addEventListener('drop', (e) => {
+    e.preventDefault();
+    depth = 0;
+    dz.classList.remove('over');
+    addFiles([...(e.dataTransfer.files || [])]);
+  });
+  // A file dropped elsewhere must not make the browser navigate away.
+  window.addEventListener('dragover', (e) => e.preventDefault());
+  window.addEventListener('drop', (e) => e.preventDefault());
+  $('demo-button').addEventListener('click', loadDemo);
+  $('cancel-all').addEventListener('click', () => {
+    for (const p of state.photos) if (p.job) p.job.cancel();
+  });
+}
+
+function hasFiles(e) {
+  return e.dataTransfer && [...e.dataTransfer.types].includes('Files');
+}
+
+async function loadDemo() {
+  const b = $('demo-button');
+  b.disabled = true;
+  b.textContent = 'Making the demo photo…';
+  try {
+    const bytes = await state.pool.call('demo');
+    addFiles([new File([bytes], 'demo-chart.jpg', { type: 'image/jpeg' })]);
+  } catch (e) {
+    announce('The demo photo could not be made: ' + e.message);
+  } finally {
+    b.disabled = false;
+    b.textContent = 'Try the demo photo';
+  }
+}
+
+function addFiles(files) {
+  const accepted = files.filter((f) => f.size > 0);
+  for (const file of accepted) {
+    const p = {
+      key: nextKey++, name: file.name, file, label: '', status: 'queued', stage: 'waiting',
+      fraction: 0, result: null, error: '', thumb: null, preview: null, job: null, settingsKey: '',
+    };
+    state.photos.push(p);
+    makeRow(p);
+    makeThumb(p);
+    measure(p);
+  }
+  if (accepted.length && state.selected == null) select(state.photos[state.photos.length - accepted.length].key);
+  if (accepted.length) announce(`${accepted.length} photo${accepted.length > 1 ? 's' : ''} added`);
+  setStatus();
+}
+
+// ---------------------------------------------------------------- measuring
+
+async function measure(p) {
+  const settings = readSettings();
+  p.settingsKey = settingsKey(settings);
+  p.status = 'queued';
+  p.stage = 'waiting';
+  p.fraction = 0;
+  p.error = '';
+  updateRow(p);
+  setStatus();
+  let bytes;
+  try {
+    bytes = await p.file.arrayBuffer();
+  } catch (e) {
+    return failed(p, 'the file could not be read: ' + e.message);
+  }
+  const tiff = isTIFF(new Uint8Array(bytes, 0, Math.min(4, bytes.byteLength)));
+  if (!state.pool) await started;
+  const job = state.pool.analyze(p.name, bytes, settings, tiff ? 2048 : 0, (stage, fraction) => {
+    if (p.job !== job) return;
+    p.status = 'working';
+    p.stage = stage;
+    p.fraction = fraction;
+    updateRow(p);
+    setStatus();
+  });
+  p.job = job;
+  try {
+    const { result, preview } = await job.promise;
+    if (p.job !== job) return; // replaced by a newer job
+    p.job = null;
+    p.result = result;
+    p.status = 'done';
+    if (preview) p.preview = previewCanvas(preview);
+    if (tiff && p.preview) drawThumb(p, p.preview);
+    updateRow(p);
+    if (state.selected === p.key) showSelected();
+    announce(`${p.name}: ${outcome(result)}`);
+  } catch (e) {
+    if (p.job !== job) return;
+    p.job = null;
+    if (e instanceof AbortError) {
+      p.status = 'cancelled';
+      updateRow(p);
+    } else {
+      failed(p, e.message);
+    }
+  }
+  setStatus();
+  refreshStale();
+}
+
+function failed(p, message) {
+  p.status = 'error';
+  p.error = message;
+  updateRow(p);
+  setStatus();
+  announce(`${p.name}: ${message}`);
+}
+
+function isTIFF(b) {
+  return b.length === 4 && ((b[0] === 0x49 && b[1] === 0x49 && b[2] === 0x2a && b[3] === 0) || (b[0] === 0x4d && b[1] === 0x4d && b[2] === 0 && b[3] === 0x2a));
+}
+
+// previewCanvas turns the worker's grey preview into a canvas.
+function previewCanvas(pv) {
+  const c = document.createElement('canvas');
+  c.width = pv.width;
+  c.height = pv.height;
+  const ctx = c.getContext('2d');
+  const img = ctx.createImageData(pv.width, pv.height);
+  for (let i = 0, j = 0; i < pv.pixels.length; i++, j += 4) {
+    const v = pv.pixels[i];
+    img.data[j] = img.data[j + 1] = img.data[j + 2] = v;
+    img.data[j + 3] = 255;
+  }
+  ctx.putImageData(img, 0, 0);
+  c.factor = pv.factor;
+  return c;
+}
+
+// ---------------------------------------------------------------- photo list
+
+function makeRow(p) {
+  const li = document.createElement('li');
+  li.className = 'photo';
+  li.dataset.key = p.key;
+  const thumb = document.createElement('canvas');
+  thumb.className = 'thumb';
+  thumb.width = 144;
+  thumb.height = 96;
+  thumb.setAttribute('aria-hidden', 'true');
+  const open = document.createElement('button');
+  open.type = 'button';
+  open.className = 'open';
+  open.innerHTML = '<div class="name"></div><div class="meta"></div><div class="state"></div><progress max="1" value="0"></progress>';
+  open.addEventListener('click', () => select(p.key));
+  const actions = document.createElement('div');
+  actions.className = 'row-actions';
+  li.append(thumb, open, actions);
+  $('photo-list').append(li);
+  p.row = { li, thumb, open, actions };
+  updateRow(p);
+}
+
+function updateRow(p) {
+  if (!p.row) return;
+  const { li, open, actions } = p.row;
+  li.classList.toggle('selected', state.selected === p.key);
+  open.querySelector('.name').textContent = p.name;
+  const ex = p.result && p.result.exif ? p.result.exif : {};
+  const meta = [];
+  if (ex.f_number) meta.push(fmtFNumber(ex.f_number));
+  if (ex.focal_length_mm) meta.push(`${+ex.focal_length_mm.toFixed(1)} mm`);
+  if (p.result) meta.push(`${p.result.width} × ${p.result.height} px`);
+  open.querySelector('.meta').textContent = meta.join(' · ');
+  const st = open.querySelector('.state');
+  const bar = open.querySelector('progress');
+  st.classList.toggle('error', p.status === 'error');
+  bar.hidden = !(p.status === 'queued' || p.status === 'working');
+  bar.value = p.fraction;
+  switch (p.status) {
+    case 'queued':
+      st.textContent = 'Waiting for a free worker…';
+      bar.removeAttribute('value');
+      break;
+    case 'working':
+      st.textContent = stageWords(p.stage) + ` (${Math.round(p.fraction * 100)} %)`;
+      break;
+    case 'done':
+      st.textContent = outcome(p.result);
+      break;
+    case 'error':
+      st.textContent = 'Not measured: ' + p.error;
+      break;
+    case 'cancelled':
+      st.textContent = 'Cancelled';
+      break;
+  }
+  open.setAttribute('aria-label', `${p.name}. ${st.textContent}. Show this photo.`);
+  actions.replaceChildren();
+  const add = (text, f, label) => {
+    const b = document.createElement('button');
+    b.type = 'button';
+    b.className = 'button small';
+    b.textContent = text;
+    b.setAttribute('aria-label', `${label} ${p.name}`);
+    b.onclick = f;
+    actions.append(b);
+  };
+  if (p.status === 'queued' || p.status === 'working') add('Cancel', () => p.job && p.job.cancel(), 'Cancel');
+  else {
+    if (p.status !== 'done' || p.settingsKey !== settingsKey(readSettings())) add('Measure again', () => measure(p), 'Measure again');
+    add('Remove', () => remove(p), 'Remove');
+  }
+}
+
+function stageWords(stage) {
+  return { reading: 'Reading the file', 'finding targets': 'Finding targets', measuring: 'Measuring edges', summarising: 'Summarising' }[stage] || stage;
+}
+
+async function makeThumb(p) {
+  try {
+    const bmp = await bitmap(p.file, { resizeHeight: 96, resizeQuality: 'medium' });
+    drawThumb(p, bmp);
+    bmp.close();
+  } catch {
+    // TIFF and anything the browser cannot show: the preview comes with the result.
+  }
+}
+
+function drawThumb(p, src) {
+  const c = p.row.thumb;
+  const ctx = c.getContext('2d');
+  const s = Math.max(c.width / src.width, c.height / src.height);
+  const w = src.width * s;
+  const h = src.height * s;
+  ctx.drawImage(src, (c.width - w) / 2, (c.height - h) / 2, w, h);
+}
+
+/** bitmap decodes a photo for display with its pixels as stored (no Exif rotation). */
+export async function bitmap(blob, opts = {}) {
+  try {
+    return await createImageBitmap(blob, { ...opts, imageOrientation: 'none' });
+  } catch (e) {
+    if (!(e instanceof TypeError)) throw e;
+    return createImageBitmap(blob, { ...opts, imageOrientation: 'from-image' });
+  }
+}
+
+function remove(p) {
+  if (p.job) p.job.cancel();
+  state.photos = state.photos.filter((q) => q !== p);
+  p.row.li.remove();
+  if (state.selected === p.key) {
+    state.selected = state.photos.length ? state.photos[0].key : null;
+    showSelected();
+  }
+  setStatus();
+}
+
+function select(key) {
+  state.selected = key;
+  for (const p of state.photos) updateRow(p);
+  showSelected();
+}
+
+let shownKey = null;
+let shownBitmap = null;
+
+async function showSelected() {
+  const sec = $('result');
+  const p = state.photos.find((q) => q.key === state.selected);
+  if (!p || !p.result) {
+    sec.hidden = !p;
+    if (p) {
+      sec.replaceChildren();
+      const msg = document.createElement('p');
+      msg.className = 'empty';
+      msg.textContent = p.status === 'error' ? `${p.name} was not measured: ${p.error}` : `${p.name}: the result appears here when it is measured.`;
+      sec.append(msg);
+    }
+    return;
+  }
+  sec.hidden = false;
+  // Decode the full photo for display (JPEG and PNG); TIFF uses the preview.
+  let source = p.preview;
+  let factor = p.preview ? p.preview.factor : 1;
+  if (!p.preview) {
+    if (shownKey === p.key && shownBitmap) source = shownBitmap;
+    else {
+      if (shownBitmap) shownBitmap.close();
+      shownBitmap = null;
+      try {
+        shownBitmap = await bitmap(p.file);
+        shownKey = p.key;
+        source = shownBitmap;
+      } catch {
+        source = null;
+      }
+      if (state.selected !== p.key) return;
+    }
+    factor = 1;
+  }
+  renderResult(sec, p, state, { source, factor });
+}
+
+// ---------------------------------------------------------------- settings
+
+function refreshStale() {
+  const key = settingsKey(readSettings());
+  const stale = state.photos.some((p) => p.result && p.settingsKey !== key);
+  $('stale-bar').hidden = !stale;
+  for (const p of state.photos) updateRow(p);
+}
+
+function setupSettings() {
+  watchSettings({
+    analysis: refreshStale,
+    units: (u) => {
+      state.units = u;
+      refreshUnits(state);
+    },
+  });
+  $('remeasure').addEventListener('click', () => {
+    const key = settingsKey(readSettings());
+    for (const p of state.photos) if (p.settingsKey !== key || p.status !== 'done') measure(p);
+  });
+}
+
+// ---------------------------------------------------------------- exports
+
+async function exportJSON() {
+  const text = await state.pool.call('json', [JSON.stringify(window.sagitta.results)]);
+  saveBlob(new Blob([text], { type: 'application/json' }), 'sagitta-results.json');
+}
+
+async function exportCSV() {
+  const text = await state.pool.call('csv', [JSON.stringify(window.sagitta.results)]);
+  saveBlob(new Blob([text], { type: 'text/csv' }), 'sagitta-measurements.csv');
+}
+
+function exportReport() {
+  const p = state.photos.find((q) => q.key === state.selected && q.result) || state.photos.find((q) => q.result);
+  if (!p) return;
+  showPlace('measure');
+  if (state.selected !== p.key) select(p.key);
+  const box = document.getElementById('report-settings');
+  if (box) box.textContent = settingsSummary(p.result) + ` Printed ${new Date().toLocaleString()}.`;
+  setTimeout(() => window.print(), 50);
+}
+
+function setupExports() {
+  const menu = $('export-menu');
+  const wrap = (f) => async () => {
+    menu.open = false;
+    try {
+      await f();
+    } catch (e) {
+      announce('Export failed: ' + e.message);
+    }
+  };
+  $('export-json').addEventListener('click', wrap(exportJSON));
+  $('export-csv').addEventListener('click', wrap(exportCSV));
+  $('export-report').addEventListener('click', wrap(exportReport));
+  // The single file has nothing to download: it is the offline copy.
+  if (document.documentElement.dataset.build === 'single-file') $('offline-link').hidden = true;
+}
+
+// ---------------------------------------------------------------- start
+
+let started;
+
+function boot() {
+  setupTabs();
+  setupIntake();
+  setupSettings();
+  setupExports();
+  setStatus();
+  started = engine().then(async (pool) => {
+    state.pool = pool;
+    state.functions = await pool.warm();
+    $('demo-button').hidden = !state.functions.has('demo');
+    $('tab-print').hidden = !state.functions.has('chart');
+    document.body.dataset.engine = 'ready';
+  });
+  started.catch((e) => {
+    document.body.dataset.status = 'error';
+    document.body.dataset.engine = 'failed';
+    announce('The measuring engine did not start: ' + e.message);
+    const p = document.createElement('p');
+    p.className = 'notes';
+    p.textContent = 'The measuring engine did not start in this browser: ' + e.message;
+    $('place-measure').prepend(p);
+  });
+}
+
+boot();

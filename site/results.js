@@ -1,0 +1,362 @@
+// The result of one photo in the Measure place: the photo with its targets,
+// a selected target's edge profile and response, the field across the
+// frame, the photo's Exif, the settings used and the cautions.
+
+import { PhotoViewer } from './viewer.js';
+import { plot } from './plot.js';
+import { mtf50Colour, scaleGradient, SCALE_MAX_CY_PX, ORIENTATION } from './colour.js';
+import { fromCyPx, fmtFreq, fmt, fmtFNumber, fmtExposure, UNITS, NYQUIST_CY_PX, digits } from './units.js';
+import { bestPossible, WAVELENGTH_UM } from './optics.js';
+import { settingsSummary } from './settings.js';
+
+/** outcome says in one line what came of a photo. */
+export function outcome(r) {
+  const edges = r.measurements.filter((m) => m.kind === 'edge').length;
+  const stars = new Set(r.measurements.filter((m) => m.kind === 'star').map((m) => `${m.x_px},${m.y_px}`)).size;
+  let s = `${edges} edge${edges === 1 ? '' : 's'}` + (stars ? `, ${stars} star${stars === 1 ? '' : 's'}` : '') + ' measured';
+  if (r.rejected.length) s += `; ${r.rejected.length} set aside`;
+  return s;
+}
+
+// The photo on show, kept between renders so that zoom survives a change of units.
+let current = null;
+
+const el = (tag, attrs = {}, text) => {
+  const e = document.createElement(tag);
+  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, v);
+  if (text != null) e.textContent = text;
+  return e;
+};
+
+/**
+ * renderResult fills sec with the result of photo p.
+ * display: {source (ImageBitmap or canvas, or null), factor (photo px per source px)}.
+ */
+export function renderResult(sec, p, state, display) {
+  const r = p.result;
+  if (current && current.key === p.key && current.result === r && current.sec === sec) {
+    refreshUnits(state);
+    return;
+  }
+  sec.replaceChildren();
+  const head = el('div', { class: 'result-head' });
+  const h = el('h2', { id: 'result-title' }, p.label || p.name);
+  const facts = el('p', { class: 'facts' }, `${r.width} × ${r.height} px · ${r.format.toUpperCase()} · ${outcome(r)}`);
+  head.append(h, facts);
+  sec.append(head);
+  if (r.warnings.length) {
+    const notes = el('div', { class: 'notes', role: 'note' });
+    notes.append(el('strong', {}, 'Notes on this photo'));
+    const ul = el('ul');
+    for (const w of r.warnings) ul.append(el('li', {}, w));
+    notes.append(ul);
+    sec.append(notes);
+  }
+
+  const grid = el('div', { class: 'result-grid' });
+  const left = el('div');
+  const viewerRoot = el('div');
+  left.append(viewerRoot);
+  const key = el('div', { class: 'key', 'aria-label': 'Colour key' });
+  left.append(key);
+  const detail = el('aside', { class: 'detail', id: 'target-detail', 'aria-live': 'polite' });
+  grid.append(left, detail);
+  sec.append(grid);
+
+  const frame = el('section', { class: 'frame', 'aria-labelledby': 'frame-title' });
+  sec.append(frame);
+  const about = el('div', { class: 'about' });
+  sec.append(about);
+  sec.append(cautions(r));
+
+  const viewer = new PhotoViewer(viewerRoot, { onSelect: (id) => selectTarget(id) });
+  current = { key: p.key, result: r, sec, p, state, viewer, detail, frame, keyEl: key, about, selected: null, refF: null };
+  if (display.source) viewer.setPhoto(display.source, r.width, r.height, display.factor);
+  else {
+    viewer.setPhoto(blankCanvas(r.width, r.height), r.width, r.height, Math.max(1, r.width / 64));
+  }
+  viewer.setTargets(r.measurements, r.rejected, colourOf, (m) => targetLabel(m, r, state.units));
+  if (r.rejected.length) left.append(setAsideList(r, viewer));
+  renderKey(key, r, state.units);
+  renderDetail();
+  renderFrame();
+  renderAbout(about, r);
+}
+
+/** refreshUnits redraws what depends on the units shown. */
+export function refreshUnits(state) {
+  if (!current) return;
+  const r = current.result;
+  current.viewer.recolour(colourOf, (m) => targetLabel(m, r, state.units));
+  renderKey(current.keyEl, r, state.units);
+  renderDetail();
+  renderFrame();
+}
+
+function selectTarget(id) {
+  current.selected = id;
+  current.viewer.select(id);
+  renderDetail();
+}
+
+function colourOf(m) {
+  return mtf50Colour(m.mtf50_cy_px);
+}
+
+function kindWord(m) {
+  return m.kind === 'star' ? 'Star' : 'Edge';
+}
+
+function targetLabel(m, r, units) {
+  let s = `${kindWord(m)} ${m.id}: ${m.orientation}, ${fmt(m.height_mm, 1)} mm from the centre, MTF50 ${fmtFreq(m.mtf50_cy_px, units, r)}`;
+  if (m.warnings.length) s += ` (${m.warnings.join('; ')})`;
+  return s;
+}
+
+function blankCanvas(w, h) {
+  const c = document.createElement('canvas');
+  c.width = 64;
+  c.height = Math.max(1, Math.round((64 * h) / w));
+  const ctx = c.getContext('2d');
+  ctx.fillStyle = '#5a6068';
+  ctx.fillRect(0, 0, c.width, c.height);
+  return c;
+}
+
+function renderKey(key, r, units) {
+  key.replaceChildren();
+  key.append(el('span', {}, `MTF50 (${UNITS[units].label})`));
+  const bar = el('div', { class: 'key-bar' });
+  bar.style.background = scaleGradient();
+  key.append(bar);
+  const ticks = el('div', { class: 'key-ticks', 'aria-hidden': 'true' });
+  for (let i = 0; i <= 5; i++) {
+    const v = (SCALE_MAX_CY_PX * i) / 5;
+    const s = el('span', {}, fromCyPx(v, units, r).toFixed(Math.max(0, digits(units) - (units === 'lpmm' ? 1 : 0))));
+    s.style.left = `${(i / 5) * 100}%`;
+    ticks.append(s);
+  }
+  key.append(el('span', { class: 'hint' }, 'soft → sharp'), ticks);
+  key.setAttribute('aria-label', `Colour key: MTF50 from 0 (dark blue, soft) to ${fmtFreq(SCALE_MAX_CY_PX, units, r)}, the Nyquist frequency (pale yellow, sharp).`);
+}
+
+function setAsideList(r, viewer) {
+  const det = el('details', { class: 'setaside' });
+  det.append(el('summary', {}, `${r.rejected.length} candidate${r.rejected.length === 1 ? '' : 's'} set aside, and why`));
+  const ul = el('ul');
+  r.rejected.forEach((c, i) => {
+    const li = el('li');
+    const b = el('button', { type: 'button' }, `near (${Math.round((c.x0_px + c.x1_px) / 2)}, ${Math.round((c.y0_px + c.y1_px) / 2)}) px: ${c.reason}`);
+    b.addEventListener('focus', () => viewer.highlightRejected(i, true));
+    b.addEventListener('blur', () => viewer.highlightRejected(i, false));
+    b.addEventListener('mouseenter', () => viewer.highlightRejected(i, true));
+    b.addEventListener('mouseleave', () => viewer.highlightRejected(i, false));
+    b.addEventListener('click', () => viewer.centreOn((c.x0_px + c.x1_px) / 2, (c.y0_px + c.y1_px) / 2));
+    li.append(b);
+    ul.append(li);
+  });
+  det.append(ul);
+  return det;
+}
+
+// ---------------------------------------------------------------- one target
+
+function renderDetail() {
+  const { detail, result: r, state } = current;
+  const units = state.units;
+  detail.replaceChildren();
+  const m = r.measurements.find((x) => x.id === current.selected);
+  if (!m) {
+    detail.append(el('h3', {}, 'One target in detail'));
+    detail.append(el('p', { class: 'hint' }, r.measurements.length
+      ? 'Select a target on the photo (click it, or Tab to it and press Enter) to see its edge profile and its response curve.'
+      : 'No target was measured in this photo.'));
+    if (r.measurements.length) {
+      const best = [...r.measurements].sort((a, b) => a.height_mm - b.height_mm)[0];
+      const b = el('button', { type: 'button', class: 'button small' }, `Show the target nearest the centre (${kindWord(best).toLowerCase()} ${best.id})`);
+      b.onclick = () => selectTarget(best.id);
+      detail.append(b);
+    }
+    return;
+  }
+  const title = el('h3', {}, `${kindWord(m)} ${m.id}`);
+  const chip = el('span', { class: 'hint' }, ` · ${m.orientation}`);
+  chip.style.color = ORIENTATION[m.orientation] || 'inherit';
+  title.append(chip);
+  detail.append(title);
+  const dl = el('dl');
+  const row = (k, v) => dl.append(el('dt', {}, k), el('dd', {}, v));
+  row('Position', `${fmt(m.x_px, 1)}, ${fmt(m.y_px, 1)} px`);
+  row('From the centre', `${fmt(m.height_mm, 2)} mm (${Math.round((100 * m.height_mm) / r.corner_mm)} % of the way to a corner)`);
+  row('Orientation', `${m.orientation}: measured ${fmt(m.radius_angle_deg, 0)}° from the radius`);
+  row('MTF50', fmtFreq(m.mtf50_cy_px, units, r));
+  row('MTF50P', fmtFreq(m.mtf50p_cy_px, units, r));
+  r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, fmt(m.mtf_at_freqs[i], 3)));
+  row('MTF at Nyquist', fmt(m.mtf_nyquist, 3));
+  row('Edge', `${fmt(m.length_px, 0)} px long, slanted ${fmt(m.slant_deg, 1)}°, contrast ${fmt(m.contrast, 1)}:1, signal/noise ${fmt(m.snr, 0)}`);
+  if (m.warnings.length) row('Notes', m.warnings.join('; '));
+  detail.append(dl);
+
+  // The reference curve: a perfect lens at the photo's f-number.
+  const refRow = el('p', { class: 'ref-row' });
+  const fIn = el('input', { type: 'number', min: '0.7', max: '64', step: '0.1', id: 'ref-fnumber', 'aria-label': 'f-number for the reference curve' });
+  if (current.refF == null) current.refF = r.exif && r.exif.f_number ? r.exif.f_number : null;
+  if (current.refF) fIn.value = current.refF;
+  fIn.addEventListener('change', () => {
+    const v = parseFloat(fIn.value);
+    current.refF = v > 0 ? v : null;
+    renderDetail();
+  });
+  refRow.append('Reference: a perfect lens at f/ ', fIn, r.exif && r.exif.f_number ? ' (from Exif)' : ' (enter the f-number)');
+  detail.append(refRow);
+
+  detail.append(plot({
+    title: 'Edge profile (ESF)', xLabel: 'distance across the edge (px)', yLabel: 'level (dark 0, light 1)',
+    xDomain: extent(m.esf.x_px), yDomain: padded(m.esf.v),
+    series: [{ name: 'edge profile', points: zip(m.esf.x_px, m.esf.v), colour: '#1b1f24', width: 1.6 }],
+    width: 460, height: 220, fileName: `edge-${m.id}-profile`,
+  }));
+  detail.append(plot({
+    title: 'Line spread (LSF, the derivative)', xLabel: 'distance across the edge (px)', yLabel: 'relative level',
+    xDomain: extent(m.lsf.x_px), yDomain: padded(m.lsf.v),
+    series: [{ name: 'line spread', points: zip(m.lsf.x_px, m.lsf.v), colour: '#1b1f24', width: 1.6 }],
+    width: 460, height: 220, fileName: `edge-${m.id}-line-spread`,
+  }));
+  const fmax = Math.min(1, m.freq_cy_px[m.freq_cy_px.length - 1]);
+  const conv = (f) => fromCyPx(f, units, r);
+  const pts = [];
+  for (let i = 0; i < m.freq_cy_px.length && m.freq_cy_px[i] <= fmax + 1e-9; i++) pts.push([conv(m.freq_cy_px[i]), m.mtf[i]]);
+  const series = [{ name: `measured (${m.orientation})`, points: pts, colour: ORIENTATION[m.orientation] || '#1b1f24', width: 2 }];
+  const ref = [];
+  if (current.refF) {
+    for (let i = 0; i <= 200; i++) {
+      const f = (fmax * i) / 200;
+      ref.push([conv(f), bestPossible(f, current.refF, r.pitch_um)]);
+    }
+    series.push({ name: `perfect lens at ${fmtFNumber(current.refF)}: diffraction (${WAVELENGTH_UM * 1000} nm) and pixel area`, points: ref, colour: '#6f767e', width: 1.3, dash: '6 4' });
+  }
+  const ymax = Math.max(1.05, ...m.mtf.filter(Number.isFinite));
+  const table = { columns: [`frequency (${UNITS[units].label})`, 'MTF measured'].concat(current.refF ? ['perfect lens'] : []), rows: [] };
+  for (let i = 0; i < pts.length; i++) {
+    const f = m.freq_cy_px[i];
+    const rowv = [pts[i][0], pts[i][1]];
+    if (current.refF) rowv.push(bestPossible(f, current.refF, r.pitch_um));
+    table.rows.push(rowv);
+  }
+  detail.append(plot({
+    title: 'Response (MTF)', xLabel: `spatial frequency (${UNITS[units].label})`, yLabel: 'MTF',
+    xDomain: [0, conv(fmax)], yDomain: [0, ymax],
+    series, vlines: [{ x: conv(NYQUIST_CY_PX), label: 'Nyquist', colour: '#1b1f24', legend: 'Nyquist frequency (half the sampling rate)' }],
+    table, width: 460, height: 260, fileName: `edge-${m.id}-mtf`,
+  }));
+  if (current.refF && pts.some((p, i) => p[1] > bestPossible(m.freq_cy_px[i], current.refF, r.pitch_um) + 0.05)) {
+    detail.append(el('p', { class: 'notes' }, 'This edge responds above what a perfect lens could give at this f-number: the file was sharpened (in the camera or later), or the f-number is wrong. Sharpened files overstate the lens.'));
+  }
+}
+
+function zip(a, b) {
+  return a.map((x, i) => [x, b[i]]);
+}
+
+function extent(a) {
+  return [Math.min(...a), Math.max(...a)];
+}
+
+function padded(a) {
+  const lo = Math.min(0, ...a.filter(Number.isFinite));
+  const hi = Math.max(1, ...a.filter(Number.isFinite));
+  const pad = 0.05 * (hi - lo);
+  return [lo - pad, hi + pad];
+}
+
+// ---------------------------------------------------------------- across the frame
+
+function renderFrame() {
+  const { frame, result: r, state } = current;
+  const units = state.units;
+  frame.replaceChildren();
+  frame.append(el('h3', { id: 'frame-title' }, 'Across the frame'));
+  const ms = r.measurements.filter((m) => Number.isFinite(m.height_mm));
+  if (!ms.length) {
+    frame.append(el('p', { class: 'hint' }, 'Nothing was measured, so there is nothing to show across the frame.'));
+    return;
+  }
+  frame.append(el('p', { class: 'hint' }, 'Each mark is one measured target, at its distance from the optical centre. ' +
+    'Sagittal targets are measured across the radius from the centre, tangential ones along it.'));
+  const grid = el('div', { class: 'frame-grid' });
+  frame.append(grid);
+
+  const freqs = r.freqs_lp_mm;
+  const series = [];
+  const table = { columns: ['target', 'kind', 'orientation', 'height (mm)'].concat(freqs.map((f) => `MTF at ${f} lp/mm`)), rows: [] };
+  for (const o of ['sagittal', 'tangential', 'mixed']) {
+    for (const kind of ['edge', 'star']) {
+      const sel = ms.filter((m) => m.orientation === o && m.kind === kind);
+      if (!sel.length) continue;
+      freqs.forEach((f, i) => {
+        series.push({
+          name: `${o}, ${f} lp/mm${kind === 'star' ? ' (stars)' : ''}`,
+          points: sel.map((m) => [m.height_mm, m.mtf_at_freqs[i]]),
+          colour: ORIENTATION[o], line: false, marker: kind === 'star' ? 'diamond' : i === 0 ? 'circle' : 'square',
+          markerSize: i === 0 ? 4 : 2.6,
+        });
+      });
+    }
+  }
+  for (const m of ms) table.rows.push([m.id, m.kind, m.orientation, m.height_mm, ...m.mtf_at_freqs]);
+  grid.append(plot({
+    title: `MTF at ${freqs.join(' and ')} lp/mm`, xLabel: 'distance from the optical centre (mm)', yLabel: 'MTF',
+    xDomain: [0, Math.max(r.corner_mm, 1)], yDomain: [0, Math.max(1, ...ms.flatMap((m) => m.mtf_at_freqs).filter(Number.isFinite))],
+    series, table, width: 560, height: 320, fileName: 'field-mtf',
+  }));
+  const s50 = [];
+  for (const o of ['sagittal', 'tangential', 'mixed']) {
+    const sel = ms.filter((m) => m.orientation === o && Number.isFinite(m.mtf50_cy_px));
+    if (sel.length) s50.push({ name: `${o}`, points: sel.map((m) => [m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]), colour: ORIENTATION[o], line: false, marker: 'circle', markerSize: 3.4 });
+  }
+  const yMax = fromCyPx(NYQUIST_CY_PX, units, r);
+  grid.append(plot({
+    title: 'MTF50 across the frame', xLabel: 'distance from the optical centre (mm)', yLabel: `MTF50 (${UNITS[units].label})`,
+    xDomain: [0, Math.max(r.corner_mm, 1)], yDomain: [0, yMax], series: s50,
+    table: { columns: ['target', 'orientation', 'height (mm)', `MTF50 (${UNITS[units].label})`], rows: ms.map((m) => [m.id, m.orientation, m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]) },
+    width: 560, height: 320, fileName: 'field-mtf50',
+  }));
+}
+
+// ---------------------------------------------------------------- about, cautions
+
+function renderAbout(about, r) {
+  const ex = r.exif || {};
+  const a = el('div');
+  a.append(el('h3', {}, 'About this photo'));
+  const dl = el('dl');
+  const row = (k, v) => v && dl.append(el('dt', {}, k), el('dd', {}, v));
+  row('Camera', ex.model && ex.make && ex.model.toLowerCase().startsWith(ex.make.toLowerCase()) ? ex.model : [ex.make, ex.model].filter(Boolean).join(' '));
+  row('Lens', ex.lens_model);
+  row('Aperture', fmtFNumber(ex.f_number));
+  row('Focal length', ex.focal_length_mm ? `${+ex.focal_length_mm.toFixed(1)} mm` + (ex.focal_length_35mm ? ` (${ex.focal_length_35mm} mm in 35 mm terms)` : '') : '');
+  row('Exposure', [fmtExposure(ex.exposure_time_s), ex.iso ? `ISO ${ex.iso}` : '', ex.exposure_bias_ev ? `${ex.exposure_bias_ev > 0 ? '+' : ''}${ex.exposure_bias_ev} EV` : ''].filter(Boolean).join(', '));
+  row('Size', `${r.width} × ${r.height} px, ${r.bit_depth}-bit ${r.format.toUpperCase()}`);
+  if (!dl.childElementCount) dl.append(el('dd', {}, 'The file carries no camera data (Exif).'));
+  a.append(dl);
+  const b = el('div');
+  b.append(el('h3', {}, 'Settings used'));
+  b.append(el('p', { id: 'report-settings' }, settingsSummary(r)));
+  about.append(a, b);
+}
+
+function cautions(r) {
+  const sec = el('section', { class: 'cautions', 'aria-labelledby': 'cautions-title' });
+  sec.append(el('h3', { id: 'cautions-title' }, 'Before you judge the lens'));
+  const ul = el('ul');
+  const items = [
+    'These numbers describe this photo, not only the lens: focus, vibration, lighting, the flatness of the chart and how square the camera faced it matter as much.',
+    'Focus carefully (take several frames and keep the best), use a tripod and a delayed or electronic shutter, light the chart evenly without glare, and keep the sensor parallel to the chart.',
+    'A poor result first means: repeat the shot and check the set-up. Only a result that repeats says something about the lens, and a repair or warranty question belongs with the maker\'s service.',
+  ];
+  if (r.measurements.some((m) => (m.flags || []).includes('sharpened'))) items.push('Some edges overshoot: sharpening in the camera or the converter raises these numbers. Compare only photos processed the same way.');
+  if (r.format === 'jpeg') items.push('JPEG files carry the camera\'s processing and compression. A raw file converted without sharpening measures the lens more faithfully.');
+  for (const t of items) ul.append(el('li', {}, t));
+  sec.append(ul);
+  return sec;
+}
