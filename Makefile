@@ -7,12 +7,12 @@ BIN := bin
 WEB := $(BIN)/web
 WASM := $(BIN)/sagitta.wasm
 DIST := dist/sagitta.html
-DEMO := $(BIN)/demo.png
+DEMO := $(BIN)/demo.jpg
 TESTDIR := site/test
 TESTOUT := $(BIN)/test
 ADDR ?= 127.0.0.1:8080
 
-.PHONY: all build test test-go test-wasm test-browser vet run bench deps clean demo wasm dist browser-deps FORCE
+.PHONY: all build test test-go test-wasm test-browser vet run bench deps tools clean demo wasm dist browser-deps FORCE
 
 all: build
 
@@ -28,12 +28,19 @@ vet: deps
 	GOOS=js GOARCH=wasm $(GO) vet ./wasm
 	@test -z "$$(gofmt -l core wasm site 2>/dev/null)" || { echo "gofmt needed:"; gofmt -l core wasm site; exit 1; }
 
-test-go: deps
+# Debian tools the tests use as independent references (poppler's pdfinfo
+# and pdftoppm read our PDFs). Installed when missing; tests that need them
+# skip only when they cannot be had.
+tools:
+	@command -v pdftoppm >/dev/null 2>&1 || { (apt-get install -y poppler-utils >/dev/null 2>&1 || (apt-get update >/dev/null && apt-get install -y poppler-utils >/dev/null)) || echo "warning: poppler-utils could not be installed"; }
+
+test-go: deps tools
 	$(GO) test -count=1 ./...
 
 # Core's tests compiled to WebAssembly and run under Node, so the browser
 # build cannot silently diverge from the native one.
 test-wasm: deps
+	GOOS=js GOARCH=wasm $(GO) build -o /dev/null ./wasm
 	GOOS=js GOARCH=wasm $(GO) test -count=1 -short -exec="$(WASM_EXEC)" ./core/...
 
 test: vet test-go test-wasm test-browser

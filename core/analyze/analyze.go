@@ -149,10 +149,32 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 		img.Measurements[i].ID = i + 1
 	}
 	if len(img.Measurements) == 0 {
-		img.Warnings = append(img.Warnings, "no measurable edge was found in this photo")
+		return nil, noTargets(img.Rejected)
 	}
 	progress(StageSumming, 1)
 	return img, nil
+}
+
+// ErrNoTargets is returned (wrapped) when a photo holds nothing measurable.
+var ErrNoTargets = errors.New("no measurable edge found")
+
+// noTargets explains an empty result in one line: what was set aside, and
+// why, most common reason first.
+func noTargets(rej []Rejected) error {
+	if len(rej) == 0 {
+		return fmt.Errorf("analyze: %w: the photo shows no straight boundary between dark and light areas", ErrNoTargets)
+	}
+	count := map[string]int{}
+	for _, r := range rej {
+		count[r.Reason]++
+	}
+	best, n := "", 0
+	for reason, c := range count {
+		if c > n || c == n && reason < best {
+			best, n = reason, c
+		}
+	}
+	return fmt.Errorf("analyze: %w: %d candidates set aside, most often because: %s", ErrNoTargets, len(rej), best)
 }
 
 // pitch chooses the pixel pitch: the user's value, else the sensor width

@@ -1,15 +1,17 @@
 package edge
 
 import (
+	"cmp"
 	"math"
-	"sort"
+	"slices"
 )
 
 // lineFit is the fitted edge in a region's frame: the edge passes through
 // w = Rho + Alpha*u + Kappa*u*u (u, w in px, region frame), the image steps
 // from Dark to Dark+Step as w increases across it (Step may be negative
 // before orient is called), and Width is the standard deviation (px) of the
-// error-function edge model the fit used.
+// logistic edge model the fit used (a logistic of width s has the slope
+// of a normal CDF of standard deviation 1.6 s at its centre).
 type lineFit struct {
 	Rho, Alpha, Kappa float64
 	Dark, Step, Width float64
@@ -27,7 +29,7 @@ func (f *lineFit) dist(u, w float64) float64 {
 // edge position of 2 px strips along the edge (exact for any symmetric edge
 // profile, and insensitive to noise because it integrates rather than
 // differentiates), then refines all parameters at once by Levenberg-Marquardt
-// on the model v = Dark + Step*Phi(d/Width), where d is the distance to the
+// on the model v = Dark + Step*L(d/Width), L the logistic, d the distance to the
 // quadratic edge curve. The model's shape only serves to locate the edge: an
 // asymmetric real profile biases Rho (a constant shift, harmless), not the
 // angle or the curvature, because the profile is the same all along the edge.
@@ -36,7 +38,7 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 	if n < 32 {
 		return lineFit{}, false
 	}
-	lo, hi := percentile(s.v, 0.05), percentile(s.v, 0.95)
+	lo, hi := percentiles(s.v, 0.05, 0.95)
 	if !(hi > lo) {
 		return lineFit{}, false
 	}
@@ -73,7 +75,7 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 		if len(st) < 6 {
 			continue
 		}
-		sort.Slice(st, func(a, b int) bool { return st[a].w < st[b].w })
+		slices.SortFunc(st, func(a, b pt) int { return cmp.Compare(a.w, b.w) })
 		// Integral of the normalised profile over the strip's w range.
 		wa, wb := st[0].w, st[len(st)-1].w
 		var area float64
@@ -111,13 +113,45 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 	if !rising {
 		f.Dark, f.Step = hi, lo-hi
 	}
-	if !levenberg(&f, s, halfLen) {
-		return lineFit{}, false
+	// Fit within a band around the edge: pixels far out on the plateaus
+	// carry almost nothing about the line's position and cost most of the
+	// time. The band widens if the fitted profile turns out wide.
+	band := math.Min(fitBandPx, halfWidth)
+	for {
+		sub := within(s, f, band)
+		if len(sub.v) < 32 {
+			sub = s
+		}
+		if !levenberg(&f, sub, halfLen) {
+			return lineFit{}, false
+		}
+		if 5*f.Width <= band || band >= halfWidth {
+			break
+		}
+		band = math.Min(halfWidth, 2*band)
 	}
 	if math.Abs(f.Rho) > halfWidth || f.Width <= 0 {
 		return lineFit{}, false
 	}
 	return f, true
+}
+
+// fitBandPx is the initial half-width of the band of pixels used to fit the
+// edge model, px.
+const fitBandPx = 12
+
+// within returns the samples within band px (across the region) of the
+// fitted line.
+func within(s samples, f lineFit, band float64) samples {
+	var out samples
+	for i := range s.v {
+		if math.Abs(s.w[i]-f.Rho-f.Alpha*s.u[i]-f.Kappa*s.u[i]*s.u[i]) <= band {
+			out.u = append(out.u, s.u[i])
+			out.w = append(out.w, s.w[i])
+			out.v = append(out.v, s.v[i])
+		}
+	}
+	return out
 }
 
 // levenberg refines the six model parameters by Levenberg-Marquardt
@@ -180,7 +214,7 @@ func levenberg(f *lineFit, s samples, halfLen float64) bool {
 			}
 			c1 := cost(q)
 			if c1 < c0 {
-				small := math.Abs(dp[3]) < 1e-5 && math.Abs(dp[4]) < 1e-5 && math.Abs(dp[5]) < 1e-5
+				small := math.Abs(dp[3]) < 1e-4 && math.Abs(dp[4]) < 1e-4 && math.Abs(dp[5]) < 1e-4 || c0-c1 < 1e-10*c0
 				p, c0 = q, c1
 				lambda = max(lambda/10, 1e-9)
 				improved = true
@@ -206,24 +240,26 @@ func model(p [6]float64, un, w float64) float64 {
 	return modelGrad(p, un, w, &g)
 }
 
-// modelGrad evaluates v = Dark + Step*Phi(d/Width) with d = w - Rho - A*un -
-// K*un^2 measured across the region (not along the true normal: the small
-// slope factor is absorbed by Width, which only serves the fit) and stores
-// the partial derivatives with respect to the six parameters in g.
+// modelGrad evaluates v = Dark + Step*L(d/Width) with the logistic
+// L(z) = 1/(1 + exp(-z)) and d = w - Rho - A*un - K*un^2 measured across
+// the region (not along the true normal: the small slope factor is absorbed
+// by Width, which only serves the fit), and stores the partial derivatives
+// with respect to the six parameters in g. The logistic stands in for the
+// profile's shape because it costs one exponential; any symmetric step
+// locates the line equally well.
 func modelGrad(p [6]float64, un, w float64, g *[6]float64) float64 {
 	e := p[3] + p[4]*un + p[5]*un*un
 	d := w - e
 	z := d / p[2]
-	cdf := 0.5 * math.Erfc(-z/math.Sqrt2)
-	pdf := math.Exp(-0.5*z*z) / math.Sqrt(2*math.Pi)
-	k := p[1] * pdf / p[2]
+	l := 1 / (1 + math.Exp(-z))
+	k := p[1] * l * (1 - l) / p[2]
 	g[0] = 1
-	g[1] = cdf
+	g[1] = l
 	g[2] = -k * z
 	g[3] = -k
 	g[4] = -k * un
 	g[5] = -k * un * un
-	return p[0] + p[1]*cdf
+	return p[0] + p[1]*l
 }
 
 // solve solves the small symmetric system m x = b by Gaussian elimination
@@ -266,10 +302,11 @@ func solve(m [6][6]float64, b [6]float64) ([6]float64, bool) {
 	return x, true
 }
 
-// percentile returns the q-quantile (0..1) of v without modifying it.
-func percentile(v []float64, q float64) float64 {
+// percentiles returns the p- and q-quantiles (0..1) of v without modifying
+// it.
+func percentiles(v []float64, p, q float64) (float64, float64) {
 	c := append([]float64(nil), v...)
-	sort.Float64s(c)
-	i := int(q * float64(len(c)-1))
-	return c[i]
+	slices.Sort(c)
+	at := func(q float64) float64 { return c[int(q*float64(len(c)-1))] }
+	return at(p), at(q)
 }

@@ -142,17 +142,18 @@ func Measure(p *plane.Plane, r Region, opt Options) (*Measurement, error) {
 	m := &Measurement{Method: opt.Method.String()}
 	geometry(m, r, fit, s, flipped)
 	freq := opt.grid()
+	nDark, nLight := pairNoise(p, r, fit, flipped, coreWidth(fit))
 	var err error
 	switch opt.Method {
 	case ISO:
 		err = measureISO(m, p, r, freq)
 	default:
-		err = measureRefined(m, fit, s, freq)
+		err = measureRefined(m, fit, s, freq, nDark, nLight)
 	}
 	if err != nil {
 		return nil, err
 	}
-	assess(m, s, fit)
+	assess(m, s, fit, nDark, nLight)
 	return m, nil
 }
 

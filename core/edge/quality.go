@@ -24,16 +24,20 @@ const (
 	plateauMarginPx = 2.0  // plateau pixels start this far beyond the edge profile's core
 )
 
+// coreWidth is the half-width (px) of the steep part of the edge profile:
+// pixels farther out count as plateau for levels, noise and clipping.
+func coreWidth(f lineFit) float64 { return 4*f.Width + plateauMarginPx }
+
 // assess fills the plateau statistics that the estimator did not and sets
 // the quality flags.
-func assess(m *Measurement, s samples, f lineFit) {
-	core := 4*f.Width + plateauMarginPx
+func assess(m *Measurement, s samples, f lineFit, sdD, sdL float64) {
+	core := coreWidth(f)
 	d := make([]float64, len(s.v))
 	for i := range d {
 		d[i] = f.dist(s.u[i], s.w[i])
 	}
 	if m.NoiseRMS == 0 {
-		dark, light, sdD, sdL := plateaus(d, s.v, core)
+		dark, light, _, _ := plateaus(d, s.v, core)
 		if !math.IsNaN(dark) && !math.IsNaN(light) {
 			m.Dark, m.Light = dark, light
 		}

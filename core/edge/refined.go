@@ -1,9 +1,6 @@
 package edge
 
-import (
-	"math"
-	"sort"
-)
+import "math"
 
 // The refined estimator, Sagitta's own. It keeps the physics of the e-SFR
 // method (the MTF is the normalised Fourier transform of the derivative of
@@ -45,7 +42,7 @@ type point struct {
 	n    float64 // number of pixels merged
 }
 
-func measureRefined(m *Measurement, f lineFit, s samples, freq []float64) error {
+func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark, sdLight float64) error {
 	n := len(s.v)
 	d := make([]float64, n)
 	reach := math.Inf(1) // distance to the nearest end of the sampled profile
@@ -61,8 +58,8 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64) error 
 	pts := merge(d, s.v)
 
 	// Plateaus, noise and the coarse profile.
-	core := math.Min(4*f.Width+2, reach-1)
-	dark, light, sdDark, sdLight := plateaus(d, s.v, core)
+	core := math.Min(coreWidth(f), reach-1)
+	dark, light, _, _ := plateaus(d, s.v, core)
 	step := light - dark
 	if !(step > 0) {
 		return ErrNoEdge
@@ -206,27 +203,34 @@ func stieltjes(mid, wts, dv, nv, freq []float64) []float64 {
 	return out
 }
 
-// merge sorts the samples by distance and averages those that fall within
-// finePx of each other.
+// merge averages the samples that fall into the same bin of finePx along
+// the normal (no sort needed: the bins are indexed directly) and returns
+// the occupied bins in order of distance, each at its samples' mean
+// distance and mean value.
 func merge(d, v []float64) []point {
-	idx := make([]int, len(d))
-	for i := range idx {
-		idx[i] = i
+	if len(d) == 0 {
+		return nil
 	}
-	sort.Slice(idx, func(a, b int) bool { return d[idx[a]] < d[idx[b]] })
-	out := make([]point, 0, len(d)/4+1)
-	for _, i := range idx {
-		if l := len(out); l > 0 && d[i]-out[l-1].d/out[l-1].n < finePx {
-			out[l-1].d += d[i]
-			out[l-1].v += v[i]
-			out[l-1].n++
-			continue
+	lo, hi := d[0], d[0]
+	for _, x := range d {
+		lo, hi = math.Min(lo, x), math.Max(hi, x)
+	}
+	i0 := int(math.Floor(lo / finePx))
+	nb := int(math.Floor(hi/finePx)) - i0 + 1
+	bins := make([]point, nb)
+	for i, x := range d {
+		b := &bins[int(math.Floor(x/finePx))-i0]
+		b.d += x
+		b.v += v[i]
+		b.n++
+	}
+	out := bins[:0]
+	for _, b := range bins {
+		if b.n > 0 {
+			b.d /= b.n
+			b.v /= b.n
+			out = append(out, b)
 		}
-		out = append(out, point{d[i], v[i], 1})
-	}
-	for i := range out {
-		out[i].d /= out[i].n
-		out[i].v /= out[i].n
 	}
 	return out
 }

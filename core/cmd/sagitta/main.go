@@ -22,6 +22,7 @@ const usage = `sagitta: measure lens sharpness (MTF) from photos of edges and ch
 
 commands:
   analyze   measure every usable edge in photos and summarise them over the frame
+  demo      write the built-in demo photo (a simulated lens and camera of our own)
   help      show this text
 
 run "sagitta COMMAND -h" for the options of a command.
@@ -42,6 +43,8 @@ func run(args []string, stdout, stderr io.Writer) int {
 	switch args[0] {
 	case "analyze":
 		err = cmdAnalyze(args[1:], stdout)
+	case "demo":
+		err = cmdDemo(args[1:], stdout)
 	case "help", "-h", "--help":
 		fmt.Fprint(stdout, usage)
 		return 0

@@ -1,0 +1,154 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"sagitta/core/simcam"
+)
+
+// runCLI runs a command line and returns stdout, stderr and the exit status.
+func runCLI(args ...string) (string, string, int) {
+	var out, errb bytes.Buffer
+	code := run(args, &out, &errb)
+	return out.String(), errb.String(), code
+}
+
+// edgePhoto writes a PNG of one slanted edge through a Gaussian lens.
+func edgePhoto(t *testing.T, dir string) string {
+	t.Helper()
+	cam := simcam.Camera{W: 320, H: 240, Lens: simcam.Fixed{PSF: simcam.Gaussian{Sigma1: 1, Sigma2: 1}}, Encoding: simcam.SRGB8}
+	data, err := cam.Encode(simcam.HalfPlaneScene(320, 240, 5, 0.08, 0.7))
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(dir, "edge.png")
+	if err := os.WriteFile(path, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+func TestAnalyzeJSONContract(t *testing.T) {
+	path := edgePhoto(t, t.TempDir())
+	out, errs, code := runCLI("analyze", "--pitch-um", "4", "--json", path)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	// The contract of DESIGN.md, read generically so that a renamed field
+	// fails here.
+	var doc map[string][]map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	imgs := doc["images"]
+	if len(imgs) != 1 {
+		t.Fatalf("%d images", len(imgs))
+	}
+	img := imgs[0]
+	for _, k := range []string{"file", "width", "height", "pitch_um", "center_px", "measurements", "warnings"} {
+		if _, ok := img[k]; !ok {
+			t.Errorf("image lacks %q", k)
+		}
+	}
+	if img["file"] != "edge.png" || img["width"] != 320.0 || img["pitch_um"] != 4.0 {
+		t.Errorf("image header %v %v %v", img["file"], img["width"], img["pitch_um"])
+	}
+	ms := img["measurements"].([]any)
+	if len(ms) == 0 {
+		t.Fatal("no measurement")
+	}
+	for _, mi := range ms {
+		m := mi.(map[string]any)
+		for _, k := range []string{"kind", "x_px", "y_px", "height_mm", "orientation", "normal_deg", "mtf50_cy_px", "freq_cy_px", "mtf", "warnings"} {
+			if _, ok := m[k]; !ok {
+				t.Errorf("measurement lacks %q", k)
+			}
+		}
+		if m["kind"] != "edge" {
+			t.Errorf("kind %v", m["kind"])
+		}
+		switch m["orientation"] {
+		case "sagittal", "tangential", "mixed":
+		default:
+			t.Errorf("orientation %v", m["orientation"])
+		}
+		f, v := m["freq_cy_px"].([]any), m["mtf"].([]any)
+		if len(f) != len(v) || f[0] != 0.0 || f[len(f)-1].(float64) < 0.5 {
+			t.Errorf("frequencies run %v..%v (%d values, %d mtf)", f[0], f[len(f)-1], len(f), len(v))
+		}
+		for i := 1; i < len(f); i++ {
+			if f[i].(float64) <= f[i-1].(float64) {
+				t.Fatal("frequencies do not ascend")
+			}
+		}
+		if v[0] != 1.0 {
+			t.Errorf("MTF at zero frequency %v, want 1", v[0])
+		}
+	}
+}
+
+func TestAnalyzeCSVAndText(t *testing.T) {
+	path := edgePhoto(t, t.TempDir())
+	out, errs, code := runCLI("analyze", "--pitch-um", "4", "--csv", path)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	lines := strings.Split(strings.TrimSpace(out), "\n")
+	if len(lines) < 2 || !strings.HasPrefix(lines[0], "file,id,kind,x_px") {
+		t.Errorf("csv:\n%s", out)
+	}
+	out, _, code = runCLI("analyze", "--sensor", "1.28x0.96", path)
+	if code != 0 || !strings.Contains(out, "pitch 4 um (sensor size)") {
+		t.Errorf("text output (exit %d):\n%s", code, out)
+	}
+}
+
+func TestBadInput(t *testing.T) {
+	dir := t.TempDir()
+	flat := filepath.Join(dir, "flat.png")
+	cam := simcam.Camera{W: 200, H: 150, Encoding: simcam.SRGB8}
+	data, err := cam.Encode(simcam.Scene{Background: 0.5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(flat, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	cases := []struct {
+		name string
+		args []string
+		want string // substring of the one error line
+		code int
+	}{
+		{"not an image", []string{"analyze", "--pitch-um", "5", "../../../testdata/bad/not-an-image.txt"}, "not a PNG, JPEG or TIFF", 1},
+		{"truncated PNG", []string{"analyze", "--pitch-um", "5", "../../../testdata/bad/truncated.png"}, "truncated", 1},
+		{"truncated JPEG", []string{"analyze", "--pitch-um", "5", "../../../testdata/bad/truncated.jpg"}, "JPEG", 1},
+		{"no edge", []string{"analyze", "--pitch-um", "5", flat}, "no measurable edge", 1},
+		{"missing file", []string{"analyze", "--pitch-um", "5", filepath.Join(dir, "nope.jpg")}, "cannot read", 1},
+		{"no pitch", []string{"analyze", flat}, "pixel pitch is unknown", 1},
+		{"bad tone", []string{"analyze", "--pitch-um", "5", "--tone", "sepia", flat}, "tone", 1},
+		{"bad method", []string{"analyze", "--pitch-um", "5", "--method", "fast", flat}, "method", 1},
+		{"unknown command", []string{"measure"}, "unknown command", 2},
+		{"no files", []string{"analyze", "--pitch-um", "5"}, "at least one photo", 2},
+		{"bad sensor", []string{"analyze", "--sensor", "36by24", flat}, "--sensor", 2},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			out, errs, code := runCLI(c.args...)
+			if code != c.code {
+				t.Errorf("exit %d, want %d (stderr %q)", code, c.code, errs)
+			}
+			if strings.Count(errs, "\n") != 1 || !strings.Contains(errs, c.want) {
+				t.Errorf("stderr %q, want one line containing %q", errs, c.want)
+			}
+			if out != "" {
+				t.Errorf("stdout %q, want nothing", out)
+			}
+		})
+	}
+}
