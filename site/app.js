@@ -121,12 +121,16 @@ function hasFiles(e) {
   return e.dataTransfer && [...e.dataTransfer.types].includes('Files');
 }
 
+// The demo photo is the built-in scenario on a sensor reduced by 2
+// (3000 x 2000 px): quick to make and to measure in the page.
+const DEMO_REDUCE = 2;
+
 async function loadDemo() {
   const b = $('demo-button');
   b.disabled = true;
   b.textContent = 'Making the demo photo…';
   try {
-    const bytes = await state.pool.call('demo');
+    const bytes = await state.pool.call('demo', [DEMO_REDUCE]);
     addFiles([new File([bytes], 'demo-chart.jpg', { type: 'image/jpeg' })]);
   } catch (e) {
     announce('The demo photo could not be made: ' + e.message);

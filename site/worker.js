@@ -16,7 +16,7 @@ const CALLS = {
   plot: (kind, data, options) => ({ result: core('sagittaPlot')(kind, data, options) }),
   chart: (options, format) => bytesOut(core('sagittaChart')(options, format)),
   plan: (options) => ({ result: core('sagittaPlan')(options) }),
-  demo: () => bytesOut(core('sagittaDemo')()),
+  demo: (reduce) => bytesOut(core('sagittaDemo')(reduce)),
 };
 
 // The core's global names behind each call.

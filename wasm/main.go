@@ -20,6 +20,9 @@
 //	    the CSV of `sagitta analyze --csv` (analyze.WriteCSV)
 //	sagittaJSON(results string (JSON {"images":[...]})) -> string
 //	    the same document as `sagitta analyze --json` prints it
+//	sagittaDemo(reduce number) -> Uint8Array
+//	    the built-in demo photo (core/demo), a JPEG, on a sensor reduced by
+//	    the integer factor reduce (1 = 24 MP; as `sagitta demo -reduce`)
 //
 // Every function throws an Error whose message is one plain line on
 // failure; a Go panic is recovered and thrown the same way.
@@ -34,6 +37,7 @@ import (
 
 	"sagitta/core/analyze"
 	"sagitta/core/decode"
+	"sagitta/core/demo"
 	"sagitta/core/exif"
 	"sagitta/core/preview"
 )
@@ -43,6 +47,7 @@ func main() {
 	register("sagittaPreview", previewJS)
 	register("sagittaCSV", csvJS)
 	register("sagittaJSON", jsonJS)
+	register("sagittaDemo", demoJS)
 	js.Global().Set("sagittaReady", true)
 	select {}
 }
@@ -152,6 +157,24 @@ func jsonJS(args []js.Value) (any, error) {
 	}
 	b, err := json.MarshalIndent(res, "", " ")
 	return string(b) + "\n", err
+}
+
+// demoJS renders the demo photo.
+func demoJS(args []js.Value) (any, error) {
+	reduce := 1
+	if len(args) > 0 && args[0].Type() == js.TypeNumber {
+		reduce = args[0].Int()
+	}
+	if reduce < 1 || reduce > 20 {
+		return nil, fmt.Errorf("demo: reduction %d is outside 1..20", reduce)
+	}
+	data, err := demo.PortraitSmall(reduce).Photo()
+	if err != nil {
+		return nil, err
+	}
+	out := js.Global().Get("Uint8Array").New(len(data))
+	js.CopyBytesToJS(out, data)
+	return out, nil
 }
 
 // results reads the results document passed as the first argument.

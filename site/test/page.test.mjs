@@ -1,0 +1,198 @@
+// Browser tests of the served page (make run): a dropped photo gives the
+// command-line tool's numbers, the page makes no network request and its
+// policy blocks one, TIFF, cancelling, broken files, keyboard use, exports.
+// The reference for every number is the native command-line tool run on the
+// same file (`sagitta analyze --json/--csv`).
+
+import { test, before, after } from 'node:test';
+import assert from 'node:assert/strict';
+import fs from 'node:fs';
+import path from 'node:path';
+import {
+  ROOT, WORK, demoPhoto, testPhoto, cli, startServer, launch, recordRequests, dropFiles, waitStatus, waitEngine,
+  diff, shot, download,
+} from './helpers.mjs';
+
+let server;
+let browser;
+
+before(async () => {
+  server = await startServer();
+  browser = await launch();
+});
+
+after(async () => {
+  await browser?.close();
+  server?.stop();
+});
+
+async function open(viewport = { width: 1400, height: 1000 }) {
+  const context = await browser.newContext({ viewport, acceptDownloads: true });
+  const requests = recordRequests(context);
+  const page = await context.newPage();
+  const errors = [];
+  page.on('pageerror', (e) => errors.push(e.message));
+  const response = await page.goto(server.url);
+  await waitEngine(page);
+  return { context, page, requests, errors, response, loaded: Date.now() };
+}
+
+test('a dropped photo gives the command-line tool\'s JSON and CSV, with no network request', async () => {
+  const photo = demoPhoto(2);
+  const { context, page, requests, errors, response } = await open();
+  assert.equal(await page.evaluate(() => document.body.dataset.status), 'ready');
+  await shot(page, '01-measure-empty');
+
+  // Every file of the page came from the page's own server, with the policy.
+  const csp = response.headers()['content-security-policy'];
+  assert.match(csp, /connect-src 'none'/);
+  const origin = new URL(server.url).origin;
+  for (const r of requests.network()) assert.ok(r.url.startsWith(origin + '/'), `request to ${r.url}`);
+  const settled = Date.now();
+
+  await dropFiles(page, [photo]);
+  assert.equal(await waitStatus(page, ['done', 'error']), 'done');
+  const got = await page.evaluate(() => window.sagitta.results);
+  const wantText = cli(['--json'], [photo]);
+  const want = JSON.parse(wantText);
+  assert.equal(got.images.length, 1);
+  assert.ok(want.images[0].measurements.length > 50, 'the demo photo has many edges');
+  assert.equal(diff(got, want, 1e-6), '');
+  await page.waitForTimeout(300);
+  await shot(page, '02-measure-result', { fullPage: true });
+
+  // No request of any kind after load (only blob:/data: may appear).
+  assert.deepEqual(requests.network(settled).map((r) => r.url), []);
+
+  // The policy blocks a deliberate connection, from the page and from a worker.
+  const pageFetch = await page.evaluate(() => fetch(location.origin + '/index.html').then(() => 'connected', (e) => 'blocked: ' + e.message));
+  assert.match(pageFetch, /^blocked/);
+  const workers = page.workers();
+  assert.ok(workers.length >= 1, 'a measuring worker is running');
+  const workerFetch = await workers[0].evaluate(() => fetch(self.location.origin + '/index.html').then(() => 'connected', (e) => 'blocked: ' + e.message));
+  assert.match(workerFetch, /^blocked/);
+  const beacon = await page.evaluate(() => {
+    const img = new Image();
+    return new Promise((res) => {
+      img.onload = () => res('loaded');
+      img.onerror = () => res('blocked');
+      img.src = 'http://127.0.0.1:9/x.png';
+    });
+  });
+  assert.equal(beacon, 'blocked');
+
+  // Exports: exactly what the command-line tool writes.
+  await page.click('#export-menu summary');
+  const json = await download(page, () => page.click('#export-json'));
+  assert.equal(json.name, 'sagitta-results.json');
+  // Same document, laid out as the tool prints it; the last digits of a few
+  // numbers may differ, as WebAssembly and amd64 round some math functions
+  // differently.
+  assert.equal(diff(JSON.parse(json.text), want, 1e-6), '');
+  assert.equal(json.text.slice(0, 40), wantText.slice(0, 40));
+  assert.equal(json.text.split('\n').length, wantText.split('\n').length);
+  await page.click('#export-menu summary');
+  const csv = await download(page, () => page.click('#export-csv'));
+  assert.equal(csv.text, cli(['--csv'], [photo]));
+
+  // A target in detail, by keyboard: Tab into the photo, Enter on a target.
+  await page.focus('.viewer-stage');
+  await page.keyboard.press('Tab');
+  const focused = await page.evaluate(() => document.activeElement.getAttribute('aria-label'));
+  assert.match(focused, /^Edge \d+: (sagittal|tangential|mixed)/);
+  await page.keyboard.press('Enter');
+  await page.waitForSelector('#target-detail svg.plot');
+  const plots = await page.$$eval('#target-detail figure', (fs) => fs.map((f) => f.querySelector('caption').textContent));
+  assert.deepEqual(plots, ['Edge profile (ESF)', 'Line spread (LSF, the derivative)', 'Response (MTF)']);
+  const mtfLegend = await page.$$eval('#target-detail figure:last-of-type .legend li', (ls) => ls.map((l) => l.textContent));
+  assert.ok(mtfLegend.some((t) => /perfect lens at f\/2\.8/.test(t)), 'diffraction reference at the Exif f-number: ' + mtfLegend);
+  assert.ok(mtfLegend.some((t) => /Nyquist/.test(t)));
+  await shot(page.locator('#result'), '03-target-detail');
+
+  // Zoom by wheel and keys.
+  const before = await page.textContent('.zoom-label');
+  await page.hover('.viewer-stage');
+  await page.mouse.wheel(0, -600);
+  await page.keyboard.press('+');
+  assert.notEqual(await page.textContent('.zoom-label'), before);
+  await shot(page.locator('.viewer'), '04-zoomed');
+
+  // Units: LW/PH relabels the key.
+  await page.click('#settings summary');
+  await page.selectOption('#units', 'lwph');
+  assert.match(await page.textContent('.key'), /LW\/PH/);
+  assert.deepEqual(errors, []);
+  await context.close();
+});
+
+test('a TIFF is measured and shown from the worker\'s preview', async () => {
+  const tif = testPhoto('chart-16bit.tif', ['-w', '1800', '-h', '1200', '-f', '8']);
+  const { context, page, errors } = await open();
+  await page.setInputFiles('#file-input', tif);
+  assert.equal(await waitStatus(page, ['done', 'error']), 'done');
+  const r = await page.evaluate(() => window.sagitta.results.images[0]);
+  assert.equal(r.format, 'tiff');
+  assert.equal(r.bit_depth, 16);
+  // The file has no Exif: the page assumed its default sensor format, full frame.
+  assert.equal(r.pitch_source, 'sensor size');
+  assert.equal(diff({ images: [r] }, JSON.parse(cli(['--json', '--sensor', '36x24'], [tif])), 1e-6), '');
+  await page.waitForTimeout(300);
+  // The viewer shows the picture: its canvas holds both dark and light pixels.
+  const spread = await page.evaluate(() => {
+    const c = document.querySelector('.viewer-stage canvas');
+    const d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
+    let lo = 255;
+    let hi = 0;
+    for (let i = 0; i < d.length; i += 4) {
+      lo = Math.min(lo, d[i]);
+      hi = Math.max(hi, d[i]);
+    }
+    return hi - lo;
+  });
+  assert.ok(spread > 100, `viewer canvas spread ${spread}`);
+  await shot(page.locator('#result'), '05-tiff');
+  assert.deepEqual(errors, []);
+  await context.close();
+});
+
+test('cancelling stops a photo; a broken file is an error; the next photo still works', async () => {
+  const big = demoPhoto(1);
+  const small = demoPhoto(4);
+  const bad = path.join(WORK, 'not-a-photo.jpg');
+  fs.copyFileSync(path.join(ROOT, 'testdata/bad/not-an-image.txt'), bad);
+  const { context, page, errors } = await open();
+  await page.setInputFiles('#file-input', big);
+  await page.waitForFunction(() => /Reading|Finding|Measuring/.test(document.querySelector('.photo .state').textContent));
+  await page.click('.photo .row-actions button:has-text("Cancel")');
+  await page.waitForFunction(() => document.querySelector('.photo .state').textContent === 'Cancelled');
+  assert.notEqual(await page.evaluate(() => document.body.dataset.status), 'working');
+
+  await page.setInputFiles('#file-input', bad);
+  assert.equal(await waitStatus(page, ['error']), 'error');
+  const msg = await page.textContent('.photo:nth-child(2) .state');
+  assert.match(msg, /^Not measured: /);
+
+  await page.setInputFiles('#file-input', small);
+  await page.waitForFunction(() => window.sagitta.results.images.length === 1, null, { timeout: 120000 });
+  await page.waitForFunction(() => document.body.dataset.status !== 'working');
+  assert.equal(await page.evaluate(() => document.body.dataset.status), 'error'); // the broken file stays listed
+  await shot(page.locator('#photo-list'), '06-cancel-error-list');
+  await page.click('.photo:nth-child(2) .row-actions button:has-text("Remove")');
+  assert.equal(await page.evaluate(() => document.body.dataset.status), 'done');
+  assert.deepEqual(errors, []);
+  await context.close();
+});
+
+test('24 MP JPEG: time from drop to result (measured, not asserted)', async () => {
+  const big = demoPhoto(1);
+  const { context, page } = await open();
+  const t0 = Date.now();
+  await dropFiles(page, [big]);
+  assert.equal(await waitStatus(page, ['done', 'error'], 300000), 'done');
+  const ms = Date.now() - t0;
+  const n = await page.evaluate(() => window.sagitta.results.images[0].measurements.length);
+  const line = `24 MP JPEG (6000 x 4000): ${n} edges, ${ms} ms from drop to result in headless Chromium`;
+  fs.writeFileSync(path.join(WORK, 'timing.txt'), line + '\n');
+  console.log('# ' + line);
+  await context.close();
+});
