@@ -68,6 +68,7 @@ export class PhotoViewer {
    */
   setPhoto(source, width, height, factor = 1) {
     this.photo = { source, width, height, factor };
+    this.stage.style.aspectRatio = `${width} / ${height}`;
     this.svg.setAttribute('aria-hidden', 'false');
     this.resize();
     this.fit();
