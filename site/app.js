@@ -7,6 +7,7 @@ import { AbortError } from './pool.js';
 import { readSettings, settingsKey, watchSettings, settingsSummary } from './settings.js';
 import { renderResult, refreshUnits, outcome } from './results.js';
 import { saveBlob } from './plot.js';
+import { renderCompare } from './compare.js';
 import { fmtFNumber } from './units.js';
 
 const $ = (id) => document.getElementById(id);
@@ -54,6 +55,7 @@ function showPlace(name) {
     tab.tabIndex = on ? 0 : -1;
     $(tab.getAttribute('aria-controls')).hidden = !on;
   }
+  if (name === 'compare') renderCompare($('place-compare'), state);
 }
 
 function setupTabs() {
@@ -195,6 +197,7 @@ async function measure(p) {
     if (tiff && p.preview) drawThumb(p, p.preview);
     updateRow(p);
     if (state.selected === p.key) showSelected();
+    if (!$('place-compare').hidden) renderCompare($('place-compare'), state);
     announce(`${p.name}: ${outcome(result)}`);
   } catch (e) {
     if (p.job !== job) return;
@@ -389,20 +392,25 @@ async function showSelected() {
   if (!p.preview) {
     if (shownKey === p.key && shownBitmap) source = shownBitmap;
     else {
-      if (shownBitmap) shownBitmap.close();
-      shownBitmap = null;
       try {
-        shownBitmap = await bitmap(p.file);
-        shownKey = p.key;
-        source = shownBitmap;
+        source = await bitmap(p.file);
       } catch {
         source = null;
       }
-      if (state.selected !== p.key) return;
+      if (state.selected !== p.key) {
+        if (source) source.close();
+        return;
+      }
     }
     factor = 1;
   }
   renderResult(sec, p, state, { source, factor });
+  // The previous photo's full-size bitmap is released once its viewer is gone.
+  if (source !== shownBitmap) {
+    if (shownBitmap) shownBitmap.close();
+    shownBitmap = source && !p.preview ? source : null;
+    shownKey = shownBitmap ? p.key : null;
+  }
 }
 
 // ---------------------------------------------------------------- settings

@@ -3,11 +3,12 @@
 // frame, the photo's Exif, the settings used and the cautions.
 
 import { PhotoViewer } from './viewer.js';
-import { plot } from './plot.js';
+import { plot, saveBlob, svgBlob } from './plot.js';
 import { mtf50Colour, scaleGradient, SCALE_MAX_CY_PX, ORIENTATION } from './colour.js';
 import { fromCyPx, fmtFreq, fmt, fmtFNumber, fmtExposure, UNITS, NYQUIST_CY_PX, digits } from './units.js';
 import { bestPossible, WAVELENGTH_UM } from './optics.js';
 import { settingsSummary } from './settings.js';
+import { labelOf } from './compare.js';
 
 /** outcome says in one line what came of a photo. */
 export function outcome(r) {
@@ -39,9 +40,11 @@ export function renderResult(sec, p, state, display) {
     return;
   }
   sec.replaceChildren();
+  const rep = el('p', { class: 'report-only report-head' }, `Lens sharpness report, measured with Sagitta on this device, ${new Date().toLocaleString()}.`);
+  sec.append(rep);
   const head = el('div', { class: 'result-head' });
-  const h = el('h2', { id: 'result-title' }, p.label || p.name);
-  const facts = el('p', { class: 'facts' }, `${r.width} × ${r.height} px · ${r.format.toUpperCase()} · ${outcome(r)}`);
+  const h = el('h2', { id: 'result-title' }, labelOf(p));
+  const facts = el('p', { class: 'facts' }, `${p.name} · ${r.width} × ${r.height} px · ${r.format.toUpperCase()} · ${outcome(r)}`);
   head.append(h, facts);
   sec.append(head);
   if (r.warnings.length) {
@@ -77,6 +80,10 @@ export function renderResult(sec, p, state, display) {
   }
   viewer.setTargets(r.measurements, r.rejected, colourOf, (m) => targetLabel(m, r, state.units));
   if (r.rejected.length) left.append(setAsideList(r, viewer));
+  const map = mapFigure(r, display);
+  const saveMap = el('button', { type: 'button', class: 'link' }, 'Save the sharpness map (SVG)');
+  saveMap.onclick = () => saveBlob(svgBlob(map.querySelector('svg')), 'sharpness-map.svg');
+  left.append(saveMap, map);
   renderKey(key, r, state.units);
   renderDetail();
   renderFrame();
@@ -111,6 +118,59 @@ function targetLabel(m, r, units) {
   let s = `${kindWord(m)} ${m.id}: ${m.orientation}, ${fmt(m.height_mm, 1)} mm from the centre, MTF50 ${fmtFreq(m.mtf50_cy_px, units, r)}`;
   if (m.warnings.length) s += ` (${m.warnings.join('; ')})`;
   return s;
+}
+
+let mapURL = null;
+
+/**
+ * mapFigure is a still picture of the photo with its targets filled by
+ * MTF50 (the sharpness map), in the photo's own coordinates: shown in the
+ * printed report, and offered as an SVG file.
+ */
+function mapFigure(r, display) {
+  const fig = el('figure', { class: 'map-figure' });
+  const NS = 'http://www.w3.org/2000/svg';
+  const svg = document.createElementNS(NS, 'svg');
+  svg.setAttribute('xmlns', NS);
+  svg.setAttribute('viewBox', `0 0 ${r.width} ${r.height}`);
+  svg.setAttribute('width', 720);
+  svg.setAttribute('height', Math.round((720 * r.height) / r.width));
+  svg.setAttribute('role', 'img');
+  svg.setAttribute('aria-label', 'Sharpness map: the photo with each measured target filled by its MTF50');
+  if (mapURL) URL.revokeObjectURL(mapURL);
+  mapURL = null;
+  const bg = document.createElementNS(NS, 'rect');
+  bg.setAttribute('width', r.width);
+  bg.setAttribute('height', r.height);
+  bg.setAttribute('fill', '#5a6068');
+  svg.append(bg);
+  if (display.source) {
+    // A reduced copy of the photo (at most 1600 px wide) as a data URL, so
+    // that a saved SVG carries its picture.
+    const k = Math.min(1, 1600 / r.width);
+    const c = document.createElement('canvas');
+    c.width = Math.round(r.width * k);
+    c.height = Math.round(r.height * k);
+    c.getContext('2d').drawImage(display.source, 0, 0, c.width, c.height);
+    const img = document.createElementNS(NS, 'image');
+    img.setAttribute('href', c.toDataURL('image/jpeg', 0.85));
+    img.setAttribute('width', r.width);
+    img.setAttribute('height', r.height);
+    svg.append(img);
+  }
+  const sw = Math.max(1, r.width / 800);
+  for (const m of r.measurements) {
+    const poly = document.createElementNS(NS, 'polygon');
+    poly.setAttribute('points', m.region_px.map((q) => q.join(',')).join(' '));
+    poly.setAttribute('fill', colourOf(m));
+    poly.setAttribute('fill-opacity', '0.75');
+    poly.setAttribute('stroke', '#0d1117');
+    poly.setAttribute('stroke-width', sw);
+    svg.append(poly);
+  }
+  fig.append(svg);
+  fig.append(el('figcaption', { class: 'hint' }, 'Sharpness map: each measured target filled by its MTF50 on the scale above.'));
+  return fig;
 }
 
 function blankCanvas(w, h) {
@@ -166,6 +226,7 @@ function renderDetail() {
   const units = state.units;
   detail.replaceChildren();
   const m = r.measurements.find((x) => x.id === current.selected);
+  detail.classList.toggle('nothing-selected', !m);
   if (!m) {
     detail.append(el('h3', {}, 'One target in detail'));
     detail.append(el('p', { class: 'hint' }, r.measurements.length

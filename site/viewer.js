@@ -58,7 +58,15 @@ export class PhotoViewer {
     this.polys = new Map();
     this.selected = null;
     this.listen();
-    new ResizeObserver(() => this.resize()).observe(this.stage);
+    const ro = new ResizeObserver(() => {
+      if (!this.stage.isConnected) {
+        ro.disconnect(); // a viewer that was replaced by another
+        this.photo = null;
+        return;
+      }
+      this.resize();
+    });
+    ro.observe(this.stage);
   }
 
   /**

@@ -41,11 +41,12 @@ func main() {
 func run(w, h int, fnum, pitch float64, seed uint64, out string) error {
 	scene := chart(w, h)
 	// An invented lens: 0.55 px blur at the centre, growing with the square
-	// of the image height, faster tangentially; wider apertures blur more.
-	k := 1 + 0.6*math.Max(0, 5.6-fnum)/4
+	// of the image height, faster tangentially; sharpest at f/5.6, softer
+	// wide open and a little softer stopped down.
+	k := 1 + 0.6*math.Max(0, 5.6-fnum)/4 + 0.05*math.Max(0, fnum-5.6)
 	lens := simcam.FieldLens{
 		CentreX: float64(w) / 2, CentreY: float64(h) / 2, PitchUM: pitch,
-		SigmaT: []float64{0.55 * k, 0, 0.0016 * k}, SigmaS: []float64{0.55 * k, 0, 0.0007 * k},
+		SigmaT: []float64{0.55 * k, 0, 0.03 * k}, SigmaS: []float64{0.55 * k, 0, 0.012 * k},
 	}
 	cam := simcam.Camera{W: w, H: h, Lens: lens, FullWellE: 30000, ReadNoiseE: 3, Seed: seed, Encoding: simcam.SRGB8}
 	tags := exif.Tags{
