@@ -198,7 +198,7 @@ export class Pool {
   // fail rejects the job of a dead worker, replaces the worker and goes on.
   fail(slot, job, message) {
     this.retire(slot);
-    job.reject(new Error(message));
+    job.reject(new Error(`the measuring engine stopped (${message}); a fresh one is ready`));
     this.pump();
   }
 

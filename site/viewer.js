@@ -51,7 +51,7 @@ export class PhotoViewer {
     this.zoomLabel = document.createElement('span');
     this.zoomLabel.className = 'zoom-label';
     bar.append(this.zoomLabel);
-    root.append(this.stage, bar);
+    root.append(bar, this.stage); // the tools first, before the many targets in the tab order
 
     this.photo = null;
     this.view = { s: 1, tx: 0, ty: 0 };

@@ -176,7 +176,24 @@ test('cancelling stops a photo; a broken file is an error; the next photo still 
   await page.waitForFunction(() => window.sagitta.results.images.length === 1, null, { timeout: 120000 });
   await page.waitForFunction(() => document.body.dataset.status !== 'working');
   assert.equal(await page.evaluate(() => document.body.dataset.status), 'error'); // the broken file stays listed
+  // A dead WebAssembly instance (a trap, as on running out of memory) is
+  // reported, and a fresh worker measures the next photo.
+  let patched = 0;
+  for (const w of page.workers()) {
+    try {
+      await w.evaluate(() => { self.sagittaAnalyze = () => { throw new WebAssembly.RuntimeError('unreachable'); }; });
+      patched++;
+    } catch {
+      // a worker that was just retired
+    }
+  }
+  assert.ok(patched >= 1);
+  await page.setInputFiles('#file-input', small);
+  await page.waitForFunction(() => /unreachable/.test(document.querySelector('.photo:nth-child(4) .state').textContent), null, { timeout: 60000 });
+  await page.click('.photo:nth-child(4) .row-actions button:has-text("Measure again")');
+  await page.waitForFunction(() => window.sagitta.results.images.length === 2, null, { timeout: 120000 });
   await shot(page.locator('#photo-list'), '06-cancel-error-list');
+  await page.click('.photo:nth-child(4) .row-actions button:has-text("Remove")');
   await page.click('.photo:nth-child(2) .row-actions button:has-text("Remove")');
   assert.equal(await page.evaluate(() => document.body.dataset.status), 'done');
   assert.deepEqual(errors, []);
