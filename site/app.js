@@ -314,7 +314,7 @@ function updateRow(p) {
   };
   if (p.status === 'queued' || p.status === 'working') add('Cancel', () => p.job && p.job.cancel(), 'Cancel');
   else {
-    if (p.status !== 'done' || p.settingsKey !== settingsKey(readSettings())) add('Measure again', () => measure(p), 'Measure again');
+    if (p.status !== 'done' || isStale(p)) add('Measure again', () => measure(p), 'Measure again');
     add('Remove', () => remove(p), 'Remove');
   }
 }
@@ -416,9 +416,21 @@ async function showSelected() {
 
 // ---------------------------------------------------------------- settings
 
+// isStale reports whether a measured photo's settings differ from the
+// form's; the fallback sensor does not matter to a photo whose pitch came
+// from its Exif.
+function isStale(p, s = readSettings()) {
+  if (!p.result) return false;
+  if (p.settingsKey === settingsKey(s)) return false;
+  if (/^Exif/.test(p.result.pitch_source) && s.fallback_sensor_mm) {
+    const used = JSON.parse(p.settingsKey);
+    return settingsKey({ ...s, fallback_sensor_mm: used.fallback_sensor_mm }) !== p.settingsKey;
+  }
+  return true;
+}
+
 function refreshStale() {
-  const key = settingsKey(readSettings());
-  const stale = state.photos.some((p) => p.result && p.settingsKey !== key);
+  const stale = state.photos.some((p) => isStale(p));
   $('stale-bar').hidden = !stale;
   for (const p of state.photos) updateRow(p);
 }
@@ -432,8 +444,7 @@ function setupSettings() {
     },
   });
   $('remeasure').addEventListener('click', () => {
-    const key = settingsKey(readSettings());
-    for (const p of state.photos) if (p.settingsKey !== key || p.status !== 'done') measure(p);
+    for (const p of state.photos) if (isStale(p) || p.status === 'error' || p.status === 'cancelled') measure(p);
   });
 }
 

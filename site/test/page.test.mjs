@@ -117,6 +117,11 @@ test('a dropped photo gives the command-line tool\'s JSON and CSV, with no netwo
   assert.notEqual(await page.textContent('.zoom-label'), before);
   await shot(page.locator('.viewer'), '04-zoomed');
 
+  // The offline copy offered by the served page is the single file.
+  const offline = await download(page, () => page.click('#offline-link'));
+  assert.equal(offline.name, 'sagitta.html');
+  assert.ok(offline.bytes.equals(fs.readFileSync(path.join(ROOT, 'dist/sagitta.html'))));
+
   // Units: LW/PH relabels the key.
   await page.click('#settings summary');
   await page.selectOption('#units', 'lwph');
