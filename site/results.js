@@ -254,7 +254,7 @@ function renderDetail() {
   row('MTF50P', fmtFreq(m.mtf50p_cy_px, units, r));
   r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, fmt(m.mtf_at_freqs[i], 3)));
   row('MTF at Nyquist', fmt(m.mtf_nyquist, 3));
-  row('Edge', `${fmt(m.length_px, 0)} px long, slanted ${fmt(m.slant_deg, 1)}°, contrast ${fmt(m.contrast, 1)}:1, signal/noise ${fmt(m.snr, 0)}`);
+  row('Edge', `${fmt(m.length_px, 0)} px long, slanted ${fmt(m.slant_deg, 1)}°, contrast ${fmt(m.contrast, 1)}:1` + (Number.isFinite(m.snr) ? `, signal/noise ${fmt(m.snr, 0)}` : ''));
   if (m.warnings.length) row('Notes', m.warnings.join('; '));
   detail.append(dl);
 
