@@ -100,6 +100,16 @@ export function plot(spec) {
     }
   }
   for (const s of spec.series) {
+    if (s.band) {
+      // A shaded band between two curves: [[x, lo, hi], ...].
+      const b = s.band.filter((p) => p.every(Number.isFinite));
+      if (b.length > 1) {
+        const d = b.map((p, i) => `${i ? 'L' : 'M'}${sx(p[0]).toFixed(2)},${sy(p[2]).toFixed(2)}`).join('') +
+          [...b].reverse().map((p) => `L${sx(p[0]).toFixed(2)},${sy(p[1]).toFixed(2)}`).join('') + 'Z';
+        svgEl('path', { d, fill: s.colour, 'fill-opacity': s.opacity || 0.16, stroke: 'none' }, data);
+      }
+      continue;
+    }
     const pts = s.points.filter((p) => Number.isFinite(p[0]) && Number.isFinite(p[1]));
     if (s.line !== false && pts.length > 1) {
       const d = pts.map((p, i) => `${i ? 'L' : 'M'}${sx(p[0]).toFixed(2)},${sy(p[1]).toFixed(2)}`).join('');
@@ -113,7 +123,7 @@ export function plot(spec) {
   fig.append(svg);
   const legend = document.createElement('ul');
   legend.className = 'legend';
-  for (const s of spec.series.filter((s) => s.legend !== false)) legend.append(legendItem(s));
+  for (const s of spec.series.filter((s) => s.legend !== false && !s.band)) legend.append(legendItem(s));
   for (const v of (spec.vlines || []).filter((v) => v.legend)) legend.append(legendItem({ name: v.legend, colour: v.colour || '#1b1f24', dash: v.dash || '4 3', width: 1.2 }));
   if (legend.childElementCount) fig.append(legend);
   fig.append(dataTable(spec));
@@ -152,7 +162,7 @@ function dataTable(spec) {
   if (!columns) {
     columns = ['Series', spec.xLabel, spec.yLabel];
     rows = [];
-    for (const s of spec.series) for (const p of s.points) rows.push([s.name, p[0], p[1]]);
+    for (const s of spec.series) for (const p of s.points || []) rows.push([s.name, p[0], p[1]]);
   }
   const thead = table.createTHead().insertRow();
   for (const c of columns) {

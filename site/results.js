@@ -9,6 +9,7 @@ import { fromCyPx, fmtFreq, fmt, fmtFNumber, fmtExposure, UNITS, NYQUIST_CY_PX, 
 import { bestPossible, WAVELENGTH_UM } from './optics.js';
 import { settingsSummary } from './settings.js';
 import { labelOf } from './compare.js';
+import { renderSummary } from './summary.js';
 
 /** outcome says in one line what came of a photo. */
 export function outcome(r) {
@@ -344,6 +345,10 @@ function renderFrame() {
   }
   frame.append(el('p', { class: 'hint' }, 'Each mark is one measured target, at its distance from the optical centre. ' +
     'Sagittal targets are measured across the radius from the centre, tangential ones along it.'));
+  if (r.summary) {
+    renderSummary(frame, r, units);
+    return;
+  }
   const grid = el('div', { class: 'frame-grid' });
   frame.append(grid);
 
@@ -415,6 +420,7 @@ function cautions(r) {
     'Focus carefully (take several frames and keep the best), use a tripod and a delayed or electronic shutter, light the chart evenly without glare, and keep the sensor parallel to the chart.',
     'A poor result first means: repeat the shot and check the set-up. Only a result that repeats says something about the lens, and a repair or warranty question belongs with the maker\'s service.',
   ];
+  if (r.summary && r.summary.cautions) items.splice(0, items.length, ...r.summary.cautions);
   if (r.measurements.some((m) => (m.flags || []).includes('sharpened'))) items.push('Some edges overshoot: sharpening in the camera or the converter raises these numbers. Compare only photos processed the same way.');
   if (r.format === 'jpeg') items.push('JPEG files carry the camera\'s processing and compression. A raw file converted without sharpening measures the lens more faithfully.');
   for (const t of items) ul.append(el('li', {}, t));
