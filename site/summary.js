@@ -100,7 +100,7 @@ export function renderSummary(box, r, units) {
   const cards = el('div', { class: 'cards' });
   box.append(cards);
   const b = s.balance;
-  if (b && b.verdict) cards.append(card(`Balance: ${b.verdict}`, b.text, b.caution, b.pairs && b.pairs.map((p) => p.text).filter(Boolean)));
+  if (b && b.verdict) cards.append(card(`Balance: ${b.verdict}`, b.text, b.caution));
   for (const a of s.astigmatism) cards.append(card(`Astigmatism at ${a.freq_lp_mm} lp/mm${a.notable ? '' : ': slight or none'}`, a.text, ''));
   if (s.warnings && s.warnings.length) {
     const w = el('div', { class: 'notes' });
@@ -110,15 +110,10 @@ export function renderSummary(box, r, units) {
   box.append(el('p', { class: 'hint' }, `Curves: ${s.smoother}.`));
 }
 
-function card(title, text, caution, details) {
+function card(title, text, caution) {
   const c = el('article', { class: 'card' });
   c.append(el('h4', {}, title));
   if (text) c.append(el('p', {}, text));
-  if (details && details.length) {
-    const ul = el('ul', { class: 'card-details' });
-    for (const d of details) ul.append(el('li', {}, d));
-    c.append(ul);
-  }
   if (caution) c.append(el('p', { class: 'caution' }, caution));
   return c;
 }
