@@ -125,6 +125,7 @@ export function renderCompare(root, state) {
   const rows = [];
   const orients = view.orient === 'both' ? ['sagittal', 'tangential'] : [view.orient];
   let xmax = 1;
+  let smooth = '';
   for (const p of ticked) {
     const r = p.result;
     xmax = Math.max(xmax, r.corner_mm);
@@ -132,18 +133,24 @@ export function renderCompare(root, state) {
     for (const o of orients) {
       const keep = (m) => m.orientation === o;
       const pts = r.measurements.filter(keep).map((m) => [m.height_mm, m.mtf_at_freqs[fi]]);
-      const line = binned(r, fi, keep);
-      series.push({ name: `${labelOf(p)}, ${o}`, points: line, colour: c, width: 2.2, dash: o === 'tangential' ? '7 4' : null, marker: o === 'sagittal' ? 'circle' : 'square', markerSize: 3.4 });
+      // The core's smooth field curve when the photo has a summary, else
+      // medians over bands of distance.
+      const curve = r.summary && r.summary.curves.find((k) => k.quantity === 'mtf' && k.orientation === o && k.freq_lp_mm === freqs[fi]);
+      const line = curve ? curve.height_mm.map((h, i) => [h, curve.value[i]]) : binned(r, fi, keep);
+      const mark = curve ? null : o === 'sagittal' ? 'circle' : 'square';
+      series.push({ name: `${labelOf(p)}, ${o}`, points: line, colour: c, width: 2.2, dash: o === 'tangential' ? '7 4' : null, marker: mark, markerSize: 3.4 });
       series.push({ name: '', points: pts, colour: c, line: false, marker: o === 'sagittal' ? 'circle' : 'square', markerSize: 1.6, legend: false });
       for (const q of line) rows.push([labelOf(p), o, q[0], q[1]]);
+      if (curve) smooth = r.summary.smoother;
     }
   }
   main.append(plot({
     title: `MTF at ${freqs[fi]} lp/mm across the frame`, xLabel: 'distance from the optical centre (mm)', yLabel: 'MTF',
     xDomain: [0, xmax], yDomain: [0, 1], series, width: 760, height: 380, fileName: 'compare-field',
-    table: { columns: ['photo', 'orientation', 'height (mm)', 'median MTF'], rows },
+    table: { columns: ['photo', 'orientation', 'height (mm)', 'MTF'], rows },
   }));
-  main.append(el('p', { class: 'hint' }, 'Lines join the medians of the targets in six bands of distance; small marks are single targets. Solid: sagittal; dashed: tangential.'));
+  main.append(el('p', { class: 'hint' }, (smooth ? `Lines: the field curves (${smooth}).` : 'Lines join the medians of the targets in six bands of distance.') +
+    ' Small marks are single targets. Solid: sagittal; dashed: tangential.'));
 
   // The table of key numbers.
   const table = el('table', { class: 'numbers', id: 'compare-table' });
@@ -173,14 +180,35 @@ export function renderCompare(root, state) {
     tr.insertCell().textContent = fmtFNumber(ex.f_number) || '—';
     tr.insertCell().textContent = ex.focal_length_mm ? `${+ex.focal_length_mm.toFixed(1)} mm` : '—';
     freqs.forEach((_, i) => zoneMedians(r, i).forEach((v) => (tr.insertCell().textContent = fmt(v, 2))));
-    const g = gap(r, last);
-    tr.insertCell().textContent = Number.isFinite(g) ? `${g >= 0 ? '+' : ''}${g.toFixed(2)}` : 'n/a';
-    tr.insertCell().textContent = balanceWords(balance(r, last));
+    tr.insertCell().textContent = gapWords(r, last);
+    tr.insertCell().textContent = r.summary ? summaryBalanceWords(r.summary, freqs[last]) : balanceWords(balance(r, last));
   }
   main.append(table);
   main.append(el('p', { class: 'hint' }, 'Each number is the median over the targets in a third of the distance from the centre to the corner. ' +
-    'A positive sagittal − tangential difference means detail across the radius is held better than along it (astigmatism). ' +
+    'A positive sagittal − tangential difference means detail across the radius is held better than along it (astigmatism); ± one standard error. ' +
     'Balance compares the halves of the frame outside the centre. Differences of a few hundredths are within what refocusing and re-shooting change.'));
+}
+
+// gapWords gives the sagittal - tangential difference: the core's largest
+// gap with its standard error when there is a summary, else the difference
+// of medians outside the centre.
+function gapWords(r, fi) {
+  const a = r.summary && r.summary.astigmatism.find((a) => a.freq_lp_mm === r.freqs_lp_mm[fi]);
+  if (a) return `${a.max_gap >= 0 ? '+' : ''}${a.max_gap.toFixed(2)} ± ${a.max_gap_se.toFixed(2)} at ${a.max_gap_height_mm.toFixed(1)} mm`;
+  const g = gap(r, fi);
+  return Number.isFinite(g) ? `${g >= 0 ? '+' : ''}${g.toFixed(2)}` : 'n/a';
+}
+
+// summaryBalanceWords names the notable differences between opposite halves.
+function summaryBalanceWords(s, f) {
+  if (!s.balance || s.balance.verdict === 'not enough measurements') return 'not enough targets';
+  const parts = [];
+  for (const p of s.balance.pairs || []) {
+    if (!['left', 'top'].includes(p.a)) continue; // the halves; quarters are in the Measure place
+    const d = p.by_freq.find((d) => d.freq_lp_mm === f);
+    if (d && d.notable) parts.push(`${d.diff < 0 ? p.a : p.b} softer by ${Math.abs(d.diff).toFixed(2)} ± ${d.se.toFixed(2)}`);
+  }
+  return parts.length ? parts.join('; ') : 'balanced';
 }
 
 function balanceWords(b) {
