@@ -8,6 +8,7 @@ import { readSettings, settingsKey, watchSettings, settingsSummary } from './set
 import { renderResult, refreshUnits, outcome } from './results.js';
 import { saveBlob } from './plot.js';
 import { renderCompare } from './compare.js';
+import { renderPrint } from './print.js';
 import { fmtFNumber } from './units.js';
 
 const $ = (id) => document.getElementById(id);
@@ -57,6 +58,7 @@ function showPlace(name) {
     $(tab.getAttribute('aria-controls')).hidden = !on;
   }
   if (name === 'compare') renderCompare($('place-compare'), state);
+  if (name === 'print') renderPrint($('place-print'), state);
 }
 
 function setupTabs() {
