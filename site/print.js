@@ -92,7 +92,7 @@ function build(root, state) {
     customRow.hidden = form.paper !== 'custom';
     update();
   })));
-  const customRow = el('div', { class: 'field' });
+  const customRow = el('div', { class: 'field inline' });
   customRow.append(el('span', {}, 'Custom sheet'), number('customW', { min: 100, max: 2000, 'aria-label': 'Custom sheet width in mm' }, update), ' × ', number('customH', { min: 100, max: 2000, 'aria-label': 'Custom sheet height in mm' }, update), ' mm');
   customRow.hidden = form.paper !== 'custom';
   opts.append(customRow);
@@ -127,7 +127,7 @@ function build(root, state) {
   const p = el('div', { class: 'form-grid' });
   p.append(field('Focal length', number('focal', { min: 1, max: 2000, step: 1 }, update), 'mm'));
   p.append(field('Sensor', select('sensor', [['full-frame', 'Full frame, 36 × 24 mm'], ['aps-c', 'APS-C, about 23.5 × 15.6 mm'], ['four-thirds', 'Four Thirds, 17.3 × 13 mm'], ['1-inch', '1-inch type, 13.2 × 8.8 mm']], update)));
-  const px = el('div', { class: 'field' });
+  const px = el('div', { class: 'field inline' });
   px.append(el('span', {}, 'Photo size'), number('pixelsW', { min: 100, max: 20000, step: 1, 'aria-label': 'Photo width in pixels' }, update), ' × ', number('pixelsH', { min: 100, max: 20000, step: 1, 'aria-label': 'Photo height in pixels' }, update), ' px');
   p.append(px);
   p.append(field('Paper surface', select('surface', [['photo', 'Coated photo paper'], ['plain', 'Plain paper']], update)));
@@ -193,7 +193,7 @@ async function download(state, format) {
 // printChart prints the chart's SVG alone, on a page of its exact size
 // (the SVG's width and height are in millimetres).
 async function printChart(state) {
-  const svg = await state.pool.call('chart', [JSON.stringify(chartOptions()), 'svg']);
+  const svg = new TextDecoder().decode(await state.pool.call('chart', [JSON.stringify(chartOptions()), 'svg']));
   const doc = new DOMParser().parseFromString(svg, 'image/svg+xml').documentElement;
   const w = doc.getAttribute('width');
   const h = doc.getAttribute('height');
