@@ -504,6 +504,17 @@ function boot() {
     state.functions = await pool.warm();
     $('demo-button').hidden = !state.functions.has('demo');
     $('tab-print').hidden = !state.functions.has('chart');
+    if (state.functions.has('chart')) {
+      const b = document.createElement('button');
+      b.type = 'button';
+      b.className = 'button small';
+      b.textContent = 'Make the chart and plan the shot';
+      b.addEventListener('click', () => {
+        showPlace('print');
+        $('tab-print').focus();
+      });
+      $('step-print').append(' ', b);
+    }
     document.body.dataset.engine = 'ready';
   });
   started.catch((e) => {
