@@ -344,14 +344,30 @@ function drawThumb(p, src) {
   ctx.drawImage(src, (c.width - w) / 2, (c.height - h) / 2, w, h);
 }
 
-/** bitmap decodes a photo for display with its pixels as stored (no Exif rotation). */
-export async function bitmap(blob, opts = {}) {
-  try {
-    return await createImageBitmap(blob, { ...opts, imageOrientation: 'none' });
-  } catch (e) {
-    if (!(e instanceof TypeError)) throw e;
-    return createImageBitmap(blob, { ...opts, imageOrientation: 'from-image' });
+/** bitmap decodes a photo for display (as the browser shows it: see turnsPhotos). */
+export function bitmap(blob, opts = {}) {
+  return createImageBitmap(blob, opts);
+}
+
+// A 40 x 20 px JPEG whose Exif orientation (6) says "turn 90 degrees".
+const PROBE = '/9j/4QBmRXhpZgAASUkqAAgAAAADABABAgAZAAAAMgAAABIBAwABAAAABgAAAGmHBAABAAAATAAAAAAAAABTYWdpdHRhIFNpbXVsYXRlZCBDYW1lcmEAAAEAAJAHAAQAAAAwMjMwAAAAAP/bAIQACAYGBwYFCAcHBwkJCAoMFA0MCwsMGRITDxQdGh8eHRocHCAkLicgIiwjHBwoNyksMDE0NDQfJzk9ODI8LjM0MgEJCQkMCwwYDQ0YMiEcITIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIy/8AACwgAFAAoAQERAP/EANIAAAEFAQEBAQEBAAAAAAAAAAABAgMEBQYHCAkKCxAAAgEDAwIEAwUFBAQAAAF9AQIDAAQRBRIhMUEGE1FhByJxFDKBkaEII0KxwRVS0fAkM2JyggkKFhcYGRolJicoKSo0NTY3ODk6Q0RFRkdISUpTVFVWV1hZWmNkZWZnaGlqc3R1dnd4eXqDhIWGh4iJipKTlJWWl5iZmqKjpKWmp6ipqrKztLW2t7i5usLDxMXGx8jJytLT1NXW19jZ2uHi4+Tl5ufo6erx8vP09fb3+Pn6/9oACAEBAAA/APRYYYreCOGGNIoo1CIiKFVVAwAAOgAp9FFFFFFFFFFFFFf/2Q==';
+let turns = null;
+
+/**
+ * turnsPhotos resolves to whether this browser turns decoded photos by their
+ * Exif orientation (current ones do, whatever createImageBitmap is asked),
+ * so that the viewer can turn them back to the pixels the core measured.
+ */
+export function turnsPhotos() {
+  if (!turns) {
+    const bytes = Uint8Array.from(atob(PROBE), (c) => c.charCodeAt(0));
+    turns = createImageBitmap(new Blob([bytes], { type: 'image/jpeg' })).then((b) => {
+      const turned = b.width === 20;
+      b.close();
+      return turned;
+    }, () => true);
   }
+  return turns;
 }
 
 function remove(p) {
@@ -407,7 +423,12 @@ async function showSelected() {
     }
     factor = 1;
   }
-  renderResult(sec, p, state, { source, factor });
+  // The browser shows JPEGs turned by their Exif orientation; the core
+  // measured the pixels as stored. TIFF previews come from the core as stored.
+  const o = (p.result.exif && p.result.exif.orientation) || 1;
+  const orientation = !p.preview && o > 1 && (await turnsPhotos()) ? o : 1;
+  if (state.selected !== p.key) return;
+  renderResult(sec, p, state, { source, factor, orientation });
   // The previous photo's full-size bitmap is released once its viewer is gone.
   if (source !== shownBitmap) {
     if (shownBitmap) shownBitmap.close();

@@ -2,7 +2,7 @@
 // a selected target's edge profile and response, the field across the
 // frame, the photo's Exif, the settings used and the cautions.
 
-import { PhotoViewer } from './viewer.js';
+import { PhotoViewer, drawStored } from './viewer.js';
 import { plot, saveBlob, svgBlob } from './plot.js';
 import { mtf50Colour, scaleGradient, SCALE_MAX_CY_PX, ORIENTATION } from './colour.js';
 import { fromCyPx, fmtFreq, fmt, fmtFNumber, fmtExposure, UNITS, NYQUIST_CY_PX, digits } from './units.js';
@@ -32,7 +32,8 @@ const el = (tag, attrs = {}, text) => {
 
 /**
  * renderResult fills sec with the result of photo p.
- * display: {source (ImageBitmap or canvas, or null), factor (photo px per source px)}.
+ * display: {source (ImageBitmap or canvas, or null), factor (photo px per source px),
+ * orientation (the Exif orientation the browser applied to source, 1 if none)}.
  */
 export function renderResult(sec, p, state, display) {
   const r = p.result;
@@ -75,7 +76,7 @@ export function renderResult(sec, p, state, display) {
 
   const viewer = new PhotoViewer(viewerRoot, { onSelect: (id) => selectTarget(id) });
   current = { key: p.key, result: r, sec, p, state, viewer, detail, frame, keyEl: key, about, selected: null, refF: null };
-  if (display.source) viewer.setPhoto(display.source, r.width, r.height, display.factor);
+  if (display.source) viewer.setPhoto(display.source, r.width, r.height, display.factor, display.orientation || 1);
   else {
     viewer.setPhoto(blankCanvas(r.width, r.height), r.width, r.height, Math.max(1, r.width / 64));
   }
@@ -152,7 +153,9 @@ function mapFigure(r, display) {
     const c = document.createElement('canvas');
     c.width = Math.round(r.width * k);
     c.height = Math.round(r.height * k);
-    c.getContext('2d').drawImage(display.source, 0, 0, c.width, c.height);
+    const ctx = c.getContext('2d');
+    ctx.scale(k, k);
+    drawStored(ctx, display.source, r.width, r.height, display.orientation || 1, display.factor || 1);
     const img = document.createElementNS(NS, 'image');
     img.setAttribute('href', c.toDataURL('image/jpeg', 0.85));
     img.setAttribute('width', r.width);

@@ -6,6 +6,37 @@ import { svgEl } from './plot.js';
 
 const MAX_ZOOM = 16; // screen px per photo px
 
+/**
+ * storedFromShown returns the canvas transform [a, b, c, d, e, f] that maps
+ * a picture shown in Exif orientation o (1..8; TIFF 6.0, section 8, tag
+ * 0x0112) back onto the stored W x H pixels: x = a u + c v + e,
+ * y = b u + d v + f for a shown point (u, v). The core measures the pixels
+ * as stored, so the photo is drawn as stored for the targets to sit on it.
+ */
+export function storedFromShown(o, W, H) {
+  switch (o) {
+    case 2: return [-1, 0, 0, 1, W, 0]; // shown mirrored left-right
+    case 3: return [-1, 0, 0, -1, W, H]; // shown turned 180 degrees
+    case 4: return [1, 0, 0, -1, 0, H]; // shown mirrored top-bottom
+    case 5: return [0, 1, 1, 0, 0, 0]; // shown transposed
+    case 6: return [0, -1, 1, 0, 0, H]; // shown turned 90 degrees clockwise
+    case 7: return [0, -1, -1, 0, W, H]; // shown transposed the other way
+    case 8: return [0, 1, -1, 0, W, 0]; // shown turned 90 degrees anticlockwise
+    default: return [1, 0, 0, 1, 0, 0];
+  }
+}
+
+/**
+ * drawStored draws source (a picture of the stored W x H photo, reduced by
+ * factor, shown in orientation o) onto ctx in stored photo coordinates.
+ */
+export function drawStored(ctx, source, W, H, o = 1, factor = 1) {
+  ctx.save();
+  ctx.transform(...storedFromShown(o, W, H));
+  ctx.drawImage(source, 0, 0, source.width * factor, source.height * factor);
+  ctx.restore();
+}
+
 export class PhotoViewer {
   /**
    * @param {HTMLElement} root element to fill
@@ -71,11 +102,12 @@ export class PhotoViewer {
 
   /**
    * setPhoto shows a photo. source: an ImageBitmap (or canvas) of the photo,
-   * possibly reduced by the integer factor `factor`; width, height: the
-   * stored photo's size in px.
+   * possibly reduced by the integer factor `factor`, as the browser shows it
+   * (turned by the Exif orientation `orientation`, see storedFromShown);
+   * width, height: the stored photo's size in px.
    */
-  setPhoto(source, width, height, factor = 1) {
-    this.photo = { source, width, height, factor };
+  setPhoto(source, width, height, factor = 1, orientation = 1) {
+    this.photo = { source, width, height, factor, orientation };
     this.stage.style.aspectRatio = `${width} / ${height}`;
     this.svg.setAttribute('aria-hidden', 'false');
     this.resize();
@@ -211,7 +243,7 @@ export class PhotoViewer {
     const p = this.photo;
     ctx.setTransform(dpr * v.s, 0, 0, dpr * v.s, dpr * v.tx, dpr * v.ty);
     ctx.imageSmoothingEnabled = v.s * dpr < 2;
-    ctx.drawImage(p.source, 0, 0, p.source.width * p.factor, p.source.height * p.factor);
+    drawStored(ctx, p.source, p.width, p.height, p.orientation, p.factor);
     this.zoomLabel.textContent = `${Math.round(v.s * dpr * 100)} %`;
   }
 

@@ -160,6 +160,31 @@ test('a TIFF is measured and shown from the worker\'s preview', async () => {
   await context.close();
 });
 
+test('a photo whose Exif says "turn it" is drawn as stored, under its targets', async () => {
+  const turned = testPhoto('turned-6.jpg', ['-w', '900', '-h', '600', '-orientation', '6']);
+  const { context, page, errors } = await open();
+  await page.setInputFiles('#file-input', turned);
+  assert.equal(await waitStatus(page, ['done', 'error']), 'done');
+  const r = await page.evaluate(() => window.sagitta.results.images[0]);
+  assert.equal(r.exif.orientation, 6);
+  assert.deepEqual([r.width, r.height], [900, 600]);
+  await page.waitForTimeout(300);
+  // The photo fills the stored 3:2 frame: no pixel of the viewer's empty
+  // background (#2b2f35) inside it. A photo left turned (600 x 900) would
+  // leave a third of the frame empty.
+  const empty = await page.evaluate(() => {
+    const c = document.querySelector('.viewer-stage canvas');
+    const d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
+    let n = 0;
+    for (let i = 0; i < d.length; i += 4) if (d[i] === 0x2b && d[i + 1] === 0x2f && d[i + 2] === 0x35) n++;
+    return n / (c.width * c.height);
+  });
+  assert.ok(empty < 0.01, `${(100 * empty).toFixed(1)} % of the frame is empty`);
+  await shot(page.locator('.viewer'), '07-turned-photo');
+  assert.deepEqual(errors, []);
+  await context.close();
+});
+
 test('cancelling stops a photo; a broken file is an error; the next photo still works', async () => {
   const big = demoPhoto(1);
   const small = demoPhoto(4);

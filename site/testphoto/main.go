@@ -30,15 +30,16 @@ func main() {
 	fnum := flag.Float64("f", 5.6, "f-number written to Exif; the lens gets softer at wider apertures")
 	pitch := flag.Float64("pitch-um", 4.35, "pixel pitch, um (written to Exif as the focal-plane resolution)")
 	seed := flag.Uint64("seed", 1, "noise seed")
+	orient := flag.Int("orientation", 0, "Exif orientation to write (1..8; 0 = none): how a viewer should turn the stored pixels")
 	out := flag.String("o", "photo.jpg", "output file: .jpg, .png or .tif")
 	flag.Parse()
-	if err := run(*w, *h, *fnum, *pitch, *seed, *out); err != nil {
+	if err := run(*w, *h, *fnum, *pitch, *seed, *orient, *out); err != nil {
 		fmt.Fprintln(os.Stderr, "testphoto: "+err.Error())
 		os.Exit(1)
 	}
 }
 
-func run(w, h int, fnum, pitch float64, seed uint64, out string) error {
+func run(w, h int, fnum, pitch float64, seed uint64, orient int, out string) error {
 	scene := chart(w, h)
 	// An invented lens: 0.55 px blur at the centre, growing with the square
 	// of the image height, faster tangentially; sharpest at f/5.6, softer
@@ -53,6 +54,7 @@ func run(w, h int, fnum, pitch float64, seed uint64, out string) error {
 		Make: "Sagitta", Model: "Sagitta Simulated Camera", LensModel: "Sagitta Simulated 35mm",
 		FNumber: fnum, FocalLengthMM: 35, ExposureTimeS: 1.0 / 125, ISO: 100,
 		FocalPlaneXRes: 10000 / pitch, FocalPlaneYRes: 10000 / pitch, FocalPlaneResUnit: exif.UnitCentimetre,
+		Orientation: orient,
 	}
 	var data []byte
 	var err error
