@@ -39,6 +39,7 @@ function setStatus() {
   document.body.dataset.status = s;
   $('queue-head').hidden = ps.length === 0;
   $('first-time').hidden = ps.length > 0;
+  document.querySelector('.intake').classList.toggle('compact', ps.length > 0);
   $('cancel-all').hidden = s !== 'working';
   const any = ps.some((p) => p.result);
   for (const id of ['export-json', 'export-csv', 'export-report']) $(id).disabled = !any;
