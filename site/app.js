@@ -181,7 +181,14 @@ async function measure(p) {
     return failed(p, 'the file could not be read: ' + e.message);
   }
   const tiff = isTIFF(new Uint8Array(bytes, 0, Math.min(4, bytes.byteLength)));
-  if (!state.pool) await started;
+  if (!state.pool) {
+    try {
+      await started;
+    } catch {
+      return failed(p, 'the measuring engine did not start in this browser');
+    }
+  }
+  if (!state.photos.includes(p)) return; // removed meanwhile
   const job = state.pool.analyze(p.name, bytes, settings, tiff ? 2048 : 0, (stage, fraction) => {
     if (p.job !== job) return;
     p.status = 'working';

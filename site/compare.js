@@ -78,6 +78,8 @@ export function renderCompare(root, state) {
     name.value = labelOf(p);
     name.addEventListener('change', () => {
       p.label = name.value.trim() === defaultLabel(p) ? '' : name.value.trim();
+      const title = document.getElementById('result-title');
+      if (title && state.selected === p.key) title.textContent = labelOf(p);
       renderCompare(root, state);
     });
     const ex = p.result.exif || {};
