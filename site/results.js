@@ -81,6 +81,7 @@ export function renderResult(sec, p, state, display) {
     viewer.setPhoto(blankCanvas(r.width, r.height), r.width, r.height, Math.max(1, r.width / 64));
   }
   viewer.setTargets(r.measurements, r.rejected, colourOf, (m) => targetLabel(m, r, state.units));
+  left.append(targetTable(r, state.units));
   if (r.rejected.length) left.append(setAsideList(r, viewer));
   const map = mapFigure(r, display);
   const saveMap = el('button', { type: 'button', class: 'link' }, 'Save the sharpness map (SVG)');
@@ -98,6 +99,8 @@ export function refreshUnits(state) {
   const r = current.result;
   current.viewer.recolour(colourOf, (m) => targetLabel(m, r, state.units));
   renderKey(current.keyEl, r, state.units);
+  const old = current.sec.querySelector('.targets-table');
+  if (old) old.replaceWith(targetTable(r, state.units));
   renderDetail();
   renderFrame();
 }
@@ -202,6 +205,33 @@ function renderKey(key, r, units) {
   }
   key.append(el('span', { class: 'hint' }, 'soft → sharp'), ticks);
   key.setAttribute('aria-label', `Colour key: MTF50 from 0 (dark blue, soft) to ${fmtFreq(SCALE_MAX_CY_PX, units, r)}, the Nyquist frequency (pale yellow, sharp).`);
+}
+
+// targetTable lists every measured target: the text behind the photo.
+function targetTable(r, units) {
+  const det = el('details', { class: 'data-table targets-table' });
+  det.append(el('summary', {}, `All ${r.measurements.length} targets as a table`));
+  const t = el('table');
+  t.append(el('caption', {}, 'Measured targets, nearest the centre first'));
+  const hr = t.createTHead().insertRow();
+  const cols = ['target', 'x, y (px)', 'from centre (mm)', 'orientation', `MTF50 (${UNITS[units].label})`, ...r.freqs_lp_mm.map((f) => `MTF at ${f} lp/mm`), 'notes'];
+  for (const c of cols) hr.append(el('th', { scope: 'col' }, c));
+  const tb = t.createTBody();
+  for (const m of r.measurements) {
+    const tr = tb.insertRow();
+    const cell = tr.insertCell();
+    const b = el('button', { type: 'button', class: 'link' }, `${kindWord(m)} ${m.id}`);
+    b.addEventListener('click', () => selectTarget(m.id));
+    cell.append(b);
+    tr.insertCell().textContent = `${fmt(m.x_px, 0)}, ${fmt(m.y_px, 0)}`;
+    tr.insertCell().textContent = fmt(m.height_mm, 2);
+    tr.insertCell().textContent = m.orientation;
+    tr.insertCell().textContent = fmtFreq(m.mtf50_cy_px, units, r, false);
+    for (const v of m.mtf_at_freqs) tr.insertCell().textContent = fmt(v, 3);
+    tr.insertCell().textContent = m.warnings.join('; ');
+  }
+  det.append(t);
+  return det;
 }
 
 function setAsideList(r, viewer) {
