@@ -93,6 +93,7 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 		Tone: dec.Tone.String(), ToneSource: dec.ToneSource,
 		Method: method.String(), FreqsLPMM: freqs, Exif: dec.Exif,
 		Measurements: []Measurement{}, Rejected: []Rejected{},
+		Stars: []StarInfo{}, Gratings: []GratingInfo{},
 		Warnings: append([]string{}, dec.Warnings...),
 	}
 	img.PitchUM, img.PitchSource, err = pitch(s, dec)
@@ -114,6 +115,9 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 
 	progress(StageFinding, 0.15)
 	cands, rejects := find.Edges(dec.Lum, find.Options{})
+	pats := findPatterns(ctx, dec.Lum, geo, s.Workers) // sine stars and gratings (sine.go)
+	cands, rejects = pats.exclude(cands, rejects)
+	img.Rejected = append(img.Rejected, pats.rejected...)
 	for _, r := range rejects {
 		img.Rejected = append(img.Rejected, Rejected{r.X0, r.Y0, r.X1, r.Y1, r.Reason})
 	}
@@ -142,14 +146,20 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 		}
 		img.Measurements = append(img.Measurements, record(r.m, c.Region, geo, freqs))
 	}
+	nEdges := len(img.Measurements)
+	img.Measurements = append(img.Measurements, pats.records(img, geo, freqs)...)
 	sort.SliceStable(img.Measurements, func(a, b int) bool {
 		return img.Measurements[a].HeightMM < img.Measurements[b].HeightMM
 	})
 	for i := range img.Measurements {
 		img.Measurements[i].ID = i + 1
 	}
+	agreement(img)
 	if len(img.Measurements) == 0 {
 		return nil, noTargets(img.Rejected)
+	}
+	if nEdges == 0 {
+		img.Warnings = append(img.Warnings, "no measurable edge was found in this photo, only sine patterns")
 	}
 	progress(StageSumming, 1)
 	return img, nil

@@ -8,6 +8,7 @@ import (
 	"sagitta/core/decode"
 	"sagitta/core/demo"
 	"sagitta/core/edge"
+	"sagitta/core/field"
 	"sagitta/core/find"
 )
 
@@ -48,6 +49,13 @@ func BenchmarkWholePhoto(b *testing.B) {
 		b.ReportAllocs()
 		for i := 0; i < b.N; i++ {
 			find.Edges(dec.Lum, find.Options{})
+		}
+	})
+	b.Run("sine-patterns", func(b *testing.B) {
+		geo := field.NewGeometry(dec.Width, dec.Height, 6)
+		b.ReportAllocs()
+		for i := 0; i < b.N; i++ {
+			findPatterns(context.Background(), dec.Lum, geo, 0)
 		}
 	})
 	b.Run("measure", func(b *testing.B) {

@@ -37,12 +37,19 @@ type Image struct {
 	Measurements []Measurement `json:"measurements"`
 	Rejected     []Rejected    `json:"rejected"`
 	Warnings     []string      `json:"warnings"`
+
+	// Stars and Gratings detail the sine patterns behind the records of
+	// kind "star" and "grating" (see sine.go); Agreement compares stars
+	// with nearby edges (null when no star has edges near it).
+	Stars     []StarInfo    `json:"stars"`
+	Gratings  []GratingInfo `json:"gratings"`
+	Agreement *Agreement    `json:"agreement"`
 }
 
 // Measurement is one measured target (one edge, or one orientation of a
 // star) in the contract's shape.
 type Measurement struct {
-	Kind        string            `json:"kind"` // "edge" or "star"
+	Kind        string            `json:"kind"` // "edge", "star" or "grating"
 	ID          int               `json:"id"`
 	XPx         float64           `json:"x_px"`
 	YPx         float64           `json:"y_px"`
@@ -70,6 +77,12 @@ type Measurement struct {
 	Overshoot float64       `json:"overshoot"`
 	ESF       edge.Profile  `json:"esf"`
 	LSF       edge.Profile  `json:"lsf"`
+
+	// Sine-pattern records only (see sine.go).
+	PatternID    int            `json:"pattern_id,omitempty"`     // id in Image.Stars or Image.Gratings
+	MeasuredCyPx *[2]float64    `json:"measured_cy_px,omitempty"` // frequencies actually measured; outside, freq_cy_px holds no data
+	StdErr       []float64      `json:"mtf_std_err,omitempty"`    // standard error of each mtf value
+	Agreement    *StarAgreement `json:"agreement,omitempty"`      // stars: against nearby edges
 }
 
 // Rejected is a candidate that was not measured or whose measurement was

@@ -128,15 +128,24 @@ func writeText(w io.Writer, res analyze.Result) error {
 	for _, img := range res.Images {
 		fmt.Fprintf(w, "%s: %d x %d px, pitch %s um (%s), tone %s (%s), method %s\n",
 			img.File, img.Width, img.Height, num(img.PitchUM), img.PitchSource, img.Tone, img.ToneSource, img.Method)
-		fmt.Fprintf(w, "%d edges measured, %d set aside\n", len(img.Measurements), len(img.Rejected))
+		kinds := map[string]int{}
+		for _, m := range img.Measurements {
+			kinds[m.Kind]++
+		}
+		fmt.Fprintf(w, "%d edges measured, %d set aside; %d sine stars, %d sine gratings (%d records)\n",
+			kinds["edge"], len(img.Rejected), len(img.Stars), len(img.Gratings), kinds["star"]+kinds["grating"])
+		if a := img.Agreement; a != nil {
+			fmt.Fprintf(w, "stars against nearby edges: %.3f rms difference in MTF at %.2f-%.2f cy/px (edges %+.3f on average)\n",
+				a.RMSDiff, a.LoCyPx, a.HiCyPx, a.MeanDiff)
+		}
 		if len(img.Measurements) > 0 {
-			fmt.Fprintf(w, "%4s %8s %8s %9s %-10s %11s %11s", "id", "x px", "y px", "height mm", "orient.", "MTF50 cy/px", "MTF50 lp/mm")
+			fmt.Fprintf(w, "%4s %-7s %8s %8s %9s %-10s %11s %11s", "id", "kind", "x px", "y px", "height mm", "orient.", "MTF50 cy/px", "MTF50 lp/mm")
 			for _, f := range img.FreqsLPMM {
 				fmt.Fprintf(w, " %9s", "@"+num(f)+" lp/mm")
 			}
 			fmt.Fprintln(w, "  notes")
 			for _, m := range img.Measurements {
-				fmt.Fprintf(w, "%4d %8.1f %8.1f %9.2f %-10s %11s %11s", m.ID, m.XPx, m.YPx, m.HeightMM, m.Orientation,
+				fmt.Fprintf(w, "%4d %-7s %8.1f %8.1f %9.2f %-10s %11s %11s", m.ID, m.Kind, m.XPx, m.YPx, m.HeightMM, m.Orientation,
 					fix(float64(m.MTF50), 3), fix(float64(m.MTF50LPMM), 1))
 				for _, v := range m.MTFAtFreqs {
 					fmt.Fprintf(w, " %9s", fix(float64(v), 3))

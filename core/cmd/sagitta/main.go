@@ -21,7 +21,7 @@ var errUsage = errors.New("usage")
 const usage = `sagitta: measure lens sharpness (MTF) from photos of edges and charts
 
 commands:
-  analyze   measure every usable edge in photos and summarise them over the frame
+  analyze   measure every usable edge and sine pattern in photos and summarise them over the frame
   demo      write the built-in demo photo (a simulated lens and camera of our own)
   help      show this text
 

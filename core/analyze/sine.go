@@ -1,0 +1,638 @@
+package analyze
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"runtime"
+	"sort"
+	"sync"
+
+	"sagitta/core/curve"
+	"sagitta/core/edge"
+	"sagitta/core/field"
+	"sagitta/core/find"
+	"sagitta/core/plane"
+	"sagitta/core/sine"
+)
+
+// Sine patterns (sinusoidal Siemens stars and sine gratings) in the
+// pipeline. They are found before the edges are measured, so that edge
+// candidates traced along a star's spokes or a grating's lines are dropped,
+// and they add records of kind "star" and "grating" to the measurements.
+//
+// How the records fill the contract's curve (freq_cy_px from 0, mtf 1 at
+// 0): a pattern measures only some frequencies. Nothing outside them is
+// invented:
+//
+//   - star records carry the grid 0, 0.01, ... up to the highest frequency
+//     the star reached (0.5 when its centre is usable down to the Nyquist
+//     radius N/pi px; less otherwise, and then the record stops there and is
+//     flagged "short-range"). Between 0 and the frequency of the largest
+//     ring the values follow the parabola the normalisation assumes; they
+//     are not measurements. measured_cy_px gives the measured interval.
+//   - grating records carry (0, 1) and one point per grating of a set,
+//     nothing between or beyond; measured_cy_px gives the lowest and highest
+//     grating.
+//
+// So a star or grating record may end below 0.5 cy/px, unlike an edge
+// record; readers must take the end of freq_cy_px as the end of the data
+// (curve.Curve.At returns NaN beyond it, written as null).
+
+// StarInfo describes one measured star in the image JSON: where it is, how
+// well it is located, and its per-segment curves for a polar plot.
+type StarInfo struct {
+	ID          int            `json:"id"`
+	XPx         float64        `json:"x_px"`
+	YPx         float64        `json:"y_px"`
+	HeightMM    float64        `json:"height_mm"`
+	CentreUncPx float64        `json:"center_unc_px"` // 1-sigma uncertainty of the centre, px
+	Cycles      int            `json:"cycles"`
+	RadiusPx    float64        `json:"radius_px"`
+	InnerPx     float64        `json:"inner_px"` // smallest ring measured, px
+	OuterPx     float64        `json:"outer_px"` // largest ring measured, px
+	Modulation  float64        `json:"modulation"`
+	RefFreq     float64        `json:"ref_freq_cy_px"`
+	MaxFreq     float64        `json:"max_freq_cy_px"`
+	Resolved    float64        `json:"resolved_cy_px"` // the modulation stays above 3 standard errors up to here
+	AliasMod    float64        `json:"alias_modulation"`
+	Segments    []sine.Segment `json:"segments"`
+	Agreement   *StarAgreement `json:"agreement"` // against nearby edges; null when there are none
+	Flags       []string       `json:"flags"`
+	Warnings    []string       `json:"warnings"`
+	Records     []int          `json:"records"` // ids of its measurement records
+}
+
+// GratingInfo describes one measured sine grating in the image JSON.
+type GratingInfo struct {
+	ID           int               `json:"id"`
+	XPx          float64           `json:"x_px"`
+	YPx          float64           `json:"y_px"`
+	HeightMM     float64           `json:"height_mm"`
+	Corners      [4][2]float64     `json:"corners_px"` // the area fitted
+	FreqCyPx     float64           `json:"freq_cy_px"`
+	DirectionDeg float64           `json:"direction_deg"`
+	Orientation  field.Orientation `json:"orientation"`
+	Modulation   float64           `json:"modulation"`
+	ModStdErr    float64           `json:"modulation_std_err"`
+	MTF          Number            `json:"mtf"` // Modulation / the reference's; null for the reference itself
+	Reference    bool              `json:"reference"`
+	Flags        []string          `json:"flags"`
+}
+
+// StarAgreement compares one star record with the edges of the same
+// orientation at a similar image height.
+type StarAgreement struct {
+	Edges    int     `json:"edges"`     // edge records compared
+	RMSDiff  float64 `json:"rms_diff"`  // rms of edge MTF - star MTF over the shared frequencies
+	MeanDiff float64 `json:"mean_diff"` // mean of edge MTF - star MTF (positive: the edges read higher)
+}
+
+// Agreement is the per-photo figure of how well sine patterns and edges
+// agree: the rms over all star records that have nearby edges of the
+// difference between the edges' MTF (their mean) and the star's, at the
+// shared frequencies between AgreeLoCyPx and AgreeHiCyPx.
+type Agreement struct {
+	Records  int     `json:"records"` // star records compared
+	RMSDiff  float64 `json:"rms_diff"`
+	MeanDiff float64 `json:"mean_diff"` // positive: edges read higher than stars
+	LoCyPx   float64 `json:"lo_cy_px"`
+	HiCyPx   float64 `json:"hi_cy_px"`
+}
+
+// Agreement settings.
+const (
+	// AgreeLoCyPx and AgreeHiCyPx bound the frequencies compared, where
+	// both methods measure well.
+	AgreeLoCyPx = 0.05
+	AgreeHiCyPx = 0.35
+	// DisagreeRMS is the rms difference above which stars and edges are
+	// said to disagree: the accuracy to which the two methods agree on
+	// simulated lenses in the tests (noise-free simulations agree within
+	// 0.01). Sagitta's choice.
+	DisagreeRMS = 0.05
+	// nearHeightMM and nearHeightShare: an edge is near a star when their
+	// image heights differ by at most the larger of these (mm, share of
+	// the corner height).
+	nearHeightMM    = 1.0
+	nearHeightShare = 0.1
+	// patternMarginPx keeps edge candidates this far clear of a pattern.
+	patternMarginPx = 8
+)
+
+// patterns holds the sine patterns found and measured in one photo.
+type patterns struct {
+	stars    []*sine.Star
+	gratings []*sine.Grating
+	discs    [][3]float64    // x, y, r of areas kept clear of edge finding
+	quads    [][4][2]float64 // likewise
+	rejected []Rejected      // stars found but not measurable
+}
+
+// findPatterns finds and measures the sine patterns of the linear plane p,
+// measuring them in parallel over workers goroutines (GOMAXPROCS when 0).
+// Stars that are real but unusable are listed in rejected.
+func findPatterns(ctx context.Context, p *plane.Plane, geo field.Geometry, workers int) *patterns {
+	ps := &patterns{}
+	cands := sine.Find(p, sine.FindOptions{})
+	type result struct {
+		s   *sine.Star
+		g   *sine.Grating
+		err error
+	}
+	res := make([]result, len(cands))
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	var wg sync.WaitGroup
+	next := make(chan int)
+	for range min(workers, max(len(cands), 1)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range next {
+				c := cands[i]
+				if c.Kind == sine.KindStar {
+					align := math.Atan2(c.Y-geo.CenterY, c.X-geo.CenterX) * 180 / math.Pi
+					res[i].s, res[i].err = measureStar(p, c, align)
+				} else {
+					res[i].g, res[i].err = measureGrating(p, c)
+				}
+			}
+		}()
+	}
+	for i := range cands {
+		if ctx.Err() != nil {
+			break
+		}
+		next <- i
+	}
+	close(next)
+	wg.Wait()
+	for i, c := range cands {
+		r := res[i]
+		switch {
+		case r.s != nil:
+			ps.stars = append(ps.stars, r.s)
+			rad := math.Max(r.s.RadiusPx, c.RadiusPx)
+			ps.discs = append(ps.discs, [3]float64{r.s.X, r.s.Y, rad + math.Max(patternMarginPx, 0.05*rad)})
+		case r.g != nil:
+			ps.gratings = append(ps.gratings, r.g)
+			ps.quads = append(ps.quads, grow(c.Corners, patternMarginPx))
+		case errors.Is(r.err, sine.ErrStarTooSmall):
+			ps.rejected = append(ps.rejected, Rejected{c.X - c.RadiusPx, c.Y, c.X + c.RadiusPx, c.Y,
+				"sine star too small for its number of cycles"})
+		}
+	}
+	return ps
+}
+
+// measureStar and measureGrating turn a panic into an error so that one
+// odd pattern cannot take the photo's analysis down.
+func measureStar(p *plane.Plane, c sine.Candidate, align float64) (s *sine.Star, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			s, err = nil, fmt.Errorf("internal error: %v", r)
+		}
+	}()
+	return sine.MeasureStar(p, sine.StarGuess{X: c.X, Y: c.Y, RadiusPx: c.RadiusPx}, sine.StarOptions{AlignDeg: align})
+}
+
+func measureGrating(p *plane.Plane, c sine.Candidate) (g *sine.Grating, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			g, err = nil, fmt.Errorf("internal error: %v", r)
+		}
+	}()
+	return sine.MeasureGrating(p, sine.GratingGuess{Corners: c.Corners}, sine.GratingOptions{})
+}
+
+// exclude drops the edge candidates and rejected runs that lie on a
+// pattern: a star's spokes and a grating's lines are not edges.
+func (ps *patterns) exclude(cands []find.Candidate, rejects []find.Reject) ([]find.Candidate, []find.Reject) {
+	if len(ps.discs)+len(ps.quads) == 0 {
+		return cands, rejects
+	}
+	keepC := cands[:0]
+	for _, c := range cands {
+		if !ps.overlaps(c.Region.Corners()) {
+			keepC = append(keepC, c)
+		}
+	}
+	keepR := rejects[:0]
+	for _, r := range rejects {
+		mx, my := 0.5*(r.X0+r.X1), 0.5*(r.Y0+r.Y1)
+		if !ps.overlaps([4][2]float64{{r.X0, r.Y0}, {mx, my}, {r.X1, r.Y1}, {mx, my}}) {
+			keepR = append(keepR, r)
+		}
+	}
+	return keepC, keepR
+}
+
+// overlaps reports whether the convex quadrilateral q meets any pattern
+// area.
+func (ps *patterns) overlaps(q [4][2]float64) bool {
+	for _, d := range ps.discs {
+		if distToQuad(q, d[0], d[1]) < d[2] {
+			return true
+		}
+	}
+	for _, a := range ps.quads {
+		if quadsMeet(q, a) {
+			return true
+		}
+	}
+	return false
+}
+
+// distToQuad returns the distance from (x, y) to the convex quadrilateral
+// q (0 inside).
+func distToQuad(q [4][2]float64, x, y float64) float64 {
+	if insideQuad(q, x, y) {
+		return 0
+	}
+	d := math.Inf(1)
+	for i := range 4 {
+		a, b := q[i], q[(i+1)%4]
+		dx, dy := b[0]-a[0], b[1]-a[1]
+		l2 := dx*dx + dy*dy
+		t := 0.0
+		if l2 > 0 {
+			t = math.Max(0, math.Min(1, ((x-a[0])*dx+(y-a[1])*dy)/l2))
+		}
+		d = math.Min(d, math.Hypot(x-a[0]-t*dx, y-a[1]-t*dy))
+	}
+	return d
+}
+
+// insideQuad reports whether (x, y) lies inside the convex quadrilateral q
+// (either winding).
+func insideQuad(q [4][2]float64, x, y float64) bool {
+	pos, neg := false, false
+	for i := range 4 {
+		a, b := q[i], q[(i+1)%4]
+		c := (b[0]-a[0])*(y-a[1]) - (b[1]-a[1])*(x-a[0])
+		pos = pos || c > 0
+		neg = neg || c < 0
+	}
+	return !(pos && neg)
+}
+
+// quadsMeet reports whether two convex quadrilaterals intersect
+// (separating axis test on the sides of both).
+func quadsMeet(a, b [4][2]float64) bool {
+	for _, q := range [2][4][2]float64{a, b} {
+		for i := range 4 {
+			nx, ny := -(q[(i+1)%4][1] - q[i][1]), q[(i+1)%4][0]-q[i][0]
+			amin, amax := project(a, nx, ny)
+			bmin, bmax := project(b, nx, ny)
+			if amax < bmin || bmax < amin {
+				return false
+			}
+		}
+	}
+	return true
+}
+
+func project(q [4][2]float64, nx, ny float64) (float64, float64) {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, p := range q {
+		v := p[0]*nx + p[1]*ny
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	}
+	return lo, hi
+}
+
+// grow moves each corner of a convex quadrilateral m px away from its
+// centroid along the diagonal (enough to clear a blurred border).
+func grow(q [4][2]float64, m float64) [4][2]float64 {
+	var cx, cy float64
+	for _, p := range q {
+		cx += p[0] / 4
+		cy += p[1] / 4
+	}
+	for i, p := range q {
+		dx, dy := p[0]-cx, p[1]-cy
+		l := math.Hypot(dx, dy)
+		if l > 0 {
+			q[i] = [2]float64{p[0] + m*math.Sqrt2*dx/l, p[1] + m*math.Sqrt2*dy/l}
+		}
+	}
+	return q
+}
+
+// records returns the measurement records of the stars (one per
+// orientation: sagittal and tangential, or two mixed ones at the optical
+// centre) and of the grating sets, and fills img.Stars and img.Gratings.
+func (ps *patterns) records(img *Image, geo field.Geometry, freqs []float64) []Measurement {
+	var out []Measurement
+	for i, s := range ps.stars {
+		info := StarInfo{ID: i + 1, XPx: s.X, YPx: s.Y, HeightMM: geo.HeightMM(s.X, s.Y),
+			CentreUncPx: s.CentreUncPx, Cycles: s.Cycles, RadiusPx: s.RadiusPx, InnerPx: s.InnerPx,
+			OuterPx: s.OuterPx, Modulation: s.Modulation, RefFreq: s.RefFreq, MaxFreq: s.MaxFreq, Resolved: s.ResolvedFreq,
+			AliasMod: s.AliasMod, Segments: s.Segments, Flags: []string{}, Warnings: []string{}, Records: []int{}}
+		for _, f := range s.Flags {
+			info.Flags = append(info.Flags, string(f))
+			info.Warnings = append(info.Warnings, sineFlagText[f])
+		}
+		// The field radius through the star; at the optical centre, +x.
+		radial := math.Atan2(s.Y-geo.CenterY, s.X-geo.CenterX) * 180 / math.Pi
+		for _, dir := range []float64{radial, radial + 90} {
+			c, se := s.Along(dir)
+			dir = math.Mod(dir+360, 180)
+			if dir > 180-1e-9 {
+				dir = 0
+			}
+			o, ang := geo.Classify(s.X, s.Y, dir)
+			rec := patternRecord("star", s.X, s.Y, o, ang, dir, c, geo, freqs, s.RefFreq, s.MaxFreq)
+			rec.PatternID = info.ID
+			rec.StdErr = se
+			rec.Flags, rec.Warnings = append(rec.Flags, info.Flags...), append(rec.Warnings, info.Warnings...)
+			r := s.RadiusPx
+			rec.Region = [4][2]float64{{s.X - r, s.Y - r}, {s.X + r, s.Y - r}, {s.X + r, s.Y + r}, {s.X - r, s.Y + r}}
+			rec.Contrast = Number(math.NaN()) // light/dark ratio; undefined for a modulation of 1 or more (bars)
+			if s.Modulation < 1 {
+				rec.Contrast = Number((1 + s.Modulation) / (1 - s.Modulation))
+			}
+			if s.NoiseRMS > 0 {
+				rec.SNR = Number(s.Modulation * s.Mean / s.NoiseRMS)
+			} else {
+				rec.SNR = Number(math.Inf(1))
+			}
+			out = append(out, rec)
+		}
+		img.Stars = append(img.Stars, info)
+	}
+	out = append(out, ps.gratingRecords(img, geo, freqs)...)
+	return out
+}
+
+// gratingRecords measures every grating against the sheet's reference (the
+// grating of lowest frequency in the photo), fills img.Gratings and
+// returns one record per set of gratings: gratings of one orientation and
+// direction (within 10 degrees) lying close together (centres within 1.5
+// times the sum of their half-diagonals).
+func (ps *patterns) gratingRecords(img *Image, geo field.Geometry, freqs []float64) []Measurement {
+	gs := ps.gratings
+	if len(gs) == 0 {
+		return nil
+	}
+	ref := 0
+	for i, g := range gs {
+		if g.FreqCyPx < gs[ref].FreqCyPx {
+			ref = i
+		}
+	}
+	weakRef := gs[ref].FreqCyPx > maxRefFreqCyPx
+	half := func(g *sine.Grating) float64 {
+		q := g.Corners
+		return 0.5 * math.Hypot(q[2][0]-q[0][0], q[2][1]-q[0][1])
+	}
+	for i, g := range gs {
+		o, _ := geo.Classify(g.X, g.Y, g.DirectionDeg)
+		info := GratingInfo{ID: i + 1, XPx: g.X, YPx: g.Y, HeightMM: geo.HeightMM(g.X, g.Y),
+			Corners: g.Corners, FreqCyPx: g.FreqCyPx, DirectionDeg: g.DirectionDeg, Orientation: o,
+			Modulation: g.Modulation, ModStdErr: g.ModStdErr, MTF: Number(math.NaN()), Reference: i == ref, Flags: []string{}}
+		if i != ref && gs[ref].Modulation > 0 {
+			info.MTF = Number(g.Modulation / gs[ref].Modulation)
+		}
+		for _, f := range g.Flags {
+			info.Flags = append(info.Flags, string(f))
+		}
+		if weakRef {
+			info.Flags = append(info.Flags, string(sine.FlagWeakReference))
+		}
+		img.Gratings = append(img.Gratings, info)
+	}
+	// Sets by single linkage.
+	set := make([]int, len(gs))
+	for i := range set {
+		set[i] = i
+	}
+	var root func(int) int
+	root = func(i int) int {
+		for set[i] != i {
+			i = set[i]
+		}
+		return i
+	}
+	for i := range gs {
+		for j := i + 1; j < len(gs); j++ {
+			a, b := img.Gratings[i], img.Gratings[j]
+			if a.Orientation != b.Orientation || axisDiff(a.DirectionDeg, b.DirectionDeg) > 10 {
+				continue
+			}
+			if math.Hypot(a.XPx-b.XPx, a.YPx-b.YPx) <= 1.5*(half(gs[i])+half(gs[j])) {
+				set[root(j)] = root(i)
+			}
+		}
+	}
+	groups := map[int][]int{}
+	var order []int
+	for i := range gs {
+		if i == ref {
+			continue
+		}
+		r := root(i)
+		if _, ok := groups[r]; !ok {
+			order = append(order, r)
+		}
+		groups[r] = append(groups[r], i)
+	}
+	var out []Measurement
+	for _, r := range order {
+		members := groups[r]
+		sort.Slice(members, func(a, b int) bool { return gs[members[a]].FreqCyPx < gs[members[b]].FreqCyPx })
+		c := curve.Curve{Freq: []float64{0}, Value: []float64{1}}
+		se := []float64{0}
+		var x, y, dir float64
+		flags := map[string]bool{}
+		for _, i := range members {
+			g := gs[i]
+			c.Freq = append(c.Freq, g.FreqCyPx)
+			c.Value = append(c.Value, float64(img.Gratings[i].MTF))
+			se = append(se, g.ModStdErr/gs[ref].Modulation)
+			x += g.X / float64(len(members))
+			y += g.Y / float64(len(members))
+			dir = g.DirectionDeg
+			for _, f := range img.Gratings[i].Flags {
+				flags[f] = true
+			}
+		}
+		o, ang := geo.Classify(x, y, dir)
+		rec := patternRecord("grating", x, y, o, ang, dir, c, geo, freqs, c.Freq[1], c.Freq[len(c.Freq)-1])
+		rec.PatternID = img.Gratings[members[0]].ID
+		rec.StdErr = se
+		for _, f := range sortedKeys(flags) {
+			rec.Flags = append(rec.Flags, f)
+			rec.Warnings = append(rec.Warnings, sineFlagText[sine.Flag(f)])
+		}
+		q := gs[members[0]].Corners
+		rec.Region = q
+		out = append(out, rec)
+	}
+	return out
+}
+
+// maxRefFreqCyPx is the highest frequency at which a reference grating's
+// own MTF is taken as 1 without a warning.
+const maxRefFreqCyPx = 0.05
+
+// patternRecord builds the common part of a star or grating record. The
+// MTF50 figures are given only where the crossing lies within the measured
+// interval [lo, hi].
+func patternRecord(kind string, x, y float64, o field.Orientation, ang, dir float64, c curve.Curve, geo field.Geometry, freqs []float64, lo, hi float64) Measurement {
+	inRange := func(f float64) Number {
+		if f >= lo && f <= hi {
+			return Number(f)
+		}
+		return Number(math.NaN())
+	}
+	rec := Measurement{
+		Kind: kind, XPx: x, YPx: y,
+		HeightMM:       geo.HeightMM(x, y),
+		Orientation:    o,
+		RadiusAngleDeg: Number(ang),
+		NormalDeg:      dir,
+		MTF50:          inRange(c.MTF50()),
+		MTF50P:         inRange(c.MTF50P()),
+		MTFNyquist:     Number(c.AtNyquist()),
+		Freq:           c.Freq,
+		MTF:            c.Value,
+		Warnings:       []string{},
+		Flags:          []string{},
+		ESF:            edge.Profile{X: []float64{}, V: []float64{}},
+		LSF:            edge.Profile{X: []float64{}, V: []float64{}},
+		SNR:            Number(math.NaN()),
+		Contrast:       Number(math.NaN()),
+		MeasuredCyPx:   &[2]float64{lo, hi},
+	}
+	rec.MTF50LPMM = Number(curve.LPPerMM(float64(rec.MTF50), geo.PitchUM))
+	for _, f := range freqs {
+		fc := curve.CyPerPx(f, geo.PitchUM)
+		v := math.NaN()
+		if fc >= lo && fc <= hi {
+			v = c.At(fc)
+		}
+		rec.MTFAtFreqs = append(rec.MTFAtFreqs, Number(v))
+	}
+	return rec
+}
+
+// agreement compares every star record with the edge records of the same
+// orientation at a similar image height, sets the star's and the photo's
+// agreement figures, and flags disagreement.
+func agreement(img *Image) {
+	hTol := math.Max(nearHeightMM, nearHeightShare*img.CornerMM)
+	var sum2, sumD float64
+	var n int
+	starIdx := map[int]int{}
+	for i, s := range img.Stars {
+		starIdx[s.ID] = i
+	}
+	for ri := range img.Measurements {
+		m := &img.Measurements[ri]
+		if m.Kind != "star" {
+			continue
+		}
+		if si, ok := starIdx[m.PatternID]; ok {
+			img.Stars[si].Records = append(img.Stars[si].Records, m.ID)
+		}
+		star := curve.Curve{Freq: m.Freq, Value: m.MTF}
+		var near []curve.Curve
+		for _, e := range img.Measurements {
+			if e.Kind == "edge" && e.Orientation == m.Orientation && m.Orientation != field.Mixed &&
+				math.Abs(e.HeightMM-m.HeightMM) <= hTol {
+				near = append(near, curve.Curve{Freq: e.Freq, Value: e.MTF})
+			}
+		}
+		if len(near) == 0 {
+			continue
+		}
+		var s2, sd float64
+		var k int
+		for f := AgreeLoCyPx; f <= AgreeHiCyPx+1e-9; f += 0.01 {
+			sv := star.At(f)
+			if math.IsNaN(sv) || f < m.MeasuredCyPx[0] {
+				continue
+			}
+			var ev float64
+			var ne int
+			for _, e := range near {
+				if v := e.At(f); !math.IsNaN(v) {
+					ev += v
+					ne++
+				}
+			}
+			if ne == 0 {
+				continue
+			}
+			d := ev/float64(ne) - sv
+			s2 += d * d
+			sd += d
+			k++
+		}
+		if k == 0 {
+			continue
+		}
+		a := &StarAgreement{Edges: len(near), RMSDiff: math.Sqrt(s2 / float64(k)), MeanDiff: sd / float64(k)}
+		m.Agreement = a
+		if si, ok := starIdx[m.PatternID]; ok && (img.Stars[si].Agreement == nil || a.RMSDiff > img.Stars[si].Agreement.RMSDiff) {
+			img.Stars[si].Agreement = a
+		}
+		sum2 += a.RMSDiff * a.RMSDiff
+		sumD += a.MeanDiff
+		n++
+		if a.RMSDiff > DisagreeRMS {
+			m.Flags = append(m.Flags, string(sine.FlagDisagree))
+			m.Warnings = append(m.Warnings, disagreeText(a))
+		}
+	}
+	if n == 0 {
+		return
+	}
+	img.Agreement = &Agreement{Records: n, RMSDiff: math.Sqrt(sum2 / float64(n)), MeanDiff: sumD / float64(n),
+		LoCyPx: AgreeLoCyPx, HiCyPx: AgreeHiCyPx}
+	if img.Agreement.RMSDiff > DisagreeRMS {
+		img.Warnings = append(img.Warnings, "sine stars and edges disagree: "+disagreeText(&StarAgreement{
+			RMSDiff: img.Agreement.RMSDiff, MeanDiff: img.Agreement.MeanDiff}))
+	}
+}
+
+// disagreeText words a disagreement for people.
+func disagreeText(a *StarAgreement) string {
+	s := fmt.Sprintf("edges and the sine star differ by %.2f rms in MTF at %.2f-%.2f cy/px", a.RMSDiff, AgreeLoCyPx, AgreeHiCyPx)
+	if a.MeanDiff > 0 {
+		return s + "; the edges read higher, as in-camera sharpening makes them"
+	}
+	return s + "; the edges read lower (noise reduction, or a soft or curved edge?)"
+}
+
+// sineFlagText words each pattern flag for people.
+var sineFlagText = map[sine.Flag]string{
+	sine.FlagCentreUncertain: "the star's centre is uncertain: its frequencies may be off",
+	sine.FlagAliased:         "moire at the star's centre: the system passes detail beyond Nyquist",
+	sine.FlagClipped:         "the pattern reaches the limit of the file's values",
+	sine.FlagFewCycles:       "few cycles resolved: the fit rests on little of the pattern",
+	sine.FlagShortRange:      "measured only part of the way to Nyquist",
+	sine.FlagNotSine:         "the pattern is not sinusoidal (bars, or a tone curve that is not linear)",
+	sine.FlagNoisy:           "noisy",
+	sine.FlagWeakReference:   "the low-frequency reference is not low enough: values may read high",
+	sine.FlagSharpened:       "the star's modulation rises with frequency (in-camera sharpening): it is normalised at its largest ring, so it reads low by that ring's own gain",
+	sine.FlagDisagree:        "disagrees with nearby edges",
+}
+
+func axisDiff(a, b float64) float64 {
+	d := math.Mod(math.Abs(a-b), 180)
+	return math.Min(d, 180-d)
+}
+
+func sortedKeys(m map[string]bool) []string {
+	out := make([]string, 0, len(m))
+	for k := range m {
+		out = append(out, k)
+	}
+	sort.Strings(out)
+	return out
+}
