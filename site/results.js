@@ -15,7 +15,9 @@ import { renderSummary } from './summary.js';
 export function outcome(r) {
   const edges = r.measurements.filter((m) => m.kind === 'edge').length;
   const stars = new Set(r.measurements.filter((m) => m.kind === 'star').map((m) => `${m.x_px},${m.y_px}`)).size;
-  let s = `${edges} edge${edges === 1 ? '' : 's'}` + (stars ? `, ${stars} star${stars === 1 ? '' : 's'}` : '') + ' measured';
+  const gratings = (r.gratings || []).length;
+  let s = `${edges} edge${edges === 1 ? '' : 's'}` + (stars ? `, ${stars} star${stars === 1 ? '' : 's'}` : '') +
+    (gratings ? `, ${gratings} grating${gratings === 1 ? '' : 's'}` : '') + ' measured';
   if (r.rejected.length) s += `; ${r.rejected.length} set aside`;
   return s;
 }
@@ -116,7 +118,7 @@ function colourOf(m) {
 }
 
 function kindWord(m) {
-  return m.kind === 'star' ? 'Star' : 'Edge';
+  return { star: 'Star', grating: 'Gratings' }[m.kind] || 'Edge';
 }
 
 function targetLabel(m, r, units) {
@@ -288,7 +290,11 @@ function renderDetail() {
   row('MTF50P', fmtFreq(m.mtf50p_cy_px, units, r));
   r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, fmt(m.mtf_at_freqs[i], 3)));
   row('MTF at Nyquist', fmt(m.mtf_nyquist, 3));
-  row('Edge', `${fmt(m.length_px, 0)} px long, slanted ${fmt(m.slant_deg, 1)}°, contrast ${fmt(m.contrast, 1)}:1` + (Number.isFinite(m.snr) ? `, signal/noise ${fmt(m.snr, 0)}` : ''));
+  if (m.kind === 'edge') {
+    row('Edge', `${fmt(m.length_px, 0)} px long, slanted ${fmt(m.slant_deg, 1)}°, contrast ${fmt(m.contrast, 1)}:1` + (Number.isFinite(m.snr) ? `, signal/noise ${fmt(m.snr, 0)}` : ''));
+  } else {
+    patternRows(m, r, units, row);
+  }
   if (m.warnings.length) row('Notes', m.warnings.join('; '));
   detail.append(dl);
 
@@ -305,23 +311,35 @@ function renderDetail() {
   refRow.append('Reference: a perfect lens at f/ ', fIn, r.exif && r.exif.f_number ? ' (from Exif)' : ' (enter the f-number)');
   detail.append(refRow);
 
-  detail.append(plot({
+  if (m.esf.x_px.length) detail.append(plot({
     title: 'Edge profile (ESF)', xLabel: 'distance across the edge (px)', yLabel: 'level (dark 0, light 1)',
     xDomain: extent(m.esf.x_px), yDomain: padded(m.esf.v),
     series: [{ name: 'edge profile', points: zip(m.esf.x_px, m.esf.v), colour: '#1b1f24', width: 1.6 }],
     width: 460, height: 220, fileName: `edge-${m.id}-profile`,
   }));
-  detail.append(plot({
+  if (m.lsf.x_px.length) detail.append(plot({
     title: 'Line spread (LSF, the derivative)', xLabel: 'distance across the edge (px)', yLabel: 'relative level',
     xDomain: extent(m.lsf.x_px), yDomain: padded(m.lsf.v),
     series: [{ name: 'line spread', points: zip(m.lsf.x_px, m.lsf.v), colour: '#1b1f24', width: 1.6 }],
     width: 460, height: 220, fileName: `edge-${m.id}-line-spread`,
   }));
-  const fmax = Math.min(1, m.freq_cy_px[m.freq_cy_px.length - 1]);
+  const fmax = Math.max(NYQUIST_CY_PX, Math.min(1, m.freq_cy_px[m.freq_cy_px.length - 1]));
   const conv = (f) => fromCyPx(f, units, r);
   const pts = [];
   for (let i = 0; i < m.freq_cy_px.length && m.freq_cy_px[i] <= fmax + 1e-9; i++) pts.push([conv(m.freq_cy_px[i]), m.mtf[i]]);
-  const series = [{ name: `measured (${m.orientation})`, points: pts, colour: ORIENTATION[m.orientation] || '#1b1f24', width: 2 }];
+  const series = [];
+  // A sine pattern measures some frequencies only: its standard errors as a
+  // band, the other records of the same star beside it.
+  if (m.mtf_std_err && m.mtf_std_err.length === m.mtf.length) {
+    series.push({ band: m.freq_cy_px.map((f, i) => [conv(f), m.mtf[i] - 2 * m.mtf_std_err[i], m.mtf[i] + 2 * m.mtf_std_err[i]]), colour: ORIENTATION[m.orientation] || '#1b1f24' });
+  }
+  const grating = m.kind === 'grating';
+  series.push({ name: `measured (${m.orientation})`, points: pts, colour: ORIENTATION[m.orientation] || '#1b1f24', width: 2, line: !grating, marker: grating ? 'circle' : null, markerSize: 4 });
+  if (m.kind === 'star') {
+    for (const o of r.measurements.filter((x) => x.kind === 'star' && x.pattern_id === m.pattern_id && x.id !== m.id)) {
+      series.push({ name: `same star, ${o.orientation}`, points: o.freq_cy_px.map((f, i) => [conv(f), o.mtf[i]]), colour: ORIENTATION[o.orientation] || '#6f767e', width: 1.2, dash: '3 2' });
+    }
+  }
   const ref = [];
   if (current.refF) {
     for (let i = 0; i <= 200; i++) {
@@ -338,14 +356,32 @@ function renderDetail() {
     if (current.refF) rowv.push(bestPossible(f, current.refF, r.pitch_um));
     table.rows.push(rowv);
   }
+  const measured = m.measured_cy_px ? [{ x: conv(m.measured_cy_px[0]), label: '', colour: '#8a939d', dash: '1 3', legend: 'measured range of the pattern' }, { x: conv(m.measured_cy_px[1]), label: '', colour: '#8a939d', dash: '1 3' }] : [];
   detail.append(plot({
     title: 'Response (MTF)', xLabel: `spatial frequency (${UNITS[units].label})`, yLabel: 'MTF',
     xDomain: [0, conv(fmax)], yDomain: [0, ymax],
-    series, vlines: [{ x: conv(NYQUIST_CY_PX), label: 'Nyquist', colour: '#1b1f24', legend: 'Nyquist frequency (half the sampling rate)' }],
+    series, vlines: [{ x: conv(NYQUIST_CY_PX), label: 'Nyquist', colour: '#1b1f24', legend: 'Nyquist frequency (half the sampling rate)' }, ...measured],
     table, width: 460, height: 260, fileName: `edge-${m.id}-mtf`,
   }));
   if (current.refF && pts.some((p, i) => p[1] > bestPossible(m.freq_cy_px[i], current.refF, r.pitch_um) + 0.05)) {
     detail.append(el('p', { class: 'notes' }, 'This edge responds above what a perfect lens could give at this f-number: the file was sharpened (in the camera or later), or the f-number is wrong. Sharpened files overstate the lens.'));
+  }
+}
+
+// patternRows describes a star or a set of gratings.
+function patternRows(m, r, units, row) {
+  if (m.kind === 'star') {
+    const st = (r.stars || []).find((x) => x.id === m.pattern_id);
+    if (st) {
+      row('Star', `${st.cycles} cycles, ${fmt(st.radius_px, 0)} px radius; rings from ${fmt(st.inner_px, 0)} to ${fmt(st.outer_px, 0)} px measured; centre within ±${fmt(st.center_unc_px, 2)} px`);
+      row('Resolved', `up to ${fmtFreq(st.resolved_cy_px, units, r)} (modulation above three standard errors)`);
+    }
+  } else if (m.measured_cy_px) {
+    row('Gratings', `one value per grating from ${fmtFreq(m.measured_cy_px[0], units, r)} to ${fmtFreq(m.measured_cy_px[1], units, r)}, relative to the coarsest`);
+  }
+  if (m.agreement) {
+    const a = m.agreement;
+    row('Against edges', `${a.edges} nearby edge${a.edges === 1 ? '' : 's'} of the same orientation read ${a.mean_diff >= 0 ? 'higher' : 'lower'} by ${fmt(Math.abs(a.mean_diff), 3)} on average (rms ${fmt(a.rms_diff, 3)})`);
   }
 }
 
@@ -389,14 +425,14 @@ function renderFrame() {
   const series = [];
   const table = { columns: ['target', 'kind', 'orientation', 'height (mm)'].concat(freqs.map((f) => `MTF at ${f} lp/mm`)), rows: [] };
   for (const o of ['sagittal', 'tangential', 'mixed']) {
-    for (const kind of ['edge', 'star']) {
+    for (const kind of ['edge', 'star', 'grating']) {
       const sel = ms.filter((m) => m.orientation === o && m.kind === kind);
       if (!sel.length) continue;
       freqs.forEach((f, i) => {
         series.push({
-          name: `${o}, ${f} lp/mm${kind === 'star' ? ' (stars)' : ''}`,
+          name: `${o}, ${f} lp/mm${kind === 'edge' ? '' : ` (${kind}s)`}`,
           points: sel.map((m) => [m.height_mm, m.mtf_at_freqs[i]]),
-          colour: ORIENTATION[o], line: false, marker: kind === 'star' ? 'diamond' : i === 0 ? 'circle' : 'square',
+          colour: ORIENTATION[o], line: false, marker: kind === 'edge' ? (i === 0 ? 'circle' : 'square') : 'diamond',
           markerSize: i === 0 ? 4 : 2.6,
         });
       });

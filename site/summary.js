@@ -38,9 +38,9 @@ export function renderSummary(box, r, units) {
       const c = s.curves.find((c) => c.quantity === 'mtf' && c.orientation === o && c.freq_lp_mm === f);
       const colour = ORIENTATION[o];
       const sel = ms.filter((m) => m.orientation === o);
-      for (const kind of ['edge', 'star']) {
+      for (const kind of ['edge', 'star', 'grating']) {
         const pts = sel.filter((m) => m.kind === kind).map((m) => [m.height_mm, m.mtf_at_freqs[fi]]);
-        if (pts.length) series.push({ name: `${o} ${kind}s, ${f} lp/mm`, points: pts, colour, line: false, marker: kind === 'star' ? 'diamond' : 'circle', markerSize: fi === 0 ? 2.6 : 2, legend: false });
+        if (pts.length) series.push({ name: `${o} ${kind}s, ${f} lp/mm`, points: pts, colour, line: false, marker: kind === 'edge' ? 'circle' : 'diamond', markerSize: kind === 'edge' ? (fi === 0 ? 2.6 : 2) : 4, legend: false });
       }
       if (!c) continue;
       series.push({ band: c.height_mm.map((h, i) => [h, c.band_lo[i], c.band_hi[i]]), colour });

@@ -37,6 +37,18 @@ export function drawStored(ctx, source, W, H, o = 1, factor = 1) {
   ctx.restore();
 }
 
+/**
+ * ringArc is the SVG path of arc i of n equal arcs of the ring between radii
+ * r0 and r1 around (cx, cy), starting at the top and going clockwise.
+ */
+export function ringArc(cx, cy, r0, r1, i, n) {
+  const a0 = -Math.PI / 2 + (2 * Math.PI * i) / n;
+  const a1 = -Math.PI / 2 + (2 * Math.PI * (i + 1)) / n - (n > 1 ? 0.04 : 0.0001);
+  const pt = (r, a) => `${(cx + r * Math.cos(a)).toFixed(2)},${(cy + r * Math.sin(a)).toFixed(2)}`;
+  const big = a1 - a0 > Math.PI ? 1 : 0;
+  return `M${pt(r1, a0)}A${r1},${r1} 0 ${big} 1 ${pt(r1, a1)}L${pt(r0, a1)}A${r0},${r0} 0 ${big} 0 ${pt(r0, a0)}Z`;
+}
+
 export class PhotoViewer {
   /**
    * @param {HTMLElement} root element to fill
@@ -132,12 +144,26 @@ export class PhotoViewer {
       g.addEventListener('pointerleave', () => this.hideTip());
       this.rejected.push({ g, text, x: (r.x0_px + r.x1_px) / 2, y: (r.y0_px + r.y1_px) / 2 });
     }
+    // A star's records (one per orientation) share its disc: each gets an
+    // arc of a ring around the star, in the order of the records.
+    const starRecords = new Map();
     for (const m of measurements) {
-      const pts = m.region_px.map((p) => p.join(',')).join(' ');
-      const poly = svgEl('polygon', {
-        points: pts, class: 'target', tabindex: 0, role: 'button',
-        fill: colourOf(m), 'aria-label': labelOf(m),
-      }, this.tgtLayer);
+      if (m.kind !== 'star') continue;
+      const k = `${m.x_px},${m.y_px}`;
+      if (!starRecords.has(k)) starRecords.set(k, []);
+      starRecords.get(k).push(m);
+    }
+    for (const m of measurements) {
+      const attrs = { class: `target target-${m.kind}`, tabindex: 0, role: 'button', fill: colourOf(m), 'aria-label': labelOf(m) };
+      let poly;
+      if (m.kind === 'star') {
+        const recs = starRecords.get(`${m.x_px},${m.y_px}`);
+        const xs = m.region_px.map((p) => p[0]);
+        const R = (Math.max(...xs) - Math.min(...xs)) / 2;
+        poly = svgEl('path', { ...attrs, d: ringArc(m.x_px, m.y_px, 0.62 * R, R, recs.indexOf(m), recs.length) }, this.tgtLayer);
+      } else {
+        poly = svgEl('polygon', { ...attrs, points: m.region_px.map((p) => p.join(',')).join(' ') }, this.tgtLayer);
+      }
       const label = labelOf(m);
       poly.addEventListener('pointerenter', (e) => this.showTip(label, e));
       poly.addEventListener('pointerleave', () => this.hideTip());

@@ -160,6 +160,30 @@ test('a TIFF is measured and shown from the worker\'s preview', async () => {
   await context.close();
 });
 
+test('sine stars and gratings: the tool\'s numbers, drawn as rings and areas, shown in detail', async () => {
+  const photo = testPhoto('patterns.jpg', ['-w', '3000', '-h', '2000', '-patterns']);
+  const { context, page, errors } = await open();
+  await page.setInputFiles('#file-input', photo);
+  assert.equal(await waitStatus(page, ['done', 'error']), 'done');
+  const got = await page.evaluate(() => window.sagitta.results);
+  assert.equal(diff(got, JSON.parse(cli(['--json'], [photo])), 1e-6), '');
+  const kinds = got.images[0].measurements.map((m) => m.kind);
+  const stars = kinds.filter((k) => k === 'star').length;
+  assert.ok(stars >= 1, 'the star was measured');
+  assert.equal(await page.locator('.target-star').count(), stars);
+  assert.equal(await page.locator('.target-grating').count(), kinds.filter((k) => k === 'grating').length);
+  assert.match(await page.textContent('.photo .state'), /\d+ edges, 1 star, \d+ gratings? measured/);
+  await page.focus('.target-star >> nth=0');
+  await page.keyboard.press('Enter');
+  await page.waitForSelector('#target-detail svg.plot');
+  assert.match(await page.textContent('#target-detail h3'), /^Star \d+/);
+  const captions = await page.$$eval('#target-detail figure caption', (cs) => cs.map((c) => c.textContent));
+  assert.deepEqual(captions, ['Response (MTF)'], 'a star has no edge profile');
+  await shot(page.locator('#result'), '08-star-detail');
+  assert.deepEqual(errors, []);
+  await context.close();
+});
+
 test('a photo whose Exif says "turn it" is drawn as stored, under its targets', async () => {
   const turned = testPhoto('turned-6.jpg', ['-w', '900', '-h', '600', '-orientation', '6']);
   const { context, page, errors } = await open();

@@ -30,17 +30,21 @@ func main() {
 	fnum := flag.Float64("f", 5.6, "f-number written to Exif; the lens gets softer at wider apertures")
 	pitch := flag.Float64("pitch-um", 4.35, "pixel pitch, um (written to Exif as the focal-plane resolution)")
 	seed := flag.Uint64("seed", 1, "noise seed")
+	patterns := flag.Bool("patterns", false, "add a sine star at the centre and a set of sine gratings below it")
 	orient := flag.Int("orientation", 0, "Exif orientation to write (1..8; 0 = none): how a viewer should turn the stored pixels")
 	out := flag.String("o", "photo.jpg", "output file: .jpg, .png or .tif")
 	flag.Parse()
-	if err := run(*w, *h, *fnum, *pitch, *seed, *orient, *out); err != nil {
+	if err := run(*w, *h, *fnum, *pitch, *seed, *orient, *patterns, *out); err != nil {
 		fmt.Fprintln(os.Stderr, "testphoto: "+err.Error())
 		os.Exit(1)
 	}
 }
 
-func run(w, h int, fnum, pitch float64, seed uint64, orient int, out string) error {
+func run(w, h int, fnum, pitch float64, seed uint64, orient int, patterns bool, out string) error {
 	scene := chart(w, h)
+	if patterns {
+		addPatterns(&scene, w, h)
+	}
 	// An invented lens: 0.55 px blur at the centre, growing with the square
 	// of the image height, faster tangentially; sharpest at f/5.6, softer
 	// wide open and a little softer stopped down.
@@ -99,4 +103,43 @@ func chart(w, h int) simcam.Scene {
 		}
 	}
 	return s
+}
+
+// addPatterns puts a sinusoidal star at the centre of the frame and a set of
+// four sine gratings (0.02, 0.1, 0.2 and 0.3 cycles/pixel; the first is the
+// reference) below it, and removes the squares that would overlap them
+// (patterns and polygons must not meet, see simcam.Scene).
+func addPatterns(s *simcam.Scene, w, h int) {
+	cx, cy := float64(w)/2, float64(h)/2
+	r := float64(h) / 7
+	s.Stars = append(s.Stars, simcam.Star{X: cx, Y: cy, Radius: r, Cycles: 48, Mean: 0.42, Amplitude: 0.32})
+	gw, gh := float64(w)/9, float64(h)/14
+	gy := cy + r + gh
+	var areas [][4]float64 // x0, y0, x1, y1 of each pattern, px
+	areas = append(areas, [4]float64{cx - r, cy - r, cx + r, cy + r})
+	for i, f := range []float64{0.02, 0.1, 0.2, 0.3} {
+		gx := cx + (float64(i)-1.5)*gw*1.15
+		c := [4][2]float64{{gx - gw/2, gy - gh/2}, {gx + gw/2, gy - gh/2}, {gx + gw/2, gy + gh/2}, {gx - gw/2, gy + gh/2}}
+		s.Gratings = append(s.Gratings, simcam.Grating{Corners: c, FreqCyPx: f, Mean: 0.42, Amplitude: 0.3})
+		areas = append(areas, [4]float64{gx - gw/2, gy - gh/2, gx + gw/2, gy + gh/2})
+	}
+	const margin = 30 // px kept clear around each pattern
+	kept := s.Polygons[:0]
+	for _, p := range s.Polygons {
+		x0, y0, x1, y1 := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
+		for _, q := range p.Pts {
+			x0, y0 = math.Min(x0, q[0]), math.Min(y0, q[1])
+			x1, y1 = math.Max(x1, q[0]), math.Max(y1, q[1])
+		}
+		clear := true
+		for _, a := range areas {
+			if x1+margin > a[0] && x0-margin < a[2] && y1+margin > a[1] && y0-margin < a[3] {
+				clear = false
+			}
+		}
+		if clear {
+			kept = append(kept, p)
+		}
+	}
+	s.Polygons = kept
 }
