@@ -262,10 +262,22 @@ test('24 MP JPEG: time from drop to result (measured, not asserted)', async () =
     window.longTasks = [];
     new PerformanceObserver((l) => window.longTasks.push(...l.getEntries().map((e) => e.duration))).observe({ type: 'longtask' });
   });
+  // When each stage began, from the photo's progress line.
+  await page.evaluate(() => {
+    window.stages = [];
+    new MutationObserver(() => {
+      const t = document.querySelector('.photo .state')?.textContent || '';
+      const stage = t.replace(/ \(\d+ %\)$/, '');
+      if (!window.stages.length || window.stages[window.stages.length - 1][0] !== stage) window.stages.push([stage, performance.now()]);
+    }).observe(document.getElementById('photo-list'), { subtree: true, childList: true, characterData: true });
+  });
   const t0 = Date.now();
+  const p0 = await page.evaluate(() => performance.now());
   await dropFiles(page, [big]);
   assert.equal(await waitStatus(page, ['done', 'error'], 300000), 'done');
   const ms = Date.now() - t0;
+  const stages = await page.evaluate((p0) => window.stages.map(([s, t]) => `${s.split(';')[0]} at ${((t - p0) / 1000).toFixed(1)} s`).join(', '), p0);
+  console.log('# stages: ' + stages);
   const n = await page.evaluate(() => window.sagitta.results.images[0].measurements.length);
   await page.waitForTimeout(500);
   const longest = await page.evaluate(() => Math.max(0, ...window.longTasks));
