@@ -161,6 +161,9 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	if nEdges == 0 {
 		img.Warnings = append(img.Warnings, "no measurable edge was found in this photo, only sine patterns")
 	}
+	if img.Summary, err = field.Summarise(geo, fieldPoints(img.Measurements), freqs); err != nil {
+		return nil, err
+	}
 	progress(StageSumming, 1)
 	return img, nil
 }

@@ -44,6 +44,10 @@ type Image struct {
 	Stars     []StarInfo    `json:"stars"`
 	Gratings  []GratingInfo `json:"gratings"`
 	Agreement *Agreement    `json:"agreement"`
+
+	// Summary describes sharpness across the frame (field curves, MTF50
+	// map, astigmatism, balance); see field.Summary.
+	Summary *field.Summary `json:"summary"`
 }
 
 // Measurement is one measured target (one edge, or one orientation of a

@@ -31,6 +31,7 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 		asCSV    = fs.Bool("csv", false, "print one CSV row per measurement")
 		workers  = fs.Int("workers", 0, "measurements in parallel (default: one per CPU)")
 		maxPixel = fs.Int("max-pixels", 0, "refuse photos larger than this many pixels (default 120000000)")
+		plots    = fs.String("plots", "", "also write the plots of each photo as SVG and PNG into this folder")
 	)
 	fs.Float64Var(&s.PitchUM, "pitch-um", 0, "pixel pitch in micrometres (else from --sensor or the photo's Exif)")
 	fs.StringVar(&s.Tone, "tone", "", "tone curve of the files: srgb, linear or gamma:G (default: sRGB unless the file says linear)")
@@ -86,6 +87,11 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 			return fmt.Errorf("%s: %v", path, err)
 		}
 		res.Images = append(res.Images, img)
+	}
+	if *plots != "" {
+		if err := writePlots(*plots, res); err != nil {
+			return err
+		}
 	}
 	switch {
 	case *asJSON:

@@ -1,0 +1,99 @@
+package main
+
+import (
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"sagitta/core/analyze"
+	"sagitta/core/plot"
+)
+
+// plotScale is the PNG scale of written plots: two pixels per layout px,
+// sharp on high-density screens and in print.
+const plotScale = 2
+
+// writePlots writes the SVG and PNG of each plot of each photo into dir,
+// creating it if needed: <name>-field-curves, <name>-sharpness-map,
+// <name>-astigmatism, <name>-target-centre and <name>-target-corner (the
+// measured targets nearest to and farthest from the optical centre), and,
+// for two or more photos, field-curves-compared.
+func writePlots(dir string, res analyze.Result) error {
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return fmt.Errorf("cannot create the plot folder: %v", unwrapPath(err))
+	}
+	used := map[string]bool{}
+	var photos []plot.Photo
+	for _, img := range res.Images {
+		if img.Summary == nil {
+			continue
+		}
+		name := plotName(img.File, used)
+		photos = append(photos, plot.Photo{Label: img.File, Summary: img.Summary})
+		figs := []namedFigure{
+			{"field-curves", plot.FieldCurves(img.Summary, plot.FieldOptions{Label: img.File, Band: true})},
+			{"sharpness-map", plot.Map(img.Summary, plot.MapOptions{Label: img.File})},
+			{"astigmatism", plot.Astigmatism(img.Summary, plot.FieldOptions{Label: img.File, Band: true})},
+		}
+		// Measurements come sorted by image height: the first is the
+		// centre-most, the last the corner-most.
+		if n := len(img.Measurements); n > 0 {
+			figs = append(figs, namedFigure{"target-centre", plot.Target(plot.TargetFromMeasurement(img.Measurements[0], img), plot.TargetOptions{})})
+			if n > 1 {
+				figs = append(figs, namedFigure{"target-corner", plot.Target(plot.TargetFromMeasurement(img.Measurements[n-1], img), plot.TargetOptions{})})
+			}
+		}
+		for _, fg := range figs {
+			if err := writeFigure(dir, name+"-"+fg.suffix, fg.f); err != nil {
+				return err
+			}
+		}
+	}
+	if len(photos) > 1 {
+		return writeFigure(dir, plotName("field-curves-compared", used), plot.Compare(photos, plot.CompareOptions{}))
+	}
+	return nil
+}
+
+// namedFigure is a plot and the suffix of its file names.
+type namedFigure struct {
+	suffix string
+	f      *plot.Figure
+}
+
+// writeFigure writes base.svg and base.png in dir.
+func writeFigure(dir, base string, f *plot.Figure) error {
+	png, err := f.PNG(plotScale)
+	if err != nil {
+		return fmt.Errorf("cannot draw %s: %v", base, err)
+	}
+	for ext, data := range map[string][]byte{".svg": f.SVG(), ".png": png} {
+		if err := os.WriteFile(filepath.Join(dir, base+ext), data, 0o644); err != nil {
+			return fmt.Errorf("cannot write %s: %v", base+ext, unwrapPath(err))
+		}
+	}
+	return nil
+}
+
+// plotName turns a photo's file name into a plain, unique base name: the
+// name without its extension, with characters other than letters, digits,
+// '-', '_' and '.' replaced by '_', and a number added if it is taken.
+func plotName(file string, used map[string]bool) string {
+	base := strings.TrimSuffix(file, filepath.Ext(file))
+	b := []byte(base)
+	for i, c := range b {
+		if !(c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9' || c == '-' || c == '_' || c == '.') {
+			b[i] = '_'
+		}
+	}
+	name := string(b)
+	if name == "" {
+		name = "photo"
+	}
+	for i := 2; used[name]; i++ {
+		name = fmt.Sprintf("%s-%d", string(b), i)
+	}
+	used[name] = true
+	return name
+}

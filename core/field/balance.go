@@ -1,0 +1,324 @@
+package field
+
+import (
+	"fmt"
+	"math"
+	"strings"
+)
+
+// OuterFraction sets where the balance check looks: at image heights of at
+// least OuterFraction times the corner height, where decentring and tilt
+// show (near the centre every part of the frame is about equally sharp).
+const OuterFraction = 0.4
+
+// MinSidePoints is the fewest measurements a part of the frame needs at one
+// frequency for the balance check to compare it.
+const MinSidePoints = 4
+
+// Verdicts of the balance check.
+const (
+	VerdictBalanced   = "balanced"
+	VerdictUnbalanced = "unbalanced"
+	VerdictTooFew     = "not enough measurements"
+)
+
+// Balance compares opposite parts of the frame at matched image height:
+// left and right halves, top and bottom halves, and the two pairs of
+// diagonally opposite quarters.
+//
+// Matching heights: each measurement's residual from the whole frame's
+// field curve of its own orientation (at each frequency) says how much
+// sharper (positive) or softer it is than the frame's average at its
+// height. The difference between two parts is the difference of their mean
+// residuals over the outer field (heights >= FromHeightMM). Pooling the
+// sagittal and tangential residuals amounts to comparing the average of the
+// two orientations; a decentred or tilted lens softens both on one side.
+// Its standard error comes from the scatter of the residuals in each part
+// (Welch: SE = sqrt(s_A^2/n_A + s_B^2/n_B)), so it includes the spread
+// between repeated edges at one height. Measurements the field curve
+// treated as outliers (robustness weight 0) are left out.
+//
+// A difference is reported only when it exceeds both NotableSE standard
+// errors and NotableGap; otherwise the parts are called balanced.
+// Measurements near the dividing line dilute a difference but do not bias
+// its sign.
+type Balance struct {
+	// Verdict is "balanced", "unbalanced" or "not enough measurements".
+	Verdict string `json:"verdict"`
+	// Text says it in words first and numbers second.
+	Text string `json:"text"`
+	// Caution is the set-up caution that belongs with this verdict.
+	Caution string `json:"caution"`
+	// FromHeightMM is where the compared outer field begins, mm.
+	FromHeightMM float64 `json:"from_height_mm"`
+	// Pairs are the four comparisons.
+	Pairs []BalancePair `json:"pairs"`
+	// Quarters gives each quarter of the frame's offset from the whole
+	// frame's curves, for a picture of where the softness lies.
+	Quarters []PartOffset `json:"quarters"`
+
+	score float64 // of the pair quoted in a balanced Text
+}
+
+// BalancePair compares two opposite parts of the frame.
+type BalancePair struct {
+	// A and B name the parts ("left", "right", "top", "bottom",
+	// "top-left", ...). Differences are A minus B.
+	A string `json:"a"`
+	B string `json:"b"`
+	// ByFreq holds the comparison at each field frequency.
+	ByFreq []PairDiff `json:"by_freq"`
+	// Verdict and Text as for Balance.
+	Verdict string `json:"verdict"`
+	Text    string `json:"text"`
+}
+
+// PairDiff is the difference between two parts at one frequency.
+type PairDiff struct {
+	FreqLPMM float64 `json:"freq_lp_mm"`
+	// Diff is A's mean residual minus B's (positive: A sharper), MTF.
+	Diff Number `json:"diff"`
+	// SE is the standard error of Diff.
+	SE Number `json:"se"`
+	// NA and NB are the measurements behind each side.
+	NA int `json:"n_a"`
+	NB int `json:"n_b"`
+	// Notable is true when |Diff| exceeds NotableSE * SE and NotableGap.
+	Notable bool `json:"notable"`
+}
+
+// PartOffset is one part's mean residual from the frame's curves.
+type PartOffset struct {
+	Part   string       `json:"part"`
+	ByFreq []MeanOffset `json:"by_freq"`
+}
+
+// MeanOffset is a mean residual with its standard error and count.
+type MeanOffset struct {
+	FreqLPMM float64 `json:"freq_lp_mm"`
+	Offset   Number  `json:"offset"`
+	SE       Number  `json:"se"`
+	N        int     `json:"n"`
+}
+
+// balanceCaution goes with every balance verdict.
+const balanceCaution = "A chart that is not parallel to the sensor, or focus set on one side, softens one side of the frame just as a decentred lens does. Turn the camera by 180 degrees and shoot again: a lens fault turns with the camera, a set-up fault stays put."
+
+// part is a named region of the frame relative to the optical centre.
+type part struct {
+	name string
+	in   func(dx, dy float64) bool
+}
+
+var (
+	left        = part{"left", func(dx, dy float64) bool { return dx < 0 }}
+	right       = part{"right", func(dx, dy float64) bool { return dx > 0 }}
+	top         = part{"top", func(dx, dy float64) bool { return dy < 0 }}
+	bottom      = part{"bottom", func(dx, dy float64) bool { return dy > 0 }}
+	topLeft     = part{"top-left", func(dx, dy float64) bool { return dx < 0 && dy < 0 }}
+	topRight    = part{"top-right", func(dx, dy float64) bool { return dx > 0 && dy < 0 }}
+	bottomLeft  = part{"bottom-left", func(dx, dy float64) bool { return dx < 0 && dy > 0 }}
+	bottomRight = part{"bottom-right", func(dx, dy float64) bool { return dx > 0 && dy > 0 }}
+)
+
+// residual is one outer-field measurement's residual at one frequency.
+type residual struct{ dx, dy, e float64 }
+
+// balance runs the balance check.
+func balance(geo Geometry, pts []Point, fs *fitSet, freqs []float64) Balance {
+	b := Balance{FromHeightMM: OuterFraction * geo.CornerMM(), Caution: balanceCaution, Pairs: []BalancePair{}, Quarters: []PartOffset{}}
+	res := make([][]residual, len(freqs))
+	for k := range freqs {
+		for o := range orientations {
+			f := fs.mtf[o][k]
+			if f == nil {
+				continue
+			}
+			for i, p := range pts {
+				j := fs.pos[o][k][i]
+				if j < 0 || p.HeightMM < b.FromHeightMM || f.sm.rw[j] == 0 {
+					continue
+				}
+				res[k] = append(res[k], residual{p.X - geo.CenterX, p.Y - geo.CenterY, f.sm.y[j] - f.sm.fit[j]})
+			}
+		}
+	}
+	for _, pr := range [][2]part{{left, right}, {top, bottom}, {topLeft, bottomRight}, {topRight, bottomLeft}} {
+		bp := BalancePair{A: pr[0].name, B: pr[1].name, ByFreq: []PairDiff{}}
+		for k, f := range freqs {
+			ma, sa, na := meanSE(res[k], pr[0])
+			mb, sb, nb := meanSE(res[k], pr[1])
+			d := PairDiff{FreqLPMM: f, NA: na, NB: nb, Diff: Number(math.NaN()), SE: Number(math.NaN())}
+			if na >= MinSidePoints && nb >= MinSidePoints {
+				diff, se := ma-mb, math.Hypot(sa, sb)
+				d.Diff, d.SE = Number(diff), Number(se)
+				d.Notable = math.Abs(diff) > NotableSE*se && math.Abs(diff) >= NotableGap
+			}
+			bp.ByFreq = append(bp.ByFreq, d)
+		}
+		bp.Verdict, bp.Text = pairText(bp)
+		b.Pairs = append(b.Pairs, bp)
+	}
+	for _, q := range []part{topLeft, topRight, bottomLeft, bottomRight} {
+		po := PartOffset{Part: q.name, ByFreq: []MeanOffset{}}
+		for k, f := range freqs {
+			m, se, n := meanSE(res[k], q)
+			if n < 2 {
+				m, se = math.NaN(), math.NaN()
+			}
+			po.ByFreq = append(po.ByFreq, MeanOffset{FreqLPMM: f, Offset: Number(m), SE: Number(se), N: n})
+		}
+		b.Quarters = append(b.Quarters, po)
+	}
+
+	// The card leads with the most telling comparison; others that agree
+	// follow in a few words.
+	var worst *BalancePair
+	var also []string
+	anyOK := false
+	for i := range b.Pairs {
+		p := &b.Pairs[i]
+		switch p.Verdict {
+		case VerdictUnbalanced:
+			if worst == nil || leadScore(*p) > leadScore(*worst) {
+				worst = p
+			}
+		case VerdictBalanced:
+			anyOK = true
+			if worst == nil && (b.Text == "" || pairScore(*p) > b.score) {
+				b.Text, b.score = p.Text, pairScore(*p)
+			}
+		}
+	}
+	switch {
+	case worst != nil:
+		b.Verdict = VerdictUnbalanced
+		b.Text = worst.Text
+		for _, p := range b.Pairs {
+			if p.Verdict == VerdictUnbalanced && p.A != worst.A {
+				d := p.ByFreq[bestFreq(p)]
+				soft := p.A
+				if d.Diff > 0 {
+					soft = p.B
+				}
+				also = append(also, fmt.Sprintf("%s %s by %.2f at %s lp/mm", soft, area(p.A), math.Abs(float64(d.Diff)), fmtNum(d.FreqLPMM)))
+			}
+		}
+		if len(also) > 0 {
+			b.Text += " Also softer: " + strings.Join(also, "; ") + "."
+		}
+	case anyOK:
+		b.Verdict = VerdictBalanced
+		b.Text = "Opposite sides of the frame are equally sharp at matched image heights. " + b.Text
+	default:
+		b.Verdict = VerdictTooFew
+		b.Text = fmt.Sprintf("Not enough measurements beyond %.1f mm from the centre to compare opposite sides of the frame (at least %d per side are needed).", b.FromHeightMM, MinSidePoints)
+	}
+	return b
+}
+
+// meanSE returns the mean of the residuals in part p, its standard error
+// (sample standard deviation / sqrt(n)) and their number.
+func meanSE(rs []residual, p part) (mean, se float64, n int) {
+	var sum, sum2 float64
+	for _, r := range rs {
+		if p.in(r.dx, r.dy) {
+			n++
+			sum += r.e
+		}
+	}
+	if n == 0 {
+		return math.NaN(), math.NaN(), 0
+	}
+	mean = sum / float64(n)
+	for _, r := range rs {
+		if p.in(r.dx, r.dy) {
+			sum2 += (r.e - mean) * (r.e - mean)
+		}
+	}
+	if n < 2 {
+		return mean, math.NaN(), n
+	}
+	return mean, math.Sqrt(sum2 / float64(n-1) / float64(n)), n
+}
+
+// pairScore is how telling a comparison is: its largest difference over
+// the threshold for reporting it (1 = just notable).
+func pairScore(bp BalancePair) float64 {
+	i := bestFreq(bp)
+	if i < 0 {
+		return -1
+	}
+	d := bp.ByFreq[i]
+	return math.Abs(float64(d.Diff)) / math.Max(NotableSE*float64(d.SE), NotableGap)
+}
+
+// leadScore ranks unbalanced comparisons for the lead sentence: halves
+// first, because a tilt towards one side shows in both diagonal pairs of
+// quarters as well; a pair of quarters leads only when its score is over
+// 1.4 times (about sqrt 2, the ratio for a purely diagonal tilt) that of
+// the halves.
+func leadScore(bp BalancePair) float64 {
+	if area(bp.A) == "quarter" {
+		return pairScore(bp) / 1.4
+	}
+	return pairScore(bp)
+}
+
+// bestFreq returns the index of the frequency whose difference is largest
+// relative to its threshold, or -1 if none could be compared.
+func bestFreq(bp BalancePair) int {
+	best, score := -1, -1.0
+	for i, d := range bp.ByFreq {
+		if !finite(float64(d.Diff)) {
+			continue
+		}
+		s := math.Abs(float64(d.Diff)) / math.Max(NotableSE*float64(d.SE), NotableGap)
+		if s > score {
+			best, score = i, s
+		}
+	}
+	return best
+}
+
+// area names the kind of part: "half" or "quarter".
+func area(name string) string {
+	if strings.Contains(name, "-") {
+		return "quarter"
+	}
+	return "half"
+}
+
+// pairText words one comparison: the verdict, then the numbers of the most
+// telling frequency.
+func pairText(bp BalancePair) (verdict, text string) {
+	best := bestFreq(bp)
+	if best < 0 {
+		return VerdictTooFew, fmt.Sprintf("Too few measurements to compare %s and %s.", bp.A, bp.B)
+	}
+	d := bp.ByFreq[best]
+	diff, se := float64(d.Diff), float64(d.SE)
+	nums := fmt.Sprintf("%.3f +/- %.3f, one standard error; %d measurements %s, %d %s",
+		math.Abs(diff), se, d.NA, bp.A, d.NB, bp.B)
+	if d.Notable {
+		soft, sharp := bp.A, bp.B
+		if diff > 0 {
+			soft, sharp = bp.B, bp.A
+		}
+		return VerdictUnbalanced, fmt.Sprintf("%s %s softer than the %s towards the edge of the frame, by %.2f at %s lp/mm, more than the spread between edges explains (%s).",
+			capitalise(soft), area(bp.A), sharp, math.Abs(diff), fmtNum(d.FreqLPMM), nums)
+	}
+	why := "within the spread between edges"
+	if math.Abs(diff) > NotableSE*se {
+		why = fmt.Sprintf("below %.2f, too small to matter", NotableGap)
+	}
+	return VerdictBalanced, fmt.Sprintf("%s and %s %ss match: the largest difference, %.2f at %s lp/mm, is %s (%s).",
+		capitalise(bp.A), bp.B, area(bp.A), math.Abs(diff), fmtNum(d.FreqLPMM), why, nums)
+}
+
+func capitalise(s string) string {
+	if s == "" {
+		return s
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
+}
