@@ -9,6 +9,7 @@ import { renderResult, refreshUnits, outcome } from './results.js';
 import { saveBlob } from './plot.js';
 import { renderCompare } from './compare.js';
 import { renderPrint } from './print.js';
+import { setPalette } from './colour.js';
 import { fmtFNumber } from './units.js';
 
 const $ = (id) => document.getElementById(id);
@@ -531,6 +532,7 @@ function boot() {
   started = engine().then(async (pool) => {
     state.pool = pool;
     state.functions = await pool.warm();
+    if (state.functions.has('palette')) setPalette(await pool.call('palette'));
     $('demo-button').hidden = !state.functions.has('demo');
     $('tab-print').hidden = !state.functions.has('chart');
     if (state.functions.has('chart')) {

@@ -1,13 +1,14 @@
-// Sagitta's own colours. The sharpness scale runs from a deep blue (soft)
-// to a pale yellow (sharp) through teal and green: its lightness rises
-// steadily, so it reads in grey and to people with red-green colour
-// blindness, whose vision keeps the blue-yellow axis. The two orientations
-// are told apart by an orange and a violet, far apart for every common kind
-// of colour blindness; photos in a comparison get distinct hues that also
-// differ in lightness.
+// Sagitta's colours. They are defined once, in the core (core/plot,
+// colour.go: orientation by hue, photos by a categorical palette, sharpness
+// by a sequential scale designed in OKLab whose lightness rises steadily, so
+// it reads in grey and with the common colour-vision deficiencies), and
+// handed to the page at start by setPalette (the core's sagittaPalette), so
+// that the page and the exported plots speak the same visual code. The
+// values below only stand in until then.
 
-// Stops of the sharpness scale, soft to sharp (sRGB hex).
-const STOPS = ['#1d2b5a', '#25548a', '#1f8a99', '#4fb381', '#a7d36a', '#f4ec8c'];
+// Stops of the sharpness scale, soft to sharp (sRGB hex), close together so
+// that interpolating between them in sRGB stays on the core's scale.
+let STOPS = ['#1d2b5a', '#25548a', '#1f8a99', '#4fb381', '#a7d36a', '#f4ec8c'];
 
 /** SCALE_MAX_CY_PX is the top of the sharpness scale: the Nyquist frequency. */
 export const SCALE_MAX_CY_PX = 0.5;
@@ -35,14 +36,24 @@ export function scaleGradient() {
 }
 
 /** ORIENTATION colours: sagittal and tangential (and mixed, in grey). */
-export const ORIENTATION = Object.freeze({
-  sagittal: '#c25e00',
-  tangential: '#6a45b5',
-  mixed: '#6f6f6f',
-});
+export const ORIENTATION = {
+  sagittal: '#a36200',
+  tangential: '#5e3a9a',
+  mixed: '#707070',
+};
 
 /** PHOTO colours for comparisons, in order of use. */
-export const PHOTO = Object.freeze(['#1f5fa6', '#d08a00', '#8e3b8f', '#2e8b57', '#b03a48', '#4d4d4d', '#0f8b8d', '#8a6d3b']);
+export const PHOTO = ['#213f8f', '#c25a00', '#23806e', '#9c3c8c', '#3d3d3d', '#6a91d4'];
+
+/**
+ * setPalette takes the core's colours: {sagittal, tangential, mixed,
+ * photos: [...], scale: [soft ... sharp]} (sRGB hex).
+ */
+export function setPalette(p) {
+  Object.assign(ORIENTATION, { sagittal: p.sagittal, tangential: p.tangential, mixed: p.mixed });
+  PHOTO.splice(0, PHOTO.length, ...p.photos);
+  if (p.scale && p.scale.length >= 2) STOPS = [...p.scale];
+}
 
 function hex(h) {
   return [1, 3, 5].map((i) => parseInt(h.slice(i, i + 2), 16));

@@ -22,7 +22,7 @@
 //       cannot display).
 //
 //   {type: "call", id, fn, args}
-//       Run one of the core's other functions (fn: "csv", "json", "plot", "chart",
+//       Run one of the core's other functions (fn: "csv", "json", "plot", "palette", "chart",
 //       "plan", "demo"; see CALLS in worker.js); args: an array of strings
 //       or numbers. Quick jobs, queued ahead of photos.
 //
@@ -71,7 +71,7 @@ export const FROM_WORKER = Object.freeze({
 });
 
 /** Functions a "call" message may name (see CALLS in worker.js). */
-export const CALLS = Object.freeze(['csv', 'json', 'plot', 'chart', 'plan', 'demo']);
+export const CALLS = Object.freeze(['csv', 'json', 'plot', 'palette', 'chart', 'plan', 'demo']);
 
 /**
  * analyzeMessage builds an "analyze" message and its transfer list.

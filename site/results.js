@@ -422,7 +422,7 @@ function renderFrame() {
   frame.append(el('p', { class: 'hint' }, 'Each mark is one measured target, at its distance from the optical centre. ' +
     'Sagittal targets are measured across the radius from the centre, tangential ones along it.'));
   if (r.summary) {
-    renderSummary(frame, r, units);
+    renderSummary(frame, r, units, state.pool, labelOf(current.p));
     return;
   }
   const grid = el('div', { class: 'frame-grid' });

@@ -1,26 +1,27 @@
 // A measuring worker: one instance of Sagitta's Go core (WebAssembly) that
 // runs one job at a time. The messages are described in protocol.js.
 //
-// This is a classic worker script. Served by `make run` it loads Go's
-// wasm_exec.js with importScripts; in the single-file page it is started
-// from a Blob that already holds wasm_exec.js in front of this file.
+// This is a classic worker script. It runs from a Blob that holds Go's
+// wasm_exec.js in front of this file (see engine.js and site/pack).
 'use strict';
-
-if (typeof self.Go === 'undefined') importScripts('wasm_exec.js');
 
 // The core's functions reachable through a "call" message, by name. Each
 // takes the message's args and returns {result, transfer}.
 const CALLS = {
   csv: (results) => ({ result: core('sagittaCSV')(results) }),
   json: (results) => ({ result: core('sagittaJSON')(results) }),
-  plot: (kind, data, options) => ({ result: core('sagittaPlot')(kind, data, options) }),
+  plot: (kind, data, options) => {
+    const r = core('sagittaPlot')(kind, data, options);
+    return { result: r, transfer: r.png ? [r.png.buffer] : [] };
+  },
+  palette: () => ({ result: core('sagittaPalette')() }),
   chart: (options, format) => bytesOut(core('sagittaChart')(options, format)),
   plan: (options) => ({ result: core('sagittaPlan')(options) }),
   demo: (reduce) => bytesOut(core('sagittaDemo')(reduce)),
 };
 
 // The core's global names behind each call.
-const CORE_NAMES = { csv: 'sagittaCSV', json: 'sagittaJSON', plot: 'sagittaPlot', chart: 'sagittaChart', plan: 'sagittaPlan', demo: 'sagittaDemo' };
+const CORE_NAMES = { csv: 'sagittaCSV', json: 'sagittaJSON', plot: 'sagittaPlot', palette: 'sagittaPalette', chart: 'sagittaChart', plan: 'sagittaPlan', demo: 'sagittaDemo' };
 
 let started = null; // promise of the running Go instance
 let go = null;

@@ -18,8 +18,8 @@ import (
 )
 
 // Served is the policy of the page served by `make run`: scripts and styles
-// only from the page's own origin.
-const Served = "default-src 'none'; script-src 'self' 'wasm-unsafe-eval'; worker-src 'self' blob:; " +
+// only from the page's own origin, workers from Blob URLs.
+const Served = "default-src 'none'; script-src 'self' 'wasm-unsafe-eval'; worker-src blob:; " +
 	"connect-src 'none'; img-src 'self' blob: data:; style-src 'self' 'unsafe-inline'; " +
 	"base-uri 'none'; form-action 'none'"
 

@@ -126,6 +126,11 @@ test('a dropped photo gives the command-line tool\'s JSON and CSV, with no netwo
   await page.click('#settings summary');
   await page.selectOption('#units', 'lwph');
   assert.match(await page.textContent('.key'), /LW\/PH/);
+  await page.waitForFunction(() => !document.querySelector('[aria-busy="true"]'));
+
+  // Still no request after all that (plots drawn, exports made, the pool grown),
+  // except the offline copy the user asked to download.
+  assert.deepEqual(requests.network(settled).map((r) => r.url).filter((u) => !u.endsWith('/sagitta.html')), []);
   assert.deepEqual(errors, []);
   await context.close();
 });
