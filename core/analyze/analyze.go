@@ -146,8 +146,17 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 		}
 		img.Measurements = append(img.Measurements, record(r.m, c.Region, geo, freqs))
 	}
-	nEdges := len(img.Measurements)
 	img.Measurements = append(img.Measurements, pats.records(img, geo, freqs)...)
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	recogniseChart(dec, img) // tags measurements on Sagitta's chart (chart.go)
+	nEdges := 0
+	for _, m := range img.Measurements {
+		if m.Kind == "edge" {
+			nEdges++
+		}
+	}
 	sort.SliceStable(img.Measurements, func(a, b int) bool {
 		return img.Measurements[a].HeightMM < img.Measurements[b].HeightMM
 	})

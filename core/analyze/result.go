@@ -48,6 +48,9 @@ type Image struct {
 	// Summary describes sharpness across the frame (field curves, MTF50
 	// map, astigmatism, balance); see field.Summary.
 	Summary *field.Summary `json:"summary"`
+
+	// Chart is set when the photo shows Sagitta's printed chart (chart.go).
+	Chart *ChartResult `json:"chart,omitempty"`
 }
 
 // Measurement is one measured target (one edge, or one orientation of a
@@ -87,6 +90,17 @@ type Measurement struct {
 	MeasuredCyPx *[2]float64    `json:"measured_cy_px,omitempty"` // frequencies actually measured; outside, freq_cy_px holds no data
 	StdErr       []float64      `json:"mtf_std_err,omitempty"`    // standard error of each mtf value
 	Agreement    *StarAgreement `json:"agreement,omitempty"`      // stars: against nearby edges
+
+	// On Sagitta's chart (chart.go): the target's id ("sq12", "star0"), the
+	// square's edge (1..4; see chart.Square), and the target centre's
+	// designed position, in chart units (the chart's short side is 1,
+	// origin at its centre) and as a fraction of the way from the chart's
+	// centre to its corner. Grating records, which group several gratings,
+	// are not tagged; Chart.Patterns names each grating's target.
+	TargetID   string      `json:"target_id,omitempty"`
+	TargetEdge int         `json:"target_edge,omitempty"`
+	ChartXY    *[2]float64 `json:"chart_xy,omitempty"`
+	ChartField *float64    `json:"chart_field,omitempty"`
 }
 
 // Rejected is a candidate that was not measured or whose measurement was

@@ -3,6 +3,8 @@
 // web page.
 //
 //	sagitta analyze --pitch-um 6 [--json|--csv] photo.jpg ...
+//	sagitta chart --paper A4 --dpi 600 -o chart.pdf
+//	sagitta plan --focal-mm 50 --sensor 36x24 --paper A3
 //
 // Run "sagitta help" for every command and option. Errors are printed as one
 // line on stderr and the exit status is non-zero.
@@ -22,7 +24,9 @@ const usage = `sagitta: measure lens sharpness (MTF) from photos of edges and ch
 
 commands:
   analyze   measure every usable edge and sine pattern in photos and summarise them over the frame
+  chart     draw the printable test chart for your sheet and printer (PDF, SVG or PNG)
   demo      write the built-in demo photo (a simulated lens and camera of our own)
+  plan      how far to stand for your lens and camera, and whether the print is sharp enough
   help      show this text
 
 run "sagitta COMMAND -h" for the options of a command.
@@ -45,6 +49,10 @@ func run(args []string, stdout, stderr io.Writer) int {
 		err = cmdAnalyze(args[1:], stdout)
 	case "demo":
 		err = cmdDemo(args[1:], stdout)
+	case "chart":
+		err = cmdChart(args[1:], stdout)
+	case "plan":
+		err = cmdPlan(args[1:], stdout)
 	case "help", "-h", "--help":
 		fmt.Fprint(stdout, usage)
 		return 0

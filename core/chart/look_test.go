@@ -1,0 +1,25 @@
+package chart
+
+import (
+	"os"
+	"path/filepath"
+	"testing"
+)
+
+// TestLookWrite writes the A4 and A3 charts (3:2) as PDF to $CHART_LOOK for
+// inspection, e.g. with pdftoppm (skipped unless CHART_LOOK is set).
+func TestLookWrite(t *testing.T) {
+	dir := os.Getenv("CHART_LOOK")
+	if dir == "" {
+		t.Skip("set CHART_LOOK=dir to write charts for inspection")
+	}
+	for name, opt := range map[string]Options{"a4": {}, "a3": {Paper: "A3"}} {
+		b, err := Render(opt, "pdf")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, name+".pdf"), b, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+}

@@ -1,0 +1,96 @@
+package main
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"sagitta/core/chart"
+)
+
+// chartFlags registers the chart options shared by "chart" and "plan" and
+// returns a function that reads them into a chart.Options.
+func chartFlags(fs *flag.FlagSet) func() (chart.Options, error) {
+	var (
+		paper    = fs.String("paper", "A4", "sheet: "+strings.Join(chart.PaperNames(), ", ")+", or a size in mm as WxH (e.g. 300x400)")
+		orient   = fs.String("orientation", "landscape", "landscape (the chart is wider than tall) or portrait (for a camera held upright)")
+		aspect   = fs.String("aspect", "", "chart shape to match the camera's sensor: 3:2, 4:3, 16:9 or 1:1 (default 3:2)")
+		margin   = fs.Float64("margin-mm", 0, "blank border on every side of the sheet, mm (default 10)")
+		dpi      = fs.Float64("dpi", 0, "printer resolution, dots per inch (default 600)")
+		contrast = fs.String("contrast", "4:1", "4:1 (dark parts reflect a quarter of the paper's light) or high (black ink)")
+		ruler    = fs.Float64("ruler-measured-mm", 0, "length you measured on a printout of the 100 mm ruler; the chart is redrawn so it prints at 100 mm")
+	)
+	return func() (chart.Options, error) {
+		o := chart.Options{Paper: *paper, Orientation: *orient, Aspect: *aspect, MarginMM: *margin, DPI: *dpi,
+			Contrast: *contrast, RulerMM: *ruler}
+		if strings.ContainsAny(*paper, "xX") && !strings.EqualFold(*paper, "tabloid") {
+			wh, err := pair(*paper, "x")
+			if err != nil {
+				return o, fmt.Errorf("--paper: %v", err)
+			}
+			o.Paper, o.PaperMM = "custom", wh
+		}
+		return o, nil
+	}
+}
+
+func cmdChart(args []string, stdout io.Writer) error {
+	fs := flag.NewFlagSet("chart", flag.ContinueOnError)
+	fs.SetOutput(stdout)
+	read := chartFlags(fs)
+	out := fs.String("o", "", "output file; the format follows the extension: .pdf, .svg or .png (required)")
+	fs.Usage = func() {
+		fmt.Fprintln(stdout, "usage: sagitta chart [options] -o chart.pdf|chart.svg|chart.png")
+		fmt.Fprintln(stdout, "Draws the printable test chart for your sheet and printer. Print it at 100 % (no fit to page),")
+		fmt.Fprintln(stdout, "measure the 100 mm ruler, and if it is off, draw again with --ruler-measured-mm.")
+		fs.PrintDefaults()
+	}
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return errHelp
+		}
+		return fmt.Errorf("%w: %v", errUsage, err)
+	}
+	if fs.NArg() > 0 {
+		return fmt.Errorf("%w: unexpected argument %q (options come before nothing else; use -o FILE)", errUsage, fs.Arg(0))
+	}
+	if *out == "" {
+		return fmt.Errorf("%w: chart needs an output file: -o chart.pdf (or .svg, .png)", errUsage)
+	}
+	ext := strings.ToLower(strings.TrimPrefix(filepath.Ext(*out), "."))
+	switch ext {
+	case chart.FormatPDF, chart.FormatSVG, chart.FormatPNG:
+	default:
+		return fmt.Errorf("%w: cannot tell the format of %q: end the name in .pdf, .svg or .png", errUsage, *out)
+	}
+	opt, err := read()
+	if err != nil {
+		return fmt.Errorf("%w: %v", errUsage, err)
+	}
+	l, err := chart.NewLayout(opt)
+	if err != nil {
+		return err
+	}
+	b, err := l.Render(ext)
+	if err != nil {
+		return err
+	}
+	if err := os.WriteFile(*out, b, 0o644); err != nil {
+		return fmt.Errorf("cannot write %s: %v", *out, unwrapPath(err))
+	}
+	w, h := l.ChartMM()
+	orient := "landscape"
+	if l.Portrait {
+		orient = "portrait"
+	}
+	fmt.Fprintf(stdout, "wrote %s: %s %s, chart %s (%.1f x %.1f mm), %g dpi\n", *out, l.Paper, orient, l.Design.Code, w, h, l.DPI)
+	fmt.Fprintln(stdout, "Print at 100 % (no fit to page) and measure the 100 mm ruler; if it is off, run again with --ruler-measured-mm.")
+	for _, n := range l.Notes() {
+		fmt.Fprintln(stdout, "Note: "+n)
+	}
+	return nil
+}
