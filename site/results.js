@@ -90,6 +90,7 @@ export function renderResult(sec, p, state, display) {
     viewer.setPhoto(blankCanvas(r.width, r.height), r.width, r.height, Math.max(1, r.width / 64));
   }
   viewer.setTargets(r.measurements, r.rejected, colourOf, (m) => targetLabel(m, r, state.units));
+  if (r.chart) viewer.setMarks(r.chart.marks);
   left.append(targetTable(r, state.units));
   if (r.rejected.length) left.append(setAsideList(r, viewer));
   const map = mapFigure(r, display);
@@ -481,10 +482,37 @@ function renderAbout(about, r) {
   row('Size', `${r.width} × ${r.height} px, ${r.bit_depth}-bit ${r.format.toUpperCase()}`);
   if (!dl.childElementCount) dl.append(el('dd', {}, 'The file carries no camera data (Exif).'));
   a.append(dl);
+  if (r.chart) about.append(chartBox(r));
   const b = el('div');
   b.append(el('h3', {}, 'Settings used'));
   b.append(el('p', { id: 'report-settings' }, settingsSummary(r)));
   about.append(a, b);
+}
+
+// chartBox says what the analysis learnt from Sagitta's chart in the photo:
+// which chart, how many of its edges were measured, and the set-up checks.
+function chartBox(r) {
+  const c = r.chart;
+  const st = c.setup;
+  const box = el('div', { class: 'chart-found' });
+  box.append(el('h3', {}, 'The chart in this photo'));
+  box.append(el('p', {}, `Sagitta chart ${c.code}: ${c.edges_identified} of its ${c.edges_expected} edges found and tied to their places on the sheet.`));
+  const dl = el('dl');
+  const row = (k, v) => dl.append(el('dt', {}, k), el('dd', {}, v));
+  row('Frame covered', `${fmt(st.frame_covered_pct, 0)} % by the chart; ${fmt(st.chart_visible_pct, 0)} % of the chart in the photo`);
+  row('Turned', `${fmt(st.rotation_deg, 1)}°`);
+  row('Keystone', `${fmt(st.keystone_left_right_pct, 1)} % left to right, ${fmt(st.keystone_top_bottom_pct, 1)} % top to bottom`);
+  row('Off centre', `${fmt(st.off_centre_pct, 1)} % of the shorter side`);
+  if (st.tilt_deg) row('Tilt', `${fmt(st.tilt_deg, 1)}° between the chart and the camera's axis`);
+  box.append(dl);
+  if (st.warnings && st.warnings.length) {
+    const ul = el('ul', { class: 'setup-warnings' });
+    for (const w of st.warnings) ul.append(el('li', {}, w));
+    box.append(ul);
+  } else {
+    box.append(el('p', { class: 'hint' }, 'The set-up checks passed: the camera faced the chart squarely and the chart filled the frame.'));
+  }
+  return box;
 }
 
 function cautions(r) {

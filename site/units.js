@@ -55,7 +55,8 @@ export function fmtFreq(v, unit, img, withLabel = true) {
 
 /** fmt formats a plain number with d decimals, or "n/a". */
 export function fmt(v, d = 2) {
-  return v == null || !Number.isFinite(v) ? 'n/a' : v.toFixed(d);
+  if (v == null || !Number.isFinite(v)) return 'n/a';
+  return (Math.abs(v) < 0.5 * 10 ** -d ? 0 : v).toFixed(d); // no "-0.0"
 }
 
 /** fmtFNumber writes an f-number the usual way ("f/5.6"). */

@@ -69,6 +69,7 @@ export class PhotoViewer {
     this.svg = svgEl('svg', { class: 'viewer-overlay' });
     this.layer = svgEl('g', {}, this.svg);
     this.rejLayer = svgEl('g', { class: 'rejected-layer' }, this.layer);
+    this.markLayer = svgEl('g', { class: 'mark-layer', 'aria-hidden': 'true' }, this.layer);
     this.tgtLayer = svgEl('g', { class: 'target-layer' }, this.layer);
     this.tip = document.createElement('div');
     this.tip.className = 'viewer-tip';
@@ -181,6 +182,13 @@ export class PhotoViewer {
       this.polys.set(m.id, { poly, m });
     }
     this.select(this.selected);
+  }
+
+  /** setMarks rings the chart's recognised marks (image px). */
+  setMarks(marks) {
+    this.markLayer.replaceChildren();
+    const r = Math.max(this.photo ? this.photo.width : 1000, 1000) / 90;
+    for (const m of marks || []) svgEl('circle', { cx: m.x_px, cy: m.y_px, r, class: 'chart-mark' }, this.markLayer);
   }
 
   /** select marks one target as selected (null for none). */

@@ -20,6 +20,10 @@
 //	    the CSV of `sagitta analyze --csv` (analyze.WriteCSV)
 //	sagittaJSON(results string (JSON {"images":[...]})) -> string
 //	    the same document as `sagitta analyze --json` prints it
+//	sagittaPlot(kind, data, options) -> {svg | png, table}, sagittaPalette()
+//	    core/plot's figures and colours (plot.go)
+//	sagittaChart(options, format) -> Uint8Array, sagittaPlan(options) -> string
+//	    the printable chart and the shooting planner (chart.go)
 //	sagittaDemo(reduce number) -> Uint8Array
 //	    the built-in demo photo (core/demo), a JPEG, on a sensor reduced by
 //	    the integer factor reduce (1 = 24 MP; as `sagitta demo -reduce`)

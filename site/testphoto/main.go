@@ -20,6 +20,8 @@ import (
 
 	"golang.org/x/image/tiff"
 
+	sheet "sagitta/core/chart"
+	"sagitta/core/chart/chartsim"
 	"sagitta/core/exif"
 	"sagitta/core/simcam"
 )
@@ -30,18 +32,27 @@ func main() {
 	fnum := flag.Float64("f", 5.6, "f-number written to Exif; the lens gets softer at wider apertures")
 	pitch := flag.Float64("pitch-um", 4.35, "pixel pitch, um (written to Exif as the focal-plane resolution)")
 	seed := flag.Uint64("seed", 1, "noise seed")
+	onChart := flag.Bool("chart", false, "photograph Sagitta's printed chart (3:2, core/chart) instead of the grid of squares, turned 2 degrees away")
 	patterns := flag.Bool("patterns", false, "add a sine star at the centre and a set of sine gratings below it")
 	orient := flag.Int("orientation", 0, "Exif orientation to write (1..8; 0 = none): how a viewer should turn the stored pixels")
 	out := flag.String("o", "photo.jpg", "output file: .jpg, .png or .tif")
 	flag.Parse()
-	if err := run(*w, *h, *fnum, *pitch, *seed, *orient, *patterns, *out); err != nil {
+	if err := run(*w, *h, *fnum, *pitch, *seed, *orient, *patterns, *onChart, *out); err != nil {
 		fmt.Fprintln(os.Stderr, "testphoto: "+err.Error())
 		os.Exit(1)
 	}
 }
 
-func run(w, h int, fnum, pitch float64, seed uint64, orient int, patterns bool, out string) error {
+func run(w, h int, fnum, pitch float64, seed uint64, orient int, patterns, onChart bool, out string) error {
 	scene := chart(w, h)
+	if onChart {
+		d, err := sheet.NewDesign(sheet.Code{Aspect: "3:2"})
+		if err != nil {
+			return err
+		}
+		v := chartsim.View{W: w, H: h, Fill: 0.96, YawDeg: 2, FocalPx: 2 * float64(w)}
+		scene = chartsim.Scene(d, v.Homography(d), chartsim.Print{})
+	}
 	if patterns {
 		addPatterns(&scene, w, h)
 	}
