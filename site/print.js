@@ -98,7 +98,7 @@ function build(root, state) {
   opts.append(customRow);
   opts.append(field('Orientation', select('orientation', [['landscape', 'Landscape (camera level)'], ['portrait', 'Portrait (camera upright)']], update)));
   opts.append(field('Shape', select('aspect', [['3:2', '3:2 (most cameras)'], ['4:3', '4:3'], ['16:9', '16:9'], ['1:1', '1:1']], update), 'Match the sensor so the chart can fill the frame.'));
-  opts.append(field('Contrast', select('contrast', [['4:1', '4:1, grey on white (for edges, recommended)'], ['high', 'High, black on white']], update)));
+  opts.append(field('Contrast', select('contrast', [['4:1', '4:1 grey (edges; recommended)'], ['high', 'High: black on white']], update)));
   opts.append(field('Printer resolution', number('dpi', { min: 100, max: 2880, step: 1 }, update), 'dots per inch'));
   opts.append(field('Margin', number('margin', { min: 3, max: 50, step: 1 }, update), 'mm of blank paper on every side'));
   left.append(opts);
