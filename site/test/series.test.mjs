@@ -62,6 +62,7 @@ test('an aperture series: compare sorted by f-number, rename, printable report',
   const info = run('pdfinfo', [pdf]);
   const pages = +/Pages:\s+(\d+)/.exec(info)[1];
   assert.ok(pages >= 1 && pages <= 6, `report has ${pages} pages`);
+  for (const f of fs.readdirSync(OUT)) if (f.startsWith('24-report-page')) fs.rmSync(path.join(OUT, f));
   run('pdftoppm', ['-png', '-r', '50', pdf, path.join(OUT, '24-report-page')]);
   assert.deepEqual(errors, []);
   await context.close();
