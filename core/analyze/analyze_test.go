@@ -60,7 +60,7 @@ func TestWholePhoto(t *testing.T) {
 		reduce = 2
 	}
 	sc := demo.PortraitSmall(reduce)
-	photo, err := sc.Photo()
+	photo, err := sc.SquaresPhoto()
 	if err != nil {
 		t.Fatal(err)
 	}

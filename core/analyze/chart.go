@@ -1,7 +1,6 @@
 package analyze
 
 import (
-	"math"
 	"sort"
 
 	"sagitta/core/chart"
@@ -31,6 +30,12 @@ type ChartResult struct {
 	// (partly) outside the photo.
 	Missing      []MissingTarget `json:"missing"`
 	OutsideFrame []string        `json:"outside_frame"`
+	// IgnoredOnMarks and IgnoredOnPatterns count the straight runs that
+	// lie on the recognition marks or inside the sine patterns: they are
+	// parts of known chart features, not candidate targets, and are left
+	// out of Image.Rejected.
+	IgnoredOnMarks    int `json:"ignored_on_marks"`
+	IgnoredOnPatterns int `json:"ignored_on_patterns"`
 }
 
 // PatternTarget ties a measured sine pattern to its chart target.
@@ -48,15 +53,10 @@ type MissingTarget struct {
 	Reason   string `json:"reason"`
 }
 
-// Reasons for measurements set aside because of where they lie on the chart.
-const (
-	reasonOnMark = "part of a chart recognition mark, not a target"
-	reasonOnSine = "part of a sine pattern, not an edge"
-)
-
 // recogniseChart looks for Sagitta's chart in the photo. When it is there,
 // it tags every measurement with the target under it, sets aside edge
-// measurements that lie on marks or sine patterns, lists the targets with
+// measurements and rejected runs that lie on marks or sine patterns (they
+// are counted, not listed), lists the targets with
 // no measurement and adds the set-up checks to the warnings. Photos without
 // the chart's marks are left exactly as they were.
 func recogniseChart(dec *decode.Image, img *Image) {
@@ -88,10 +88,10 @@ func recogniseChart(dec *decode.Image, img *Image) {
 		hit := pose.Locate(m.XPx, m.YPx)
 		switch {
 		case m.Kind == "edge" && hit.Kind == chart.HitMark:
-			img.Rejected = append(img.Rejected, rejectOfRegion(m.Region, reasonOnMark))
+			cr.IgnoredOnMarks++
 			continue
 		case m.Kind == "edge" && (hit.Kind == chart.HitStar || hit.Kind == chart.HitGrating):
-			img.Rejected = append(img.Rejected, rejectOfRegion(m.Region, reasonOnSine))
+			cr.IgnoredOnPatterns++
 			continue
 		case m.Kind == "grating":
 			// A grating record groups the gratings of one direction (sine.go);
@@ -106,6 +106,18 @@ func recogniseChart(dec *decode.Image, img *Image) {
 		kept = append(kept, m)
 	}
 	img.Measurements = kept
+	keptRej := img.Rejected[:0]
+	for _, r := range img.Rejected {
+		switch pose.Locate((r.X0+r.X1)/2, (r.Y0+r.Y1)/2).Kind {
+		case chart.HitMark:
+			cr.IgnoredOnMarks++
+		case chart.HitStar, chart.HitGrating:
+			cr.IgnoredOnPatterns++
+		default:
+			keptRej = append(keptRej, r)
+		}
+	}
+	img.Rejected = keptRej
 
 	// Square edges inside the photo with no measurement: the reason of a
 	// rejected candidate on that edge, if any.
@@ -177,17 +189,4 @@ func recogniseChart(dec *decode.Image, img *Image) {
 		}
 	}
 	sort.SliceStable(cr.Missing, func(a, b int) bool { return cr.Missing[a].TargetID < cr.Missing[b].TargetID })
-}
-
-// rejectOfRegion turns a measured region back into a rejected candidate
-// along the region's centre line.
-func rejectOfRegion(c [4][2]float64, reason string) Rejected {
-	// Corners go (-len,-wid), (+len,-wid), (+len,+wid), (-len,+wid): the
-	// centre line runs between the midpoints of the two short sides.
-	x0, y0 := (c[0][0]+c[3][0])/2, (c[0][1]+c[3][1])/2
-	x1, y1 := (c[1][0]+c[2][0])/2, (c[1][1]+c[2][1])/2
-	if math.IsNaN(x0 + y0 + x1 + y1) {
-		x0, y0, x1, y1 = 0, 0, 0, 0
-	}
-	return Rejected{x0, y0, x1, y1, reason}
 }

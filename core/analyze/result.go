@@ -1,10 +1,6 @@
 package analyze
 
 import (
-	"encoding/json"
-	"math"
-	"strconv"
-
 	"sagitta/core/edge"
 	"sagitta/core/exif"
 	"sagitta/core/field"
@@ -113,30 +109,7 @@ type Rejected struct {
 	Reason string  `json:"reason"`
 }
 
-// Number is a float64 that is written to JSON as null when it is not a
-// finite number (an MTF50 beyond the measured range, an infinite SNR of a
-// noise-free simulation).
-type Number float64
-
-// MarshalJSON writes the number, or null for NaN and infinities.
-func (n Number) MarshalJSON() ([]byte, error) {
-	f := float64(n)
-	if math.IsNaN(f) || math.IsInf(f, 0) {
-		return []byte("null"), nil
-	}
-	return strconv.AppendFloat(nil, f, 'g', -1, 64), nil
-}
-
-// UnmarshalJSON reads a number or null (as NaN).
-func (n *Number) UnmarshalJSON(b []byte) error {
-	if string(b) == "null" {
-		*n = Number(math.NaN())
-		return nil
-	}
-	var f float64
-	if err := json.Unmarshal(b, &f); err != nil {
-		return err
-	}
-	*n = Number(f)
-	return nil
-}
+// Number is a float64 written to JSON as null when it is not a finite
+// number (an MTF50 beyond the measured range, an infinite SNR of a
+// noise-free simulation); see field.Number.
+type Number = field.Number

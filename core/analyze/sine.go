@@ -117,6 +117,11 @@ const (
 	// the corner height).
 	nearHeightMM    = 1.0
 	nearHeightShare = 0.1
+	// nearDistShare (of the image diagonal) bounds how far in the frame a
+	// nearby edge may lie from the star, and nearestEdges how many of the
+	// closest count.
+	nearDistShare = 0.2
+	nearestEdges  = 12
 	// patternMarginPx keeps edge candidates this far clear of a pattern.
 	patternMarginPx = 8
 )
@@ -540,12 +545,27 @@ func agreement(img *Image) {
 			img.Stars[si].Records = append(img.Stars[si].Records, m.ID)
 		}
 		star := curve.Curve{Freq: m.Freq, Value: m.MTF}
-		var near []curve.Curve
+		// Nearby edges: same orientation, similar image height, and close
+		// in the frame (a decentred lens differs between the two sides at
+		// equal height), the nearestEdges closest.
+		type cand struct {
+			d float64
+			c curve.Curve
+		}
+		var cs []cand
+		maxDist := nearDistShare * math.Hypot(float64(img.Width), float64(img.Height))
 		for _, e := range img.Measurements {
 			if e.Kind == "edge" && e.Orientation == m.Orientation && m.Orientation != field.Mixed &&
 				math.Abs(e.HeightMM-m.HeightMM) <= hTol {
-				near = append(near, curve.Curve{Freq: e.Freq, Value: e.MTF})
+				if d := math.Hypot(e.XPx-m.XPx, e.YPx-m.YPx); d <= maxDist {
+					cs = append(cs, cand{d, curve.Curve{Freq: e.Freq, Value: e.MTF}})
+				}
 			}
+		}
+		sort.Slice(cs, func(a, b int) bool { return cs[a].d < cs[b].d })
+		var near []curve.Curve
+		for i := 0; i < len(cs) && i < nearestEdges; i++ {
+			near = append(near, cs[i].c)
 		}
 		if len(near) == 0 {
 			continue

@@ -4,6 +4,7 @@ import (
 	"math"
 	"slices"
 
+	"sagitta/core/internal/coarse"
 	"sagitta/core/plane"
 )
 
@@ -24,105 +25,6 @@ type disc struct {
 	dark, light   float64 // linear levels inside the disc and in the gap around it
 }
 
-// reduce returns p box-averaged by the integer factor k (k x k blocks; a
-// partial block at the right or bottom is dropped); coarse continuous
-// coordinate c maps to c*k at full resolution.
-func reduce(p *plane.Plane, k int) *plane.Plane {
-	if k <= 1 {
-		return p
-	}
-	w, h := p.W/k, p.H/k
-	out := plane.New(w, h)
-	inv := 1 / float32(k*k)
-	acc := make([]float32, w)
-	for j := range h {
-		clear(acc)
-		for y := j * k; y < (j+1)*k; y++ {
-			row := p.Pix[y*p.W : y*p.W+w*k]
-			for i := range w {
-				var s float32
-				for _, v := range row[i*k : (i+1)*k] {
-					s += v
-				}
-				acc[i] += s
-			}
-		}
-		for i, v := range acc {
-			out.Pix[j*w+i] = v * inv
-		}
-	}
-	return out
-}
-
-// localLevel returns, per pixel of c, the level between dark and light: the
-// geometric mean of the 5th and 95th percentiles of each tile with contrast
-// (95th over 5th at least 1.5), filled into tiles without contrast from
-// their neighbours, interpolated bilinearly between tile centres.
-func localLevel(c *plane.Plane, tile int) []float32 {
-	tw, th := (c.W+tile-1)/tile, (c.H+tile-1)/tile
-	level := make([]float64, tw*th)
-	known := make([]bool, tw*th)
-	buf := make([]float32, 0, tile*tile)
-	for ty := range th {
-		for tx := range tw {
-			buf = buf[:0]
-			for y := ty * tile; y < min((ty+1)*tile, c.H); y += 2 {
-				buf = append(buf, c.Pix[y*c.W+tx*tile:y*c.W+min((tx+1)*tile, c.W)]...)
-			}
-			slices.Sort(buf)
-			lo, hi := float64(buf[len(buf)*5/100]), float64(buf[len(buf)*95/100])
-			if hi > 0.01 && hi >= 1.5*lo {
-				level[ty*tw+tx] = math.Sqrt(math.Max(lo, hi*0.01) * hi)
-				known[ty*tw+tx] = true
-			}
-		}
-	}
-	for {
-		changed := false
-		next := slices.Clone(known)
-		for i := range level {
-			if known[i] {
-				continue
-			}
-			x, y := i%tw, i/tw
-			var s float64
-			var n int
-			for dy := -1; dy <= 1; dy++ {
-				for dx := -1; dx <= 1; dx++ {
-					xx, yy := x+dx, y+dy
-					if xx >= 0 && yy >= 0 && xx < tw && yy < th && known[yy*tw+xx] {
-						s += level[yy*tw+xx]
-						n++
-					}
-				}
-			}
-			if n > 0 {
-				level[i], next[i], changed = s/float64(n), true, true
-			}
-		}
-		known = next
-		if !changed {
-			break
-		}
-	}
-	out := make([]float32, c.W*c.H)
-	for y := range c.H {
-		fy := (float64(y)+0.5)/float64(tile) - 0.5
-		y0 := min(max(int(math.Floor(fy)), 0), th-1)
-		y1 := min(y0+1, th-1)
-		ay := math.Min(math.Max(fy-float64(y0), 0), 1)
-		for x := range c.W {
-			fx := (float64(x)+0.5)/float64(tile) - 0.5
-			x0 := min(max(int(math.Floor(fx)), 0), tw-1)
-			x1 := min(x0+1, tw-1)
-			ax := math.Min(math.Max(fx-float64(x0), 0), 1)
-			v := (level[y0*tw+x0]*(1-ax)+level[y0*tw+x1]*ax)*(1-ay) + (level[y1*tw+x0]*(1-ax)+level[y1*tw+x1]*ax)*ay
-			out[y*c.W+x] = float32(v)
-		}
-	}
-	return out
-}
-
 // region accumulates the moments of one connected dark region.
 type region struct {
 	n                  float64
@@ -136,11 +38,11 @@ type region struct {
 // findDiscs returns the candidate mark discs of p.
 func findDiscs(p *plane.Plane) []disc {
 	k := max(1, (max(p.W, p.H)+coarseSide-1)/coarseSide)
-	c := reduce(p, k)
+	c := coarse.Shrink(p, k)
 	if c.W < 16 || c.H < 16 {
 		return nil
 	}
-	lv := localLevel(c, max(16, min(c.W, c.H)/16))
+	lv := coarse.Level(c, max(16, min(c.W, c.H)/16), 1.5).Pix
 	regs := label(c, lv)
 	var out []disc
 	fk := float64(k)

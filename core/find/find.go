@@ -15,6 +15,7 @@ import (
 	"math"
 
 	"sagitta/core/edge"
+	"sagitta/core/internal/coarse"
 	"sagitta/core/plane"
 )
 
@@ -74,11 +75,11 @@ const (
 func Edges(p *plane.Plane, opt Options) ([]Candidate, []Reject) {
 	opt = opt.withDefaults()
 	k := max(1, int(math.Ceil(float64(max(p.W, p.H))/float64(opt.CoarsePx))))
-	c := shrink(p, k)
+	c := coarse.Shrink(p, k)
 	if c.W < 8 || c.H < 8 {
 		return nil, nil
 	}
-	t := threshold(c)
+	t := coarse.Level(c, tilePx, minTileRatio)
 	cts := contours(c, t, 2)
 	fk := float64(k)
 

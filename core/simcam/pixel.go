@@ -90,7 +90,7 @@ func (r *renderer) pixel(ws *worker, cx, cy float64) float64 {
 	val := lneg + (lpos-lneg)*f
 	if r.forceCorner {
 		rho = 0
-	} else if rho >= rmax+halfDiag {
+	} else if rho >= rmax+halfDiag || e.rough {
 		return val
 	}
 	return val + r.cornerCorrection(ws, cx, cy, e, bu, lneg, lpos, rho, c, gauss, rmax)

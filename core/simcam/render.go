@@ -54,6 +54,7 @@ type redge struct {
 	length         float64
 	pw, pb         float64
 	sn             float64    // Gaussian sigma along the normal (fixed Gaussian lens)
+	rough          bool       // of a Rough polygon: no corner correction
 	lazy           *lazyTable // non-Gaussian edge profile, built on first use
 }
 
@@ -123,7 +124,7 @@ func newRenderer(w, h int, s Scene, o *optics) *renderer {
 		}
 		for i := range pts {
 			a, b := pts[i], pts[(i+1)%len(pts)]
-			e := redge{a: a, b: b, lazy: &lazyTable{}}
+			e := redge{a: a, b: b, lazy: &lazyTable{}, rough: p.Rough}
 			e.length = math.Hypot(b[0]-a[0], b[1]-a[1])
 			if e.length == 0 {
 				continue

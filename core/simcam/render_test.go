@@ -83,3 +83,37 @@ func TestIdealLensAreaFractions(t *testing.T) {
 		t.Errorf("vertical edge at x = 10.3: pixel 10 = %v, want 0.7", v)
 	}
 }
+
+func TestRoughPolygon(t *testing.T) {
+	// A Rough polygon keeps exact values along its sides away from the
+	// vertices and differs from the exact rendering only near them (by at
+	// most the corner's share of the blur, well under the level step).
+	sq := Square(60, 60, 60, 10, 0.1)
+	rough := sq
+	rough.Rough = true
+	cam := Camera{W: 120, H: 120, Lens: Fixed{Gaussian{Sigma1: 1.5, Sigma2: 1.5}}}
+	exact := cam.RenderLinear(Scene{Background: 0.8, Polygons: []Polygon{sq}})
+	fast := cam.RenderLinear(Scene{Background: 0.8, Polygons: []Polygon{rough}})
+	var worst, worstFar float64
+	for y := 0; y < 120; y++ {
+		for x := 0; x < 120; x++ {
+			d := math.Abs(float64(exact.At(x, y) - fast.At(x, y)))
+			worst = math.Max(worst, d)
+			near := false
+			for _, v := range sq.Pts {
+				if math.Hypot(float64(x)+0.5-v[0], float64(y)+0.5-v[1]) < 12 {
+					near = true
+				}
+			}
+			if !near {
+				worstFar = math.Max(worstFar, d)
+			}
+		}
+	}
+	if worstFar > 1e-6 {
+		t.Errorf("rough square differs by %g away from its vertices", worstFar)
+	}
+	if worst > 0.25*0.7 || worst == 0 {
+		t.Errorf("rough square differs by %g near its vertices (want small but nonzero)", worst)
+	}
+}

@@ -25,6 +25,13 @@ type Scene struct {
 type Polygon struct {
 	Pts   [][2]float64
 	Level float64
+	// Rough marks a polygon that only stands in for a shape nobody
+	// measures (a circle drawn with many short sides, say): near its
+	// vertices the renderer skips the exact 2D corner treatment and uses
+	// the nearest side's blurred half-plane, which is off there by the
+	// corner's share of the blur but renders many times faster. Along its
+	// sides, away from vertices, values stay exact.
+	Rough bool
 }
 
 // Star is a sinusoidal Siemens star centred at (X, Y) px: for r <= Radius,

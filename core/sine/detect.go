@@ -4,6 +4,7 @@ import (
 	"math"
 	"slices"
 
+	"sagitta/core/internal/coarse"
 	"sagitta/core/plane"
 )
 
@@ -100,12 +101,12 @@ type Candidate struct {
 func Find(p *plane.Plane, opt FindOptions) []Candidate {
 	opt = opt.withDefaults()
 	k := max(1, int(math.Ceil(float64(max(p.W, p.H))/float64(opt.CoarsePx))))
-	c := shrink(p, k)
+	c := coarse.Shrink(p, k)
 	ws := newWorkspace(c.W * c.H)
 	var out []Candidate
 	for level := 0; level < pyramidLevels; level++ {
 		if level > 0 {
-			c = shrink(c, 2)
+			c = coarse.Shrink(c, 2)
 			k *= 2
 		}
 		if c.W < 4*texRad || c.H < 4*texRad {
@@ -180,37 +181,6 @@ func inside(q [4][2]float64, x, y float64) bool {
 		}
 	}
 	return true
-}
-
-// shrink returns p reduced by an integer factor k (box average of k x k
-// blocks; a partial block at the right or bottom is dropped). Coarse
-// continuous coordinate u maps to u*k at full resolution.
-func shrink(p *plane.Plane, k int) *plane.Plane {
-	if k <= 1 {
-		return p
-	}
-	w, h := p.W/k, p.H/k
-	out := plane.New(w, h)
-	inv := 1 / float32(k*k)
-	acc := make([]float32, w)
-	for j := range h {
-		clear(acc)
-		for y := j * k; y < (j+1)*k; y++ {
-			row := p.Pix[y*p.W : y*p.W+w*k]
-			for i := range w {
-				var s float32
-				for _, v := range row[i*k : (i+1)*k] {
-					s += v
-				}
-				acc[i] += s
-			}
-		}
-		dst := out.Pix[j*w : (j+1)*w]
-		for i := range dst {
-			dst[i] = acc[i] * inv
-		}
-	}
-	return out
 }
 
 // boxMean writes into dst the mean of src over the (2 rad + 1)^2 window

@@ -158,10 +158,10 @@ func Scene(d *chart.Design, h chart.Homography, pr Print) simcam.Scene {
 			return pts
 		}
 		disc := arc(chart.DiscOfR*m.R, 0, 360, false)
-		s.Polygons = append(s.Polygons, simcam.Polygon{Pts: disc[:len(disc)-1], Level: ink})
+		s.Polygons = append(s.Polygons, simcam.Polygon{Pts: disc[:len(disc)-1], Level: ink, Rough: true})
 		for _, run := range m.DarkRuns() {
 			pts := append(arc(chart.RingOutOfR*m.R, run[0], run[1], false), arc(chart.RingInOfR*m.R, run[0], run[1], true)...)
-			s.Polygons = append(s.Polygons, simcam.Polygon{Pts: pts, Level: ink})
+			s.Polygons = append(s.Polygons, simcam.Polygon{Pts: pts, Level: ink, Rough: true})
 		}
 	}
 	mean, amp := pr.Paper*(1+pr.Dark)/2, pr.Paper*(1-pr.Dark)/2

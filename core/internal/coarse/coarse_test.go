@@ -1,0 +1,59 @@
+package coarse
+
+import (
+	"testing"
+
+	"sagitta/core/plane"
+)
+
+func TestShrink(t *testing.T) {
+	// A box average of 2 x 2 blocks; the odd last column is dropped.
+	p := plane.New(5, 2)
+	for i := range p.Pix {
+		p.Pix[i] = float32(i)
+	}
+	c := Shrink(p, 2)
+	if c.W != 2 || c.H != 1 {
+		t.Fatalf("size %dx%d", c.W, c.H)
+	}
+	// Block (0,0): 0, 1, 5, 6 -> 3; block (1,0): 2, 3, 7, 8 -> 5.
+	if c.At(0, 0) != 3 || c.At(1, 0) != 5 {
+		t.Errorf("got %v", c.Pix)
+	}
+	if Shrink(p, 1) != p {
+		t.Error("k = 1 must return the plane itself")
+	}
+}
+
+func TestLevelSeparates(t *testing.T) {
+	// Dark squares on paper whose light falls off 4:1 from left to right:
+	// the level lies between the local dark and light everywhere.
+	w, h := 256, 64
+	p := plane.New(w, h)
+	for y := 0; y < h; y++ {
+		for x := 0; x < w; x++ {
+			light := 0.8 - 0.6*float64(x)/float64(w)
+			v := light
+			if (x/16)%2 == 0 && y > 16 && y < 48 {
+				v = light / 5
+			}
+			p.Set(x, y, float32(v))
+		}
+	}
+	lv := Level(p, 32, 1.5)
+	for y := 20; y < 44; y++ {
+		for x := 0; x < w; x++ {
+			light := 0.8 - 0.6*float64(x)/float64(w)
+			if l := float64(lv.At(x, y)); !(l > light/5 && l < light) {
+				t.Fatalf("level %.3f at (%d,%d) not between %.3f and %.3f", l, x, y, light/5, light)
+			}
+		}
+	}
+	flat := plane.New(64, 64)
+	for i := range flat.Pix {
+		flat.Pix[i] = 0.5
+	}
+	if Level(flat, 32, 1.5).At(10, 10) != 0 {
+		t.Error("a flat image must have no level")
+	}
+}
