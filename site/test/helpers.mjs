@@ -19,17 +19,24 @@ export function run(cmd, args) {
   return execFileSync(cmd, args, { cwd: ROOT, encoding: 'utf8', maxBuffer: 256 << 20 });
 }
 
+// fresh reports whether file exists and is newer than the program that makes it.
+function fresh(file, program) {
+  return fs.existsSync(file) && fs.statSync(file).mtimeMs > fs.statSync(program).mtimeMs;
+}
+
 /** demoPhoto writes the built-in demo photo (`sagitta demo`), reduced by the factor. */
 export function demoPhoto(reduce, name = `demo-${reduce}.jpg`) {
   const file = path.join(WORK, name);
-  if (!fs.existsSync(file)) run(path.join(BIN, 'sagitta'), ['demo', '-reduce', String(reduce), '-o', file]);
+  const prog = path.join(BIN, 'sagitta');
+  if (!fresh(file, prog)) run(prog, ['demo', '-reduce', String(reduce), '-o', file]);
   return file;
 }
 
 /** testPhoto writes a simulated chart photo with site/testphoto. */
 export function testPhoto(name, args) {
   const file = path.join(WORK, name);
-  if (!fs.existsSync(file)) run(path.join(BIN, 'testphoto'), [...args, '-o', file]);
+  const prog = path.join(BIN, 'testphoto');
+  if (!fresh(file, prog)) run(prog, [...args, '-o', file]);
   return file;
 }
 
