@@ -36,7 +36,7 @@ function tickText(v, step) {
  *
  * spec: {
  *   title, xLabel, yLabel, xDomain: [lo, hi], yDomain: [lo, hi],
- *   series: [{name, points: [[x, y], ...], colour, width, dash, marker ('circle'|'diamond'|'square'),
+ *   series: [{name, points: [[x, y], ...], colour, width, dash, marker ('circle'|'triangle'|'diamond'|'square'),
  *             line (default true), legend (default true)}],
  *   vlines: [{x, label, colour, dash}],
  *   table: {columns: [...], rows: [[...], ...]}  (default: one row per point),
@@ -133,7 +133,8 @@ export function plot(spec) {
 
 function marker(g, kind, x, y, colour, r) {
   const a = { fill: colour, stroke: '#ffffff', 'stroke-width': 0.8 };
-  if (kind === 'diamond') svgEl('path', { ...a, d: `M${x},${y - r * 1.35}L${x + r * 1.35},${y}L${x},${y + r * 1.35}L${x - r * 1.35},${y}Z` }, g);
+  if (kind === 'triangle') svgEl('path', { ...a, d: `M${x},${y - r * 1.4}L${x + r * 1.25},${y + r * 0.8}L${x - r * 1.25},${y + r * 0.8}Z` }, g);
+  else if (kind === 'diamond') svgEl('path', { ...a, d: `M${x},${y - r * 1.35}L${x + r * 1.35},${y}L${x},${y + r * 1.35}L${x - r * 1.35},${y}Z` }, g);
   else if (kind === 'square') svgEl('rect', { ...a, x: x - r, y: y - r, width: 2 * r, height: 2 * r }, g);
   else svgEl('circle', { ...a, cx: x, cy: y, r }, g);
 }

@@ -440,7 +440,7 @@ function renderFrame() {
         series.push({
           name: `${o}, ${f} lp/mm${kind === 'edge' ? '' : ` (${kind}s)`}`,
           points: sel.map((m) => [m.height_mm, m.mtf_at_freqs[i]]),
-          colour: ORIENTATION[o], line: false, marker: kind === 'edge' ? (i === 0 ? 'circle' : 'square') : 'diamond',
+          colour: ORIENTATION[o], line: false, marker: kind === 'edge' ? (i === 0 ? 'circle' : 'square') : kind === 'star' ? 'triangle' : 'diamond',
           markerSize: i === 0 ? 4 : 2.6,
         });
       });

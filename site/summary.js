@@ -40,8 +40,10 @@ export function renderSummary(box, r, units, pool, label) {
   const rows50 = [];
   for (const o of ORIENTS) {
     const colour = ORIENTATION[o];
-    const pts = ms.filter((m) => m.orientation === o).map((m) => [m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]);
-    if (pts.length) s50.push({ name: `${o} targets`, points: pts, colour, line: false, marker: 'circle', markerSize: 2.2, legend: false });
+    for (const kind of ['edge', 'star', 'grating']) {
+      const pts = ms.filter((m) => m.orientation === o && m.kind === kind).map((m) => [m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]);
+      if (pts.length) s50.push({ name: `${o} ${kind}s`, points: pts, colour, line: false, marker: { edge: 'circle', star: 'triangle' }[kind] || 'diamond', markerSize: kind === 'edge' ? 2.2 : 3.4, legend: false });
+    }
     const c = s.mtf50_curves.find((c) => c.orientation === o);
     if (!c) continue;
     s50.push({ band: c.height_mm.map((h, i) => [h, lpmmTo(c.band_lo[i], units, r), lpmmTo(c.band_hi[i], units, r)]), colour });
