@@ -1,53 +1,99 @@
 //go:build js && wasm
 
 // Command wasm is the WebAssembly entry point of Sagitta's core: thin
-// syscall/js glue that hands a photo's bytes to core/analyze and the JSON
-// result back. It runs inside a Web Worker (see site/protocol.js); the
-// photo never leaves the browser.
+// syscall/js glue that converts between JavaScript values and Go types and
+// calls core. It runs inside a Web Worker (see site/worker.js and the
+// message protocol in site/protocol.js); the photo never leaves the browser.
 //
 // It registers, on the worker's global object:
 //
 //	sagittaAnalyze(name string, bytes Uint8Array, settings string (JSON),
 //	               onProgress(stage string, fraction number)) -> string (JSON)
+//	    the analysis of one photo: the JSON of analyze.Image (core/analyze);
+//	    settings are analyze.Settings plus "fallback_sensor_mm": [w, h], the
+//	    sensor size to assume when the file's Exif gives no pixel pitch
+//	sagittaPreview(bytes Uint8Array, maxSide number, tone string)
+//	    -> {width, height, factor, pixels Uint8Array}
+//	    an 8-bit grey display image of the decoded photo, reduced by an
+//	    integer factor (core/preview), for formats a browser cannot show
+//	sagittaCSV(results string (JSON {"images":[...]})) -> string
+//	    the CSV of `sagitta analyze --csv` (analyze.WriteCSV)
+//	sagittaJSON(results string (JSON {"images":[...]})) -> string
+//	    the same document as `sagitta analyze --json` prints it
+//	sagittaPlot(kind, data, options) -> {svg | png, table}, sagittaPalette()
+//	    core/plot's figures and colours (plot.go)
+//	sagittaChart(options, format) -> Uint8Array, sagittaPlan(options) -> string
+//	    the printable chart and the shooting planner (chart.go)
+//	sagittaDemo(reduce number) -> Uint8Array
+//	    the built-in demo photo (core/demo), a JPEG, on a sensor reduced by
+//	    the integer factor reduce (1 = 24 MP; as `sagitta demo -reduce`)
 //
-// which returns the analysis of one photo as the JSON of analyze.Image, or
-// throws an Error whose message is one plain line.
+// Every function throws an Error whose message is one plain line on
+// failure; a Go panic is recovered and thrown the same way.
 package main
 
 import (
+	"bytes"
 	"context"
 	"encoding/json"
 	"fmt"
 	"syscall/js"
 
 	"sagitta/core/analyze"
+	"sagitta/core/decode"
+	"sagitta/core/demo"
+	"sagitta/core/exif"
+	"sagitta/core/preview"
 )
 
 func main() {
-	js.Global().Set("sagittaAnalyze", js.FuncOf(analyzeJS))
+	register("sagittaAnalyze", analyzeJS)
+	register("sagittaPreview", previewJS)
+	register("sagittaCSV", csvJS)
+	register("sagittaJSON", jsonJS)
+	register("sagittaDemo", demoJS)
 	js.Global().Set("sagittaReady", true)
 	select {}
 }
 
-// analyzeJS converts the JavaScript arguments, runs the pipeline and
-// converts the result; any failure becomes a thrown Error.
-func analyzeJS(_ js.Value, args []js.Value) (out any) {
-	defer func() {
-		if r := recover(); r != nil {
-			out = throw(fmt.Sprintf("internal error: %v", r))
+// register exposes f under name; a panic in f becomes a thrown Error
+// instead of ending the Go program.
+func register(name string, f func(args []js.Value) (any, error)) {
+	js.Global().Set(name, js.FuncOf(func(_ js.Value, args []js.Value) (out any) {
+		defer func() {
+			if r := recover(); r != nil {
+				out = jsError(fmt.Sprintf("internal error in %s: %v", name, r))
+			}
+		}()
+		v, err := f(args)
+		if err != nil {
+			return jsError(err.Error())
 		}
-	}()
+		return v
+	}))
+}
+
+// analyzeJS runs the pipeline on one photo.
+func analyzeJS(args []js.Value) (any, error) {
 	if len(args) < 3 || args[1].Type() != js.TypeObject {
-		return throw("sagittaAnalyze(name, bytes, settings, onProgress): wrong arguments")
+		return nil, fmt.Errorf("sagittaAnalyze(name, bytes, settings, onProgress): wrong arguments")
 	}
 	name := args[0].String()
-	data := make([]byte, args[1].Get("length").Int())
-	js.CopyBytesToGo(data, args[1])
-	var s analyze.Settings
+	data := goBytes(args[1])
+	var in struct {
+		analyze.Settings
+		// FallbackSensorMM is used as the sensor size when neither a pitch
+		// nor a sensor size is given and the file's Exif gives no pitch.
+		FallbackSensorMM [2]float64 `json:"fallback_sensor_mm"`
+	}
 	if txt := args[2].String(); txt != "" {
-		if err := json.Unmarshal([]byte(txt), &s); err != nil {
-			return throw("settings: " + err.Error())
+		if err := json.Unmarshal([]byte(txt), &in); err != nil {
+			return nil, fmt.Errorf("settings: %v", err)
 		}
+	}
+	s := in.Settings
+	if s.PitchUM == 0 && s.SensorMM[0] == 0 && in.FallbackSensorMM[0] > 0 && !exifHasPitch(data) {
+		s.SensorMM = in.FallbackSensorMM
 	}
 	s.Workers = 1
 	var progress analyze.Progress
@@ -57,17 +103,124 @@ func analyzeJS(_ js.Value, args []js.Value) (out any) {
 	}
 	img, err := analyze.Run(context.Background(), name, data, s, progress)
 	if err != nil {
-		return throw(err.Error())
+		return nil, err
 	}
 	b, err := json.Marshal(img)
-	if err != nil {
-		return throw(err.Error())
-	}
-	return string(b)
+	return string(b), err
 }
 
-// throw returns a JavaScript Error for the caller to throw; the worker glue
+// previewJS decodes a photo and returns its reduced grey preview.
+func previewJS(args []js.Value) (any, error) {
+	if len(args) < 2 || args[0].Type() != js.TypeObject {
+		return nil, fmt.Errorf("sagittaPreview(bytes, maxSide, tone): wrong arguments")
+	}
+	maxSide := args[1].Int()
+	if maxSide < 16 {
+		return nil, fmt.Errorf("preview: largest side %d px is too small", maxSide)
+	}
+	var opt decode.Options
+	if len(args) > 2 && args[2].Type() == js.TypeString {
+		t, err := decode.ParseTone(args[2].String())
+		if err != nil {
+			return nil, err
+		}
+		opt.Tone = t
+	}
+	dec, err := decode.Decode(goBytes(args[0]), opt)
+	if err != nil {
+		return nil, err
+	}
+	img, k := preview.Gray(dec.Lum, maxSide)
+	b := img.Bounds()
+	pix := js.Global().Get("Uint8Array").New(len(img.Pix))
+	js.CopyBytesToJS(pix, img.Pix)
+	return js.ValueOf(map[string]any{
+		"width": b.Dx(), "height": b.Dy(), "factor": k, "pixels": pix,
+	}), nil
+}
+
+// csvJS writes the CSV of a results document.
+func csvJS(args []js.Value) (any, error) {
+	res, err := results(args)
+	if err != nil {
+		return nil, err
+	}
+	var buf bytes.Buffer
+	if err := analyze.WriteCSV(&buf, res); err != nil {
+		return nil, err
+	}
+	return buf.String(), nil
+}
+
+// jsonJS rewrites a results document exactly as the command-line tool
+// prints it (indented by one space, with a final newline).
+func jsonJS(args []js.Value) (any, error) {
+	res, err := results(args)
+	if err != nil {
+		return nil, err
+	}
+	b, err := json.MarshalIndent(res, "", " ")
+	return string(b) + "\n", err
+}
+
+// demoJS renders the demo photo.
+func demoJS(args []js.Value) (any, error) {
+	reduce := 1
+	if len(args) > 0 && args[0].Type() == js.TypeNumber {
+		reduce = args[0].Int()
+	}
+	if reduce < 1 || reduce > 20 {
+		return nil, fmt.Errorf("demo: reduction %d is outside 1..20", reduce)
+	}
+	data, err := demo.PortraitSmall(reduce).Photo()
+	if err != nil {
+		return nil, err
+	}
+	out := js.Global().Get("Uint8Array").New(len(data))
+	js.CopyBytesToJS(out, data)
+	return out, nil
+}
+
+// results reads the results document passed as the first argument.
+func results(args []js.Value) (analyze.Result, error) {
+	var res analyze.Result
+	if len(args) < 1 || args[0].Type() != js.TypeString {
+		return res, fmt.Errorf("expected the results as a JSON string")
+	}
+	if err := json.Unmarshal([]byte(args[0].String()), &res); err != nil {
+		return res, fmt.Errorf("results: %v", err)
+	}
+	return res, nil
+}
+
+// exifHasPitch reports whether a JPEG or TIFF file's Exif gives a pixel
+// pitch (the focal-plane resolution).
+func exifHasPitch(data []byte) bool {
+	var (
+		t   exif.Tags
+		err error
+	)
+	switch {
+	case bytes.HasPrefix(data, []byte{0xFF, 0xD8}):
+		t, err = exif.ReadJPEG(data)
+	case bytes.HasPrefix(data, []byte("II*\x00")), bytes.HasPrefix(data, []byte("MM\x00*")):
+		t, err = exif.ReadTIFF(data)
+	default:
+		return false
+	}
+	p, ok := t.PixelPitchUM()
+	return err == nil && ok && p > 0
+}
+
+// goBytes copies a Uint8Array into Go memory.
+func goBytes(v js.Value) []byte {
+	data := make([]byte, v.Get("length").Int())
+	js.CopyBytesToGo(data, v)
+	return data
+}
+
+// jsError returns a JavaScript Error for the caller to throw; the worker
 // checks for it and turns it into an error message.
-func throw(msg string) js.Value {
+func jsError(msg string) js.Value {
 	return js.Global().Get("Error").New(msg)
 }

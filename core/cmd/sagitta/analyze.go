@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"encoding/csv"
 	"encoding/json"
 	"errors"
 	"flag"
@@ -97,7 +96,7 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 		enc.SetIndent("", " ")
 		return enc.Encode(res)
 	case *asCSV:
-		return writeCSV(stdout, res)
+		return analyze.WriteCSV(stdout, res)
 	}
 	return writeText(stdout, res)
 }
@@ -125,41 +124,6 @@ func unwrapPath(err error) error {
 		return pe.Err
 	}
 	return err
-}
-
-// writeCSV prints one row per measurement.
-func writeCSV(w io.Writer, res analyze.Result) error {
-	cw := csv.NewWriter(w)
-	head := []string{"file", "id", "kind", "x_px", "y_px", "height_mm", "orientation", "normal_deg",
-		"mtf50_cy_px", "mtf50p_cy_px", "mtf50_lp_mm", "mtf_nyquist"}
-	var freqs []float64
-	if len(res.Images) > 0 {
-		freqs = res.Images[0].FreqsLPMM
-	}
-	for _, f := range freqs {
-		head = append(head, "mtf_at_"+num(f)+"_lp_mm")
-	}
-	head = append(head, "snr", "warnings")
-	if err := cw.Write(head); err != nil {
-		return err
-	}
-	for _, img := range res.Images {
-		for _, m := range img.Measurements {
-			row := []string{img.File, strconv.Itoa(m.ID), m.Kind, fix(m.XPx, 1), fix(m.YPx, 1),
-				fix(m.HeightMM, 3), string(m.Orientation), fix(m.NormalDeg, 2),
-				fix(float64(m.MTF50), 4), fix(float64(m.MTF50P), 4), fix(float64(m.MTF50LPMM), 2),
-				fix(float64(m.MTFNyquist), 4)}
-			for _, v := range m.MTFAtFreqs {
-				row = append(row, fix(float64(v), 4))
-			}
-			row = append(row, fix(float64(m.SNR), 1), strings.Join(m.Warnings, "; "))
-			if err := cw.Write(row); err != nil {
-				return err
-			}
-		}
-	}
-	cw.Flush()
-	return cw.Error()
 }
 
 // writeText prints a short human-readable report.

@@ -1,0 +1,562 @@
+// Sagitta's page: places (Measure, Compare, Print and plan), the photo
+// list, the settings, exports and the automation hooks
+// (window.sagitta.results, document.body.dataset.status).
+
+import { engine } from './engine.js';
+import { AbortError } from './pool.js';
+import { readSettings, settingsKey, watchSettings, settingsSummary } from './settings.js';
+import { renderResult, refreshUnits, outcome } from './results.js';
+import { saveBlob } from './plot.js';
+import { renderCompare } from './compare.js';
+import { renderPrint } from './print.js';
+import { setPalette } from './colour.js';
+import { fmtFNumber } from './units.js';
+
+const $ = (id) => document.getElementById(id);
+
+/** state shared by the places. */
+const state = {
+  photos: [], // in the order added
+  selected: null, // key of the photo shown in Measure
+  pool: null,
+  functions: new Set(),
+  units: 'lpmm',
+};
+let nextKey = 1;
+
+// Automation hooks: the JSON contract of every analysed photo, and the status.
+window.sagitta = {
+  get results() {
+    return { images: state.photos.filter((p) => p.result).map((p) => p.result) };
+  },
+};
+
+function setStatus() {
+  const ps = state.photos;
+  let s = 'ready';
+  if (ps.some((p) => p.status === 'queued' || p.status === 'working')) s = 'working';
+  else if (ps.some((p) => p.status === 'error')) s = 'error';
+  else if (ps.some((p) => p.result)) s = 'done';
+  document.body.dataset.status = s;
+  $('queue-head').hidden = ps.length === 0;
+  $('first-time').hidden = ps.length > 0;
+  document.querySelector('.intake').classList.toggle('compact', ps.length > 0);
+  $('cancel-all').hidden = s !== 'working';
+  const any = ps.some((p) => p.result);
+  for (const id of ['export-json', 'export-csv', 'export-report']) $(id).disabled = !any;
+}
+
+function announce(text) {
+  $('announce').textContent = text;
+}
+
+// ---------------------------------------------------------------- places
+
+function showPlace(name) {
+  for (const tab of document.querySelectorAll('[role=tab]')) {
+    const on = tab.id === 'tab-' + name;
+    tab.setAttribute('aria-selected', String(on));
+    tab.tabIndex = on ? 0 : -1;
+    $(tab.getAttribute('aria-controls')).hidden = !on;
+  }
+  if (name === 'compare') renderCompare($('place-compare'), state);
+  if (name === 'print') renderPrint($('place-print'), state);
+}
+
+function setupTabs() {
+  const tabs = [...document.querySelectorAll('[role=tab]')];
+  for (const tab of tabs) {
+    tab.addEventListener('click', () => showPlace(tab.id.slice(4)));
+    tab.addEventListener('keydown', (e) => {
+      const visible = tabs.filter((t) => !t.hidden);
+      const i = visible.indexOf(tab);
+      let j = -1;
+      if (e.key === 'ArrowRight') j = (i + 1) % visible.length;
+      if (e.key === 'ArrowLeft') j = (i - 1 + visible.length) % visible.length;
+      if (j >= 0) {
+        e.preventDefault();
+        visible[j].focus();
+        showPlace(visible[j].id.slice(4));
+      }
+    });
+  }
+}
+
+// ---------------------------------------------------------------- intake
+
+function setupIntake() {
+  const dz = $('dropzone');
+  const input = $('file-input');
+  input.addEventListener('change', () => {
+    addFiles([...input.files]);
+    input.value = '';
+  });
+  // Photos may be dropped anywhere on the Measure place.
+  const place = $('place-measure');
+  let depth = 0;
+  place.addEventListener('dragenter', (e) => {
+    if (!hasFiles(e)) return;
+    e.preventDefault();
+    depth++;
+    dz.classList.add('over');
+  });
+  place.addEventListener('dragover', (e) => {
+    if (!hasFiles(e)) return;
+    e.preventDefault();
+    e.dataTransfer.dropEffect = 'copy';
+  });
+  place.addEventListener('dragleave', () => {
+    depth = Math.max(0, depth - 1);
+    if (depth === 0) dz.classList.remove('over');
+  });
+  place.addEventListener('drop', (e) => {
+    e.preventDefault();
+    depth = 0;
+    dz.classList.remove('over');
+    addFiles([...(e.dataTransfer.files || [])]);
+  });
+  // A file dropped elsewhere must not make the browser navigate away.
+  window.addEventListener('dragover', (e) => e.preventDefault());
+  window.addEventListener('drop', (e) => e.preventDefault());
+  $('demo-button').addEventListener('click', loadDemo);
+  $('cancel-all').addEventListener('click', () => {
+    for (const p of state.photos) if (p.job) p.job.cancel();
+  });
+}
+
+function hasFiles(e) {
+  return e.dataTransfer && [...e.dataTransfer.types].includes('Files');
+}
+
+// The demo photo is the built-in scenario on a sensor reduced by 2
+// (3000 x 2000 px): quick to make and to measure in the page.
+const DEMO_REDUCE = 2;
+
+async function loadDemo() {
+  const b = $('demo-button');
+  b.disabled = true;
+  b.textContent = 'Making the demo photo…';
+  try {
+    const bytes = await state.pool.call('demo', [DEMO_REDUCE]);
+    addFiles([new File([bytes], 'demo-chart.jpg', { type: 'image/jpeg' })]);
+  } catch (e) {
+    announce('The demo photo could not be made: ' + e.message);
+  } finally {
+    b.disabled = false;
+    b.textContent = 'Try the demo photo';
+  }
+}
+
+function addFiles(files) {
+  const accepted = files.filter((f) => f.size > 0);
+  for (const file of accepted) {
+    const p = {
+      key: nextKey++, name: file.name, file, label: '', status: 'queued', stage: 'waiting',
+      fraction: 0, result: null, error: '', thumb: null, preview: null, job: null, settingsKey: '',
+    };
+    state.photos.push(p);
+    makeRow(p);
+    makeThumb(p);
+    measure(p);
+  }
+  if (accepted.length && state.selected == null) select(state.photos[state.photos.length - accepted.length].key);
+  if (accepted.length) announce(`${accepted.length} photo${accepted.length > 1 ? 's' : ''} added`);
+  setStatus();
+}
+
+// ---------------------------------------------------------------- measuring
+
+async function measure(p) {
+  const settings = readSettings();
+  p.settingsKey = settingsKey(settings);
+  p.status = 'queued';
+  p.stage = 'waiting';
+  p.fraction = 0;
+  p.error = '';
+  updateRow(p);
+  setStatus();
+  let bytes;
+  try {
+    bytes = await p.file.arrayBuffer();
+  } catch (e) {
+    return failed(p, 'the file could not be read: ' + e.message);
+  }
+  const tiff = isTIFF(new Uint8Array(bytes, 0, Math.min(4, bytes.byteLength)));
+  if (!state.pool) {
+    try {
+      await started;
+    } catch {
+      return failed(p, 'the measuring engine did not start in this browser');
+    }
+  }
+  if (!state.photos.includes(p)) return; // removed meanwhile
+  const job = state.pool.analyze(p.name, bytes, settings, tiff ? 2048 : 0, (stage, fraction) => {
+    if (p.job !== job) return;
+    p.status = 'working';
+    p.stage = stage;
+    p.fraction = fraction;
+    updateRow(p);
+    setStatus();
+  });
+  p.job = job;
+  try {
+    const { result, preview } = await job.promise;
+    if (p.job !== job) return; // replaced by a newer job
+    p.job = null;
+    p.result = result;
+    p.status = 'done';
+    if (preview) p.preview = previewCanvas(preview);
+    if (tiff && p.preview) drawThumb(p, p.preview);
+    updateRow(p);
+    if (state.selected === p.key) showSelected();
+    if (!$('place-compare').hidden) renderCompare($('place-compare'), state);
+    announce(`${p.name}: ${outcome(result)}`);
+  } catch (e) {
+    if (p.job !== job) return;
+    p.job = null;
+    if (e instanceof AbortError) {
+      p.status = 'cancelled';
+      updateRow(p);
+    } else {
+      failed(p, e.message);
+    }
+  }
+  setStatus();
+  refreshStale();
+}
+
+function failed(p, message) {
+  p.status = 'error';
+  p.error = message;
+  updateRow(p);
+  setStatus();
+  announce(`${p.name}: ${message}`);
+}
+
+function isTIFF(b) {
+  return b.length === 4 && ((b[0] === 0x49 && b[1] === 0x49 && b[2] === 0x2a && b[3] === 0) || (b[0] === 0x4d && b[1] === 0x4d && b[2] === 0 && b[3] === 0x2a));
+}
+
+// previewCanvas turns the worker's grey preview into a canvas.
+function previewCanvas(pv) {
+  const c = document.createElement('canvas');
+  c.width = pv.width;
+  c.height = pv.height;
+  const ctx = c.getContext('2d');
+  const img = ctx.createImageData(pv.width, pv.height);
+  for (let i = 0, j = 0; i < pv.pixels.length; i++, j += 4) {
+    const v = pv.pixels[i];
+    img.data[j] = img.data[j + 1] = img.data[j + 2] = v;
+    img.data[j + 3] = 255;
+  }
+  ctx.putImageData(img, 0, 0);
+  c.factor = pv.factor;
+  return c;
+}
+
+// ---------------------------------------------------------------- photo list
+
+function makeRow(p) {
+  const li = document.createElement('li');
+  li.className = 'photo';
+  li.dataset.key = p.key;
+  const thumb = document.createElement('canvas');
+  thumb.className = 'thumb';
+  thumb.width = 144;
+  thumb.height = 96;
+  thumb.setAttribute('aria-hidden', 'true');
+  const open = document.createElement('button');
+  open.type = 'button';
+  open.className = 'open';
+  open.innerHTML = '<div class="name"></div><div class="meta"></div><div class="state"></div><progress max="1" value="0"></progress>';
+  open.addEventListener('click', () => select(p.key));
+  const actions = document.createElement('div');
+  actions.className = 'row-actions';
+  li.append(thumb, open, actions);
+  $('photo-list').append(li);
+  p.row = { li, thumb, open, actions };
+  updateRow(p);
+}
+
+function updateRow(p) {
+  if (!p.row) return;
+  const { li, open, actions } = p.row;
+  li.classList.toggle('selected', state.selected === p.key);
+  open.querySelector('.name').textContent = p.name;
+  const ex = p.result && p.result.exif ? p.result.exif : {};
+  const meta = [];
+  if (ex.f_number) meta.push(fmtFNumber(ex.f_number));
+  if (ex.focal_length_mm) meta.push(`${+ex.focal_length_mm.toFixed(1)} mm`);
+  if (p.result) meta.push(`${p.result.width} × ${p.result.height} px`);
+  open.querySelector('.meta').textContent = meta.join(' · ');
+  const st = open.querySelector('.state');
+  const bar = open.querySelector('progress');
+  st.classList.toggle('error', p.status === 'error');
+  bar.hidden = !(p.status === 'queued' || p.status === 'working');
+  bar.value = p.fraction;
+  switch (p.status) {
+    case 'queued':
+      st.textContent = 'Waiting for a free worker…';
+      bar.removeAttribute('value');
+      break;
+    case 'working':
+      st.textContent = stageWords(p.stage) + ` (${Math.round(p.fraction * 100)} %)`;
+      break;
+    case 'done':
+      st.textContent = outcome(p.result);
+      break;
+    case 'error':
+      st.textContent = 'Not measured: ' + p.error;
+      break;
+    case 'cancelled':
+      st.textContent = 'Cancelled';
+      break;
+  }
+  open.setAttribute('aria-label', `${p.name}. ${st.textContent}. Show this photo.`);
+  actions.replaceChildren();
+  const add = (text, f, label) => {
+    const b = document.createElement('button');
+    b.type = 'button';
+    b.className = 'button small';
+    b.textContent = text;
+    b.setAttribute('aria-label', `${label} ${p.name}`);
+    b.onclick = f;
+    actions.append(b);
+  };
+  if (p.status === 'queued' || p.status === 'working') add('Cancel', () => p.job && p.job.cancel(), 'Cancel');
+  else {
+    if (p.status !== 'done' || isStale(p)) add('Measure again', () => measure(p), 'Measure again');
+    add('Remove', () => remove(p), 'Remove');
+  }
+}
+
+function stageWords(stage) {
+  return { reading: 'Reading the file', 'finding targets': 'Finding targets', measuring: 'Measuring edges', summarising: 'Summarising' }[stage] || stage;
+}
+
+async function makeThumb(p) {
+  try {
+    const bmp = await bitmap(p.file, { resizeHeight: 96, resizeQuality: 'medium' });
+    drawThumb(p, bmp);
+    bmp.close();
+  } catch {
+    // TIFF and anything the browser cannot show: the preview comes with the result.
+  }
+}
+
+function drawThumb(p, src) {
+  const c = p.row.thumb;
+  const ctx = c.getContext('2d');
+  const s = Math.max(c.width / src.width, c.height / src.height);
+  const w = src.width * s;
+  const h = src.height * s;
+  ctx.drawImage(src, (c.width - w) / 2, (c.height - h) / 2, w, h);
+}
+
+/** bitmap decodes a photo for display (as the browser shows it: see turnsPhotos). */
+export function bitmap(blob, opts = {}) {
+  return createImageBitmap(blob, opts);
+}
+
+// A 40 x 20 px JPEG whose Exif orientation (6) says "turn 90 degrees".
+const PROBE = '/9j/4QBmRXhpZgAASUkqAAgAAAADABABAgAZAAAAMgAAABIBAwABAAAABgAAAGmHBAABAAAATAAAAAAAAABTYWdpdHRhIFNpbXVsYXRlZCBDYW1lcmEAAAEAAJAHAAQAAAAwMjMwAAAAAP/bAIQACAYGBwYFCAcHBwkJCAoMFA0MCwsMGRITDxQdGh8eHRocHCAkLicgIiwjHBwoNyksMDE0NDQfJzk9ODI8LjM0MgEJCQkMCwwYDQ0YMiEcITIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIyMjIy/8AACwgAFAAoAQERAP/EANIAAAEFAQEBAQEBAAAAAAAAAAABAgMEBQYHCAkKCxAAAgEDAwIEAwUFBAQAAAF9AQIDAAQRBRIhMUEGE1FhByJxFDKBkaEII0KxwRVS0fAkM2JyggkKFhcYGRolJicoKSo0NTY3ODk6Q0RFRkdISUpTVFVWV1hZWmNkZWZnaGlqc3R1dnd4eXqDhIWGh4iJipKTlJWWl5iZmqKjpKWmp6ipqrKztLW2t7i5usLDxMXGx8jJytLT1NXW19jZ2uHi4+Tl5ufo6erx8vP09fb3+Pn6/9oACAEBAAA/APRYYYreCOGGNIoo1CIiKFVVAwAAOgAp9FFFFFFFFFFFFFf/2Q==';
+let turns = null;
+
+/**
+ * turnsPhotos resolves to whether this browser turns decoded photos by their
+ * Exif orientation (current ones do, whatever createImageBitmap is asked),
+ * so that the viewer can turn them back to the pixels the core measured.
+ */
+export function turnsPhotos() {
+  if (!turns) {
+    const bytes = Uint8Array.from(atob(PROBE), (c) => c.charCodeAt(0));
+    turns = createImageBitmap(new Blob([bytes], { type: 'image/jpeg' })).then((b) => {
+      const turned = b.width === 20;
+      b.close();
+      return turned;
+    }, () => true);
+  }
+  return turns;
+}
+
+function remove(p) {
+  if (p.job) p.job.cancel();
+  state.photos = state.photos.filter((q) => q !== p);
+  p.row.li.remove();
+  if (state.selected === p.key) {
+    state.selected = state.photos.length ? state.photos[0].key : null;
+    showSelected();
+  }
+  setStatus();
+}
+
+function select(key) {
+  state.selected = key;
+  for (const p of state.photos) updateRow(p);
+  showSelected();
+}
+
+let shownKey = null;
+let shownBitmap = null;
+
+async function showSelected() {
+  const sec = $('result');
+  const p = state.photos.find((q) => q.key === state.selected);
+  if (!p || !p.result) {
+    sec.hidden = !p;
+    if (p) {
+      sec.replaceChildren();
+      const msg = document.createElement('p');
+      msg.className = 'empty';
+      msg.textContent = p.status === 'error' ? `${p.name} was not measured: ${p.error}` : `${p.name}: the result appears here when it is measured.`;
+      sec.append(msg);
+    }
+    return;
+  }
+  sec.hidden = false;
+  // Decode the full photo for display (JPEG and PNG); TIFF uses the preview.
+  let source = p.preview;
+  let factor = p.preview ? p.preview.factor : 1;
+  if (!p.preview) {
+    if (shownKey === p.key && shownBitmap) source = shownBitmap;
+    else {
+      try {
+        source = await bitmap(p.file);
+      } catch {
+        source = null;
+      }
+      if (state.selected !== p.key) {
+        if (source) source.close();
+        return;
+      }
+    }
+    factor = 1;
+  }
+  // The browser shows JPEGs turned by their Exif orientation; the core
+  // measured the pixels as stored. TIFF previews come from the core as stored.
+  const o = (p.result.exif && p.result.exif.orientation) || 1;
+  const orientation = !p.preview && o > 1 && (await turnsPhotos()) ? o : 1;
+  if (state.selected !== p.key) return;
+  renderResult(sec, p, state, { source, factor, orientation });
+  // The previous photo's full-size bitmap is released once its viewer is gone.
+  if (source !== shownBitmap) {
+    if (shownBitmap) shownBitmap.close();
+    shownBitmap = source && !p.preview ? source : null;
+    shownKey = shownBitmap ? p.key : null;
+  }
+}
+
+// ---------------------------------------------------------------- settings
+
+// isStale reports whether a measured photo's settings differ from the
+// form's; the fallback sensor does not matter to a photo whose pitch came
+// from its Exif.
+function isStale(p, s = readSettings()) {
+  if (!p.result) return false;
+  if (p.settingsKey === settingsKey(s)) return false;
+  if (/^Exif/.test(p.result.pitch_source) && s.fallback_sensor_mm) {
+    const used = JSON.parse(p.settingsKey);
+    return settingsKey({ ...s, fallback_sensor_mm: used.fallback_sensor_mm }) !== p.settingsKey;
+  }
+  return true;
+}
+
+function refreshStale() {
+  const stale = state.photos.some((p) => isStale(p));
+  $('stale-bar').hidden = !stale;
+  for (const p of state.photos) updateRow(p);
+}
+
+function setupSettings() {
+  watchSettings({
+    analysis: refreshStale,
+    units: (u) => {
+      state.units = u;
+      refreshUnits(state);
+    },
+  });
+  $('remeasure').addEventListener('click', () => {
+    for (const p of state.photos) if (isStale(p) || p.status === 'error' || p.status === 'cancelled') measure(p);
+  });
+}
+
+// ---------------------------------------------------------------- exports
+
+async function exportJSON() {
+  const text = await state.pool.call('json', [JSON.stringify(window.sagitta.results)]);
+  saveBlob(new Blob([text], { type: 'application/json' }), 'sagitta-results.json');
+}
+
+async function exportCSV() {
+  const text = await state.pool.call('csv', [JSON.stringify(window.sagitta.results)]);
+  saveBlob(new Blob([text], { type: 'text/csv' }), 'sagitta-measurements.csv');
+}
+
+function exportReport() {
+  const p = state.photos.find((q) => q.key === state.selected && q.result) || state.photos.find((q) => q.result);
+  if (!p) return;
+  showPlace('measure');
+  if (state.selected !== p.key) select(p.key);
+  const box = document.getElementById('report-settings');
+  if (box) box.textContent = settingsSummary(p.result) + ` Printed ${new Date().toLocaleString()}.`;
+  setTimeout(() => window.print(), 50);
+}
+
+function setupExports() {
+  const menu = $('export-menu');
+  const wrap = (f) => async () => {
+    menu.open = false;
+    try {
+      await f();
+    } catch (e) {
+      announce('Export failed: ' + e.message);
+    }
+  };
+  $('export-json').addEventListener('click', wrap(exportJSON));
+  $('export-csv').addEventListener('click', wrap(exportCSV));
+  $('export-report').addEventListener('click', wrap(exportReport));
+  // The single file has nothing to download: it is the offline copy.
+  if (document.documentElement.dataset.build === 'single-file') $('offline-link').hidden = true;
+}
+
+// ---------------------------------------------------------------- start
+
+let started;
+
+function boot() {
+  setupTabs();
+  setupIntake();
+  setupSettings();
+  setupExports();
+  setStatus();
+  started = engine().then(async (pool) => {
+    state.pool = pool;
+    state.functions = await pool.warm();
+    if (state.functions.has('palette')) setPalette(await pool.call('palette'));
+    $('demo-button').hidden = !state.functions.has('demo');
+    $('tab-print').hidden = !state.functions.has('chart');
+    if (state.functions.has('chart')) {
+      const b = document.createElement('button');
+      b.type = 'button';
+      b.className = 'button small';
+      b.textContent = 'Make the chart and plan the shot';
+      b.addEventListener('click', () => {
+        showPlace('print');
+        $('tab-print').focus();
+      });
+      $('step-print').append(' ', b);
+    }
+    document.body.dataset.engine = 'ready';
+  });
+  started.catch((e) => {
+    document.body.dataset.status = 'error';
+    document.body.dataset.engine = 'failed';
+    announce('The measuring engine did not start: ' + e.message);
+    const p = document.createElement('p');
+    p.className = 'notes';
+    p.textContent = 'The measuring engine did not start in this browser: ' + e.message;
+    $('place-measure').prepend(p);
+  });
+}
+
+boot();

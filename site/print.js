@@ -1,0 +1,215 @@
+// The Print and plan place: the printable chart (core/chart) with a live
+// preview, downloads (PDF, SVG, PNG) and printing at actual size with the
+// ruler check; beside it the shooting planner (core/plan): distance,
+// magnification, the field frequencies on paper and whether the print
+// limits the measurement.
+
+import { saveBlob } from './plot.js';
+import { fmt } from './units.js';
+
+const el = (tag, attrs = {}, text) => {
+  const e = document.createElement(tag);
+  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, v);
+  if (text != null) e.textContent = text;
+  return e;
+};
+
+// The form's state, kept between visits.
+const form = {
+  paper: 'A4', customW: 300, customH: 400, orientation: 'landscape', aspect: '3:2', contrast: '4:1',
+  dpi: 600, margin: 10, ruler: '', focal: 50, sensor: 'full-frame', pixelsW: 6000, pixelsH: 4000, surface: 'photo',
+};
+
+let built = false;
+let previewURL = null;
+let seq = 0;
+
+/** renderPrint fills the Print and plan place (once) and refreshes its preview and plan. */
+export function renderPrint(root, state) {
+  if (!built) {
+    build(root, state);
+    built = true;
+  }
+  refresh(root, state);
+}
+
+/** chartOptions are the chart options for the core (chart.Options). */
+export function chartOptions() {
+  const o = { paper: form.paper, orientation: form.orientation, aspect: form.aspect, contrast: form.contrast, dpi: +form.dpi, margin_mm: +form.margin };
+  if (form.paper === 'custom') o.paper_mm = [+form.customW, +form.customH];
+  const r = parseFloat(form.ruler);
+  if (r > 0) o.ruler_measured_mm = r;
+  return o;
+}
+
+function planOptions(state) {
+  const o = { focal_mm: +form.focal, sensor: form.sensor, chart: chartOptions(), surface: form.surface };
+  if (form.pixelsW > 0 && form.pixelsH > 0) o.pixels = [+form.pixelsW, +form.pixelsH];
+  const freqs = [parseFloat(document.getElementById('freq-1').value), parseFloat(document.getElementById('freq-2').value)];
+  if (freqs.every((f) => f > 0)) o.freqs_lp_mm = freqs;
+  return o;
+}
+
+function field(label, input, hint) {
+  const l = el('label', { class: 'field' });
+  l.append(el('span', {}, label), input);
+  if (hint) l.append(el('span', { class: 'hint' }, hint));
+  return l;
+}
+
+function select(key, options, onChange) {
+  const s = el('select', { id: `chart-${key}` });
+  for (const [v, t] of options) s.append(new Option(t, v, false, String(form[key]) === v));
+  s.addEventListener('change', () => {
+    form[key] = s.value;
+    onChange();
+  });
+  return s;
+}
+
+function number(key, attrs, onChange) {
+  const i = el('input', { type: 'number', id: `chart-${key}`, ...attrs });
+  i.value = form[key];
+  i.addEventListener('change', () => {
+    form[key] = i.value;
+    onChange();
+  });
+  return i;
+}
+
+function build(root, state) {
+  root.replaceChildren();
+  const update = () => refresh(root, state);
+  const grid = el('div', { class: 'print-grid' });
+  root.append(grid);
+
+  // The chart.
+  const left = el('section', { class: 'panel', 'aria-labelledby': 'chart-title' });
+  left.append(el('h2', { id: 'chart-title' }, 'Print a chart'));
+  left.append(el('p', { class: 'hint' }, 'Squares turned a few degrees give slanted edges everywhere in the frame; the marks let Sagitta recognise the chart in a photo.'));
+  const opts = el('div', { class: 'form-grid' });
+  opts.append(field('Paper', select('paper', [['A4', 'A4'], ['A3', 'A3'], ['A3+', 'A3+'], ['A2', 'A2'], ['Letter', 'Letter'], ['Tabloid', 'Tabloid'], ['custom', 'Custom size…']], () => {
+    customRow.hidden = form.paper !== 'custom';
+    update();
+  })));
+  const customRow = el('div', { class: 'field inline' });
+  customRow.append(el('span', {}, 'Custom sheet'), number('customW', { min: 100, max: 2000, 'aria-label': 'Custom sheet width in mm' }, update), ' × ', number('customH', { min: 100, max: 2000, 'aria-label': 'Custom sheet height in mm' }, update), ' mm');
+  customRow.hidden = form.paper !== 'custom';
+  opts.append(customRow);
+  opts.append(field('Orientation', select('orientation', [['landscape', 'Landscape (camera level)'], ['portrait', 'Portrait (camera upright)']], update)));
+  opts.append(field('Shape', select('aspect', [['3:2', '3:2 (most cameras)'], ['4:3', '4:3'], ['16:9', '16:9'], ['1:1', '1:1']], update), 'Match the sensor so the chart can fill the frame.'));
+  opts.append(field('Contrast', select('contrast', [['4:1', '4:1 grey (edges; recommended)'], ['high', 'High: black on white']], update)));
+  opts.append(field('Printer resolution', number('dpi', { min: 100, max: 2880, step: 1 }, update), 'dots per inch'));
+  opts.append(field('Margin', number('margin', { min: 3, max: 50, step: 1 }, update), 'mm of blank paper on every side'));
+  left.append(opts);
+  const preview = el('div', { class: 'chart-preview', id: 'chart-preview', role: 'img', 'aria-label': 'Preview of the chart' });
+  left.append(preview);
+  left.append(el('p', { class: 'notes', id: 'chart-error', hidden: '' }));
+  const dl = el('div', { class: 'chart-actions' });
+  for (const [fmtName, label] of [['pdf', 'Download PDF'], ['svg', 'SVG'], ['png', 'PNG']]) {
+    const b = el('button', { type: 'button', class: fmtName === 'pdf' ? 'button primary' : 'button', id: `chart-download-${fmtName}` }, label);
+    b.addEventListener('click', () => download(state, fmtName));
+    dl.append(b);
+  }
+  const pr = el('button', { type: 'button', class: 'button', id: 'chart-print' }, 'Print at actual size');
+  pr.addEventListener('click', () => printChart(state));
+  dl.append(pr);
+  left.append(dl);
+  const ruler = el('div', { class: 'ruler-box' });
+  ruler.append(el('p', {}, 'Print at 100 %, with "fit to page" or "scale to fit" turned off. Then measure the 100 mm ruler on the print with a good rule.'));
+  ruler.append(field('The ruler measures', number('ruler', { min: 80, max: 120, step: 0.1, placeholder: '100.0' }, update), 'mm on my print (the chart is redrawn to correct the printer\'s scale)'));
+  left.append(ruler);
+  grid.append(left);
+
+  // The planner.
+  const right = el('section', { class: 'panel', 'aria-labelledby': 'plan-title' });
+  right.append(el('h2', { id: 'plan-title' }, 'Plan the shot'));
+  const p = el('div', { class: 'form-grid' });
+  p.append(field('Focal length', number('focal', { min: 1, max: 2000, step: 1 }, update), 'mm'));
+  p.append(field('Sensor', select('sensor', [['full-frame', 'Full frame, 36 × 24 mm'], ['aps-c', 'APS-C, about 23.5 × 15.6 mm'], ['four-thirds', 'Four Thirds, 17.3 × 13 mm'], ['1-inch', '1-inch type, 13.2 × 8.8 mm']], update)));
+  const px = el('div', { class: 'field inline' });
+  px.append(el('span', {}, 'Photo size'), number('pixelsW', { min: 100, max: 20000, step: 1, 'aria-label': 'Photo width in pixels' }, update), ' × ', number('pixelsH', { min: 100, max: 20000, step: 1, 'aria-label': 'Photo height in pixels' }, update), ' px');
+  p.append(px);
+  p.append(field('Paper surface', select('surface', [['photo', 'Coated photo paper'], ['plain', 'Plain paper']], update)));
+  right.append(p);
+  right.append(el('div', { id: 'plan-result', 'aria-live': 'polite' }));
+  grid.append(right);
+}
+
+async function refresh(root, state) {
+  const my = ++seq;
+  const err = root.querySelector('#chart-error');
+  try {
+    const svg = await state.pool.call('chart', [JSON.stringify(chartOptions()), 'svg']);
+    if (my !== seq) return;
+    if (previewURL) URL.revokeObjectURL(previewURL);
+    previewURL = URL.createObjectURL(new Blob([svg], { type: 'image/svg+xml' }));
+    const img = el('img', { src: previewURL, alt: 'The chart as it will print' });
+    root.querySelector('#chart-preview').replaceChildren(img);
+    err.hidden = true;
+  } catch (e) {
+    if (my !== seq) return;
+    err.hidden = false;
+    err.textContent = e.message;
+  }
+  try {
+    const plan = JSON.parse(await state.pool.call('plan', [JSON.stringify(planOptions(state))]));
+    if (my !== seq) return;
+    showPlan(root.querySelector('#plan-result'), plan);
+  } catch (e) {
+    if (my !== seq) return;
+    root.querySelector('#plan-result').replaceChildren(el('p', { class: 'notes' }, e.message));
+  }
+}
+
+function showPlan(box, p) {
+  box.replaceChildren();
+  const verdict = el('p', { class: `verdict verdict-${p.verdict}` }, p.summary);
+  box.append(verdict);
+  const dl = el('dl', { class: 'plan-numbers' });
+  const row = (k, v) => dl.append(el('dt', {}, k), el('dd', {}, v));
+  row('Sensor to chart', `${fmt(p.sensor_to_chart_mm / 1000, 2)} m (${fmt(p.distance_focal_lengths, 0)} focal lengths)`);
+  row('Magnification', `1 : ${fmt(1 / p.magnification, 1)}`);
+  row('Chart on paper', `${fmt(p.chart_mm[0], 0)} × ${fmt(p.chart_mm[1], 0)} mm (${p.paper}, filled along its ${p.limited_by})`);
+  for (const f of p.frequencies) row(`${f.sensor_lp_mm} lp/mm on the sensor`, `${fmt(f.paper_lp_mm, 2)} lp/mm on paper; the print keeps ${Math.round(100 * f.print_mtf)} % of its contrast`);
+  if (p.nyquist) row('Nyquist on paper', `${fmt(p.nyquist.paper_lp_mm, 2)} lp/mm; the print keeps ${Math.round(100 * p.nyquist.print_mtf)} %`);
+  box.append(dl);
+  if (p.advice && p.advice.length) {
+    const ul = el('ul', { class: 'advice' });
+    for (const a of p.advice) ul.append(el('li', {}, a));
+    box.append(ul);
+  }
+  for (const w of p.warnings || []) box.append(el('p', { class: 'notes' }, w));
+}
+
+async function download(state, format) {
+  const bytes = await state.pool.call('chart', [JSON.stringify(chartOptions()), format]);
+  const type = { pdf: 'application/pdf', svg: 'image/svg+xml', png: 'image/png' }[format];
+  const o = chartOptions();
+  const name = `sagitta-chart-${(o.paper === 'custom' ? o.paper_mm.join('x') + 'mm' : o.paper).replace('+', 'plus')}-${o.orientation}.${format}`;
+  saveBlob(new Blob([bytes], { type }), name);
+}
+
+// printChart prints the chart's SVG alone, on a page of its exact size
+// (the SVG's width and height are in millimetres).
+async function printChart(state) {
+  const svg = new TextDecoder().decode(await state.pool.call('chart', [JSON.stringify(chartOptions()), 'svg']));
+  const doc = new DOMParser().parseFromString(svg, 'image/svg+xml').documentElement;
+  const w = doc.getAttribute('width');
+  const h = doc.getAttribute('height');
+  const box = el('div', { class: 'print-sheet' });
+  box.append(document.importNode(doc, true));
+  document.body.append(box);
+  const style = el('style');
+  style.textContent = `@page { size: ${w} ${h}; margin: 0; } @media print { body > *:not(.print-sheet) { display: none !important; } .print-sheet { display: block !important; } .print-sheet svg { width: ${w}; height: ${h}; display: block; } }`;
+  document.head.append(style);
+  document.body.classList.add('printing-chart');
+  const done = () => {
+    box.remove();
+    style.remove();
+    document.body.classList.remove('printing-chart');
+    window.removeEventListener('afterprint', done);
+  };
+  window.addEventListener('afterprint', done);
+  window.print();
+}

@@ -1,0 +1,100 @@
+// The messages between the page (main thread) and its measuring workers.
+//
+// Each worker holds one instance of Sagitta's Go core compiled to
+// WebAssembly (wasm/main.go) and runs one job at a time. The page keeps a
+// small pool of workers (pool.js) and spreads photos over them. This file is
+// the one description of the protocol; worker.js (a classic script, which
+// cannot import modules) uses the same type strings literally.
+//
+// Page -> worker
+//
+//   {type: "init", module}
+//       module: a compiled WebAssembly.Module of the core. Sent once, first.
+//       The worker instantiates it and answers {type: "ready", functions}
+//       (functions: the names in CALLS that this build of the core has), or
+//       {type: "error", id: 0, message, fatal: true} if it cannot.
+//
+//   {type: "analyze", id, name, bytes, settings, previewSide}
+//       Measure one photo. bytes: the file's ArrayBuffer, transferred (never
+//       copied); settings: the analysis settings as a JSON string (the Go
+//       type analyze.Settings); previewSide: 0, or the largest side in px of
+//       a grey preview to return with the result (for TIFF, which browsers
+//       cannot display).
+//
+//   {type: "call", id, fn, args}
+//       Run one of the core's other functions (fn: "csv", "json", "plot", "palette", "chart",
+//       "plan", "demo"; see CALLS in worker.js); args: an array of strings
+//       or numbers. Quick jobs, queued ahead of photos.
+//
+// Worker -> page
+//
+//   {type: "ready", functions}                   after init
+//   {type: "progress", id, stage, fraction}      stage in words ("reading",
+//                                                "finding targets",
+//                                                "measuring", "summarising"),
+//                                                fraction of the job, 0..1
+//   {type: "result", id, result, preview}        result: for "analyze" the
+//                                                photo's analysis (one entry
+//                                                of the JSON contract's
+//                                                "images"), for "call" the
+//                                                function's value; preview:
+//                                                null or {width, height,
+//                                                factor, pixels (Uint8Array,
+//                                                grey)}, transferred
+//   {type: "error", id, message, fatal}          message: one plain line;
+//                                                fatal: the Go instance is
+//                                                dead and the worker must be
+//                                                replaced
+//
+// Rules
+//   - Every reply carries the id of its job; the page drops replies whose id
+//     is not the job it is waiting for (a stale reply from a cancelled job).
+//   - A Go panic never kills a worker silently: the core turns it into an
+//     error message; if the Go program itself has stopped, the error is
+//     fatal and the pool replaces the worker.
+//   - Cancelling a running job terminates its worker (a running WebAssembly
+//     call cannot be interrupted) and starts a fresh one.
+
+/** Message types, page -> worker. */
+export const TO_WORKER = Object.freeze({
+  init: 'init',
+  analyze: 'analyze',
+  call: 'call',
+});
+
+/** Message types, worker -> page. */
+export const FROM_WORKER = Object.freeze({
+  ready: 'ready',
+  progress: 'progress',
+  result: 'result',
+  error: 'error',
+});
+
+/** Functions a "call" message may name (see CALLS in worker.js). */
+export const CALLS = Object.freeze(['csv', 'json', 'plot', 'palette', 'chart', 'plan', 'demo']);
+
+/**
+ * analyzeMessage builds an "analyze" message and its transfer list.
+ * @param {number} id
+ * @param {string} name file name
+ * @param {ArrayBuffer} bytes the file, transferred
+ * @param {object} settings analysis settings (see settingsForCore in settings.js)
+ * @param {number} previewSide 0 or the largest side of a preview, px
+ */
+export function analyzeMessage(id, name, bytes, settings, previewSide) {
+  return {
+    message: { type: TO_WORKER.analyze, id, name, bytes, settings: JSON.stringify(settings), previewSide },
+    transfer: [bytes],
+  };
+}
+
+/**
+ * callMessage builds a "call" message.
+ * @param {number} id
+ * @param {string} fn one of CALLS
+ * @param {Array<string|number>} args
+ */
+export function callMessage(id, fn, args) {
+  if (!CALLS.includes(fn)) throw new Error(`unknown core function "${fn}"`);
+  return { message: { type: TO_WORKER.call, id, fn, args }, transfer: [] };
+}
