@@ -3,6 +3,7 @@ package edge
 import (
 	"fmt"
 	"math"
+	"math/rand/v2"
 	"strings"
 	"testing"
 
@@ -383,4 +384,28 @@ func TestSteepAndCriticalAngles(t *testing.T) {
 		}
 	}
 	t.Logf("steep and critical angles (sigma %.1f px):\n%s", sg, table.String())
+}
+
+func TestTrimmedSigma(t *testing.T) {
+	// Differences of pairs of normal samples with sigma 0.02 have sigma
+	// 0.02 sqrt(2); the trimmed estimate must give back 0.02 (truncated
+	// normal moments, Johnson, Kotz and Balakrishnan ch. 13), and stay
+	// above zero on quantised data where most pairs are equal.
+	rng := rand.New(rand.NewPCG(7, 11))
+	d := make([]float64, 20000)
+	for i := range d {
+		d[i] = math.Abs(0.02 * (rng.NormFloat64() - rng.NormFloat64()))
+	}
+	if got := trimmedSigma(d); math.Abs(got/0.02-1) > 0.03 {
+		t.Errorf("sigma %.5f, want 0.02 within 3 %%", got)
+	}
+	q := make([]float64, 1000)
+	for i := range q {
+		if i%5 == 0 {
+			q[i] = 1.0 / 255
+		}
+	}
+	if trimmedSigma(q) == 0 {
+		t.Error("quantised differences gave zero noise")
+	}
 }

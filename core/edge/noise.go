@@ -11,10 +11,15 @@ import (
 // differences between pixels next to each other along the edge: two such
 // pixels see almost the same part of the edge profile (their distances from
 // the edge differ by sin(slant) px), so their difference is noise plus a
-// tiny share of the profile's slope. The median absolute difference makes
-// the estimate robust to stray detail: sigma = 1.4826 MAD / sqrt(2), the
-// consistency factor of the MAD for a normal distribution (F. R. Hampel,
-// JASA 69 (1974), p. 383). Only pixels farther than core px from the edge
+// tiny share of the profile's slope. The largest 2 % of the differences are
+// dropped (stray detail), and the rms of the rest, divided by sqrt(2) for
+// the difference of two samples and by sqrt(0.8730) for the trimming, is
+// the noise: for a normal distribution cut at its 98th percentile of |d|
+// (2.326 sigma), the remaining variance is 1 - 2 (2.326) phi(2.326) / 0.98
+// = 0.8730 of the whole (moments of the truncated normal; N. L. Johnson,
+// S. Kotz and N. Balakrishnan, Continuous Univariate Distributions, vol. 1,
+// 2nd ed., ch. 13). A median-based estimate would read zero on quantised
+// 8-bit files, where most neighbours are equal. Only pixels farther than core px from the edge
 // count, so the profile's steep part does not pass for noise; a profile
 // with long, slowly falling tails (diffraction, flare) does not either,
 // which a spread about a fitted line would mistake for noise.
@@ -64,14 +69,26 @@ func pairNoise(p *plane.Plane, r Region, f lineFit, flipped bool, core float64) 
 			}
 		}
 	}
-	return madSigma(dd), madSigma(dl)
+	return trimmedSigma(dd), trimmedSigma(dl)
 }
 
-// madSigma converts absolute pair differences into a noise rms.
-func madSigma(d []float64) float64 {
+// trimFraction is the share of the largest pair differences left out.
+const trimFraction = 0.02
+
+// trimmedVariance is the variance that remains of a normal distribution
+// cut at the 1 - trimFraction quantile of |d| (see pairNoise).
+const trimmedVariance = 0.8730
+
+// trimmedSigma converts absolute pair differences into a noise rms.
+func trimmedSigma(d []float64) float64 {
 	if len(d) < 8 {
 		return 0
 	}
 	sort.Float64s(d)
-	return 1.4826 * d[len(d)/2] / math.Sqrt2
+	keep := d[:len(d)-int(trimFraction*float64(len(d)))]
+	var ss float64
+	for _, v := range keep {
+		ss += v * v
+	}
+	return math.Sqrt(ss/float64(len(keep))/trimmedVariance) / math.Sqrt2
 }
