@@ -196,7 +196,7 @@ export function renderCompare(root, state) {
 // of medians outside the centre.
 function gapWords(r, fi) {
   const a = r.summary && r.summary.astigmatism.find((a) => a.freq_lp_mm === r.freqs_lp_mm[fi]);
-  if (a) return `${a.max_gap >= 0 ? '+' : ''}${a.max_gap.toFixed(2)} ± ${a.max_gap_se.toFixed(2)} at ${a.max_gap_height_mm.toFixed(1)} mm`;
+  if (a) return `${a.max_gap >= 0 ? '+' : ''}${a.max_gap.toFixed(2)} ± ${seText(a.max_gap_se)} at ${a.max_gap_height_mm.toFixed(1)} mm`;
   const g = gap(r, fi);
   return Number.isFinite(g) ? `${g >= 0 ? '+' : ''}${g.toFixed(2)}` : 'n/a';
 }
@@ -208,7 +208,7 @@ function summaryBalanceWords(s, f) {
   for (const p of s.balance.pairs || []) {
     if (!['left', 'top'].includes(p.a)) continue; // the halves; quarters are in the Measure place
     const d = p.by_freq.find((d) => d.freq_lp_mm === f);
-    if (d && d.notable) parts.push(`${d.diff < 0 ? p.a : p.b} softer by ${Math.abs(d.diff).toFixed(2)} ± ${d.se.toFixed(2)}`);
+    if (d && d.notable) parts.push(`${d.diff < 0 ? p.a : p.b} softer by ${Math.abs(d.diff).toFixed(2)} ± ${seText(d.se)}`);
   }
   return parts.length ? parts.join('; ') : 'balanced';
 }
@@ -222,4 +222,10 @@ function balanceWords(b) {
   if (tb) parts.push(tb);
   if (!Number.isFinite(b.leftRight) && !Number.isFinite(b.topBottom)) return 'n/a';
   return parts.length ? parts.join('; ') : 'even';
+}
+
+// seText shows a standard error to two decimals, or "<0.01" when it would
+// read as zero.
+function seText(se) {
+  return se < 0.005 ? '<0.01' : se.toFixed(2);
 }
