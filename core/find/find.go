@@ -21,7 +21,7 @@ import (
 
 // Options tunes the search. The zero value uses the defaults.
 type Options struct {
-	MinLengthPx    float64 // shortest usable edge, px (default 40)
+	MinLengthPx    float64 // shortest usable edge, px (default 28; edge measurements flag lengths under 40)
 	MaxHalfLenPx   float64 // longer edges are split into several regions of at most twice this, px (default 128)
 	MaxHalfWidthPx float64 // widest region across an edge, px each side (default 32)
 	MinHalfWidthPx float64 // narrowest acceptable region, px each side (default 10)
@@ -30,7 +30,7 @@ type Options struct {
 
 func (o Options) withDefaults() Options {
 	if o.MinLengthPx <= 0 {
-		o.MinLengthPx = 40
+		o.MinLengthPx = 28
 	}
 	if o.MaxHalfLenPx <= 0 {
 		o.MaxHalfLenPx = 128

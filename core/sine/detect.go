@@ -100,7 +100,10 @@ type Candidate struct {
 // reported once.
 func Find(p *plane.Plane, opt FindOptions) []Candidate {
 	opt = opt.withDefaults()
-	k := max(1, int(math.Ceil(float64(max(p.W, p.H))/float64(opt.CoarsePx))))
+	// The first level is at least CoarsePx across (the reduction rounds
+	// down): rounding up could leave the outer rim of a small star finer
+	// than the texture test sees at every level.
+	k := max(1, max(p.W, p.H)/opt.CoarsePx)
 	c := coarse.Shrink(p, k)
 	ws := newWorkspace(c.W * c.H)
 	var out []Candidate
