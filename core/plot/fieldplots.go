@@ -107,7 +107,7 @@ func FieldCurves(s *field.Summary, opt FieldOptions) *Figure {
 	rank := rankOf(s.FreqsLPMM)
 	nf := len(s.FreqsLPMM)
 	var all [][]float64
-	stars, mixed := false, false
+	stars, gratings, mixed := false, false, false
 
 	f.Data = Table{
 		Caption: "Field curves: smooth-curve samples and measured points",
@@ -137,7 +137,7 @@ func FieldCurves(s *field.Summary, opt FieldOptions) *Figure {
 		// Points: one series per orientation, kind and frequency; mixed
 		// first so the curves' own points sit on top.
 		for _, or := range []field.Orientation{field.Mixed, field.Sagittal, field.Tangential} {
-			for _, kind := range []string{"edge", "star"} {
+			for _, kind := range TargetKinds {
 				for _, k := range freqOrder(s.FreqsLPMM) {
 					var xs, ys []float64
 					for _, p := range s.Points {
@@ -155,6 +155,7 @@ func FieldCurves(s *field.Summary, opt FieldOptions) *Figure {
 						continue
 					}
 					stars = stars || kind == "star"
+					gratings = gratings || kind == "grating"
 					mixed = mixed || or == field.Mixed
 					all = append(all, ys)
 					pn.Series = append(pn.Series, Series{
@@ -186,6 +187,9 @@ func FieldCurves(s *field.Summary, opt FieldOptions) *Figure {
 			LegendEntry{Label: "Edge", Colour: InkColour, Marker: EdgeMarker})
 		if stars {
 			f.Legend = append(f.Legend, LegendEntry{Label: "Star", Colour: InkColour, Marker: StarMarker})
+		}
+		if gratings {
+			f.Legend = append(f.Legend, LegendEntry{Label: "Grating", Colour: InkColour, Marker: GratingMarker})
 		}
 	}
 	if opt.Band {

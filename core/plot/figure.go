@@ -104,16 +104,25 @@ const (
 	Cross
 )
 
-// EdgeMarker and StarMarker are the shapes of the two kinds of target.
+// EdgeMarker, StarMarker and GratingMarker are the shapes of the kinds of
+// target.
 const (
-	EdgeMarker = Circle
-	StarMarker = Triangle
+	EdgeMarker    = Circle
+	StarMarker    = Triangle
+	GratingMarker = Diamond
 )
 
-// KindMarker returns the marker shape for a target kind ("edge", "star").
+// TargetKinds lists the kinds of target in drawing order.
+var TargetKinds = []string{"edge", "star", "grating"}
+
+// KindMarker returns the marker shape for a target kind ("edge", "star",
+// "grating").
 func KindMarker(kind string) Marker {
-	if kind == "star" {
+	switch kind {
+	case "star":
 		return StarMarker
+	case "grating":
+		return GratingMarker
 	}
 	return EdgeMarker
 }

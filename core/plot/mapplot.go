@@ -54,8 +54,8 @@ func Map(s *field.Summary, opt MapOptions) *Figure {
 			}
 		}
 	}
-	stars := false
-	for _, kind := range []string{"edge", "star"} {
+	stars, gratings := false, false
+	for _, kind := range TargetKinds {
 		var xs, ys []float64
 		for _, p := range s.Points {
 			if p.Kind != kind {
@@ -66,6 +66,7 @@ func Map(s *field.Summary, opt MapOptions) *Figure {
 		}
 		if len(xs) > 0 {
 			stars = stars || kind == "star"
+			gratings = gratings || kind == "grating"
 			pn.Series = append(pn.Series, Series{Name: "Measured " + kind + "s", X: xs, Y: ys, Colour: InkColour, Marker: KindMarker(kind), MarkerSize: 2.4, Open: true})
 		}
 	}
@@ -74,6 +75,9 @@ func Map(s *field.Summary, opt MapOptions) *Figure {
 	f.Legend = []LegendEntry{{Label: "Edge", Colour: InkColour, Marker: EdgeMarker, Open: true}}
 	if stars {
 		f.Legend = append(f.Legend, LegendEntry{Label: "Star", Colour: InkColour, Marker: StarMarker, Open: true})
+	}
+	if gratings {
+		f.Legend = append(f.Legend, LegendEntry{Label: "Grating", Colour: InkColour, Marker: GratingMarker, Open: true})
 	}
 	f.Legend = append(f.Legend,
 		LegendEntry{Label: "Optical centre", Colour: InkColour, Marker: Cross},
