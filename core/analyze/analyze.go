@@ -4,7 +4,9 @@
 //
 // The command-line tool and the WebAssembly glue both call Run and nothing
 // else of the pipeline, so the browser and the native build give the same
-// numbers.
+// numbers. Resummarise applies a new pixel pitch, optical centre or field
+// frequencies to an existing Image without the photo (resummarise.go); Run
+// ends with the same step, so both give the same numbers.
 package analyze
 
 import (
@@ -13,19 +15,18 @@ import (
 	"fmt"
 	"math"
 	"runtime"
-	"sort"
 	"sync"
 
-	"sagitta/core/curve"
 	"sagitta/core/decode"
 	"sagitta/core/edge"
+	"sagitta/core/exif"
 	"sagitta/core/field"
 	"sagitta/core/find"
 )
 
 // Settings are the user's choices for one analysis. The zero value is valid
-// except that a pixel pitch must come from somewhere: PitchUM, SensorMM or
-// the photo's Exif.
+// except that a pixel pitch must come from somewhere: PitchUM, SensorMM,
+// the photo's Exif or FallbackSensorMM, in that order.
 type Settings struct {
 	PitchUM   float64     `json:"pitch_um,omitempty"`  // pixel pitch, micrometres
 	SensorMM  [2]float64  `json:"sensor_mm,omitempty"` // sensor width and height, mm (pitch = width / image width)
@@ -35,6 +36,11 @@ type Settings struct {
 	FreqsLPMM []float64   `json:"freqs_lp_mm,omitempty"`
 	MaxPixels int         `json:"max_pixels,omitempty"` // refuse larger photos; 0 = the decoder's default
 	Workers   int         `json:"-"`                    // parallel measurements; 0 = GOMAXPROCS
+
+	// FallbackSensorMM is the sensor size (mm) to assume when neither
+	// PitchUM nor SensorMM is given and the photo's Exif gives no usable
+	// pitch (the page's "read it from the file, else this format").
+	FallbackSensorMM [2]float64 `json:"fallback_sensor_mm,omitempty"`
 }
 
 // DefaultFreqsLPMM are the field frequencies used when none are given:
@@ -64,26 +70,13 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	if progress == nil {
 		progress = func(string, float64) {}
 	}
-	method, err := edge.ParseMethod(s.Method)
+	chk, err := s.check()
 	if err != nil {
 		return nil, err
-	}
-	tone, err := decode.ParseTone(s.Tone)
-	if err != nil {
-		return nil, err
-	}
-	freqs := s.FreqsLPMM
-	if len(freqs) == 0 {
-		freqs = DefaultFreqsLPMM
-	}
-	for _, f := range freqs {
-		if !(f > 0) || f > 1000 {
-			return nil, fmt.Errorf("analyze: field frequency %g lp/mm is outside (0, 1000]", f)
-		}
 	}
 
 	progress(StageReading, 0)
-	dec, err := decode.Decode(data, decode.Options{Tone: tone, MaxPixels: s.MaxPixels})
+	dec, err := decode.Decode(data, decode.Options{Tone: chk.tone, MaxPixels: s.MaxPixels})
 	if err != nil {
 		return nil, err
 	}
@@ -91,24 +84,15 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 		File: name, Width: dec.Width, Height: dec.Height,
 		Format: dec.Format, BitDepth: dec.BitDepth,
 		Tone: dec.Tone.String(), ToneSource: dec.ToneSource,
-		Method: method.String(), FreqsLPMM: freqs, Exif: dec.Exif,
+		Method: chk.method.String(), Exif: dec.Exif,
 		Measurements: []Measurement{}, Rejected: []Rejected{},
 		Stars: []StarInfo{}, Gratings: []GratingInfo{},
 		Warnings: append([]string{}, dec.Warnings...),
 	}
-	img.PitchUM, img.PitchSource, err = pitch(s, dec)
+	geo, err := placeFrame(img, s, chk.freqs)
 	if err != nil {
 		return nil, err
 	}
-	geo := field.NewGeometry(dec.Width, dec.Height, img.PitchUM)
-	if s.CenterPx != nil {
-		geo.CenterX, geo.CenterY = s.CenterPx[0], s.CenterPx[1]
-	}
-	if err := geo.Validate(); err != nil {
-		return nil, err
-	}
-	img.CenterPx = [2]float64{geo.CenterX, geo.CenterY}
-	img.CornerMM = geo.CornerMM()
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
@@ -126,7 +110,7 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	}
 
 	progress(StageMeasuring, 0.3)
-	results := measureAll(ctx, dec, cands, method, s.Workers, func(done int) {
+	results := measureAll(ctx, dec, cands, chk.method, s.Workers, func(done int) {
 		progress(StageMeasuring, 0.3+0.6*float64(done)/float64(max(len(cands), 1)))
 	})
 	if err := ctx.Err(); err != nil {
@@ -144,37 +128,76 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 			img.Rejected = append(img.Rejected, rejectOf(c.Region, reason))
 			continue
 		}
-		img.Measurements = append(img.Measurements, record(r.m, c.Region, geo, freqs))
+		img.Measurements = append(img.Measurements, record(r.m, c.Region))
 	}
-	img.Measurements = append(img.Measurements, pats.records(img, geo, freqs)...)
+	img.Measurements = append(img.Measurements, pats.starRecords(img, geo)...)
+	img.Gratings = gratingInfos(pats.gratings)
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
 	recogniseChart(dec, img) // tags measurements on Sagitta's chart (chart.go)
-	nEdges := 0
-	for _, m := range img.Measurements {
-		if m.Kind == "edge" {
-			nEdges++
-		}
-	}
-	sort.SliceStable(img.Measurements, func(a, b int) bool {
-		return img.Measurements[a].HeightMM < img.Measurements[b].HeightMM
-	})
-	for i := range img.Measurements {
-		img.Measurements[i].ID = i + 1
-	}
-	agreement(img)
-	if len(img.Measurements) == 0 {
+	err = summarise(img, geo, img.Warnings)
+	if errors.Is(err, errNoRecords) {
 		return nil, noTargets(img.Rejected)
 	}
-	if nEdges == 0 {
-		img.Warnings = append(img.Warnings, "no measurable edge was found in this photo, only sine patterns")
-	}
-	if img.Summary, err = field.Summarise(geo, fieldPoints(img.Measurements), freqs); err != nil {
+	if err != nil {
 		return nil, err
 	}
 	progress(StageSumming, 1)
 	return img, nil
+}
+
+// checked holds the settings Run and Resummarise read before using them.
+type checked struct {
+	method edge.Method
+	tone   decode.Tone
+	freqs  []float64 // field frequencies, lp/mm
+}
+
+// check parses the estimator and the tone and validates the field
+// frequencies (DefaultFreqsLPMM when none are given).
+func (s Settings) check() (checked, error) {
+	var c checked
+	var err error
+	if c.method, err = edge.ParseMethod(s.Method); err != nil {
+		return c, err
+	}
+	if c.tone, err = decode.ParseTone(s.Tone); err != nil {
+		return c, err
+	}
+	c.freqs = s.FreqsLPMM
+	if len(c.freqs) == 0 {
+		c.freqs = DefaultFreqsLPMM
+	}
+	for _, f := range c.freqs {
+		if !(f > 0) || f > 1000 {
+			return c, fmt.Errorf("analyze: field frequency %g lp/mm is outside (0, 1000]", f)
+		}
+	}
+	return c, nil
+}
+
+// placeFrame sets the image's pixel pitch and its source, optical centre,
+// corner height and field frequencies from the settings, and returns the
+// field geometry they make. Run and Resummarise both place the frame with
+// it.
+func placeFrame(img *Image, s Settings, freqs []float64) (field.Geometry, error) {
+	var err error
+	img.PitchUM, img.PitchSource, err = pitch(s, img.Width, img.Exif)
+	if err != nil {
+		return field.Geometry{}, err
+	}
+	geo := field.NewGeometry(img.Width, img.Height, img.PitchUM)
+	if s.CenterPx != nil {
+		geo.CenterX, geo.CenterY = s.CenterPx[0], s.CenterPx[1]
+	}
+	if err := geo.Validate(); err != nil {
+		return field.Geometry{}, err
+	}
+	img.CenterPx = [2]float64{geo.CenterX, geo.CenterY}
+	img.CornerMM = geo.CornerMM()
+	img.FreqsLPMM = append([]float64(nil), freqs...)
+	return geo, nil
 }
 
 // ErrNoTargets is returned (wrapped) when a photo holds nothing measurable.
@@ -199,17 +222,21 @@ func noTargets(rej []Rejected) error {
 	return fmt.Errorf("analyze: %w: %d candidates set aside, most often because: %s", ErrNoTargets, len(rej), best)
 }
 
-// pitch chooses the pixel pitch: the user's value, else the sensor width
-// over the image width, else the Exif focal-plane resolution.
-func pitch(s Settings, dec *decode.Image) (float64, string, error) {
+// pitch chooses the pixel pitch of an image widthPx wide: the user's value,
+// else the sensor width over the image width, else the Exif focal-plane
+// resolution, else the fallback sensor's width over the image width.
+func pitch(s Settings, widthPx int, tags exif.Tags) (float64, string, error) {
 	switch {
 	case s.PitchUM > 0:
 		return s.PitchUM, "user", nil
 	case s.SensorMM[0] > 0:
-		return s.SensorMM[0] * 1000 / float64(dec.Width), "sensor size", nil
+		return s.SensorMM[0] * 1000 / float64(widthPx), "sensor size", nil
 	}
-	if p, ok := dec.Exif.PixelPitchUM(); ok && p > 0.3 && p < 50 {
+	if p, ok := tags.PixelPitchUM(); ok && p > 0.3 && p < 50 {
 		return p, "Exif focal-plane resolution", nil
+	}
+	if s.FallbackSensorMM[0] > 0 {
+		return s.FallbackSensorMM[0] * 1000 / float64(widthPx), "sensor size", nil
 	}
 	return 0, "", errors.New("analyze: the pixel pitch is unknown: give it in um, or the sensor size in mm")
 }
@@ -304,39 +331,28 @@ func plainError(err error) string {
 	return msg
 }
 
-// record turns an edge measurement into the contract's record.
-func record(m *edge.Measurement, r edge.Region, geo field.Geometry, freqs []float64) Measurement {
-	o, ang := geo.Classify(m.X, m.Y, m.NormalDeg)
-	c := m.Curve
+// record turns an edge measurement into the contract's record, but for
+// what depends on the settings' geometry and field frequencies (see place).
+func record(m *edge.Measurement, r edge.Region) Measurement {
 	rec := Measurement{
 		Kind: "edge", XPx: m.X, YPx: m.Y,
-		HeightMM:       geo.HeightMM(m.X, m.Y),
-		Orientation:    o,
-		RadiusAngleDeg: Number(ang),
-		NormalDeg:      m.NormalDeg,
-		MTF50:          Number(c.MTF50()),
-		MTF50P:         Number(c.MTF50P()),
-		MTFNyquist:     Number(c.AtNyquist()),
-		Freq:           c.Freq,
-		MTF:            c.Value,
-		Warnings:       []string{},
-		Flags:          []string{},
-		Region:         r.Corners(),
-		LengthPx:       m.LengthPx,
-		SlantDeg:       m.SlantDeg,
-		SNR:            Number(m.SNR),
-		Overshoot:      m.Overshoot,
-		ESF:            m.ESF,
-		LSF:            m.LSF,
+		NormalDeg: m.NormalDeg,
+		Freq:      m.Curve.Freq,
+		MTF:       m.Curve.Value,
+		Warnings:  []string{},
+		Flags:     []string{},
+		Region:    r.Corners(),
+		LengthPx:  m.LengthPx,
+		SlantDeg:  m.SlantDeg,
+		SNR:       Number(m.SNR),
+		Overshoot: m.Overshoot,
+		ESF:       m.ESF,
+		LSF:       m.LSF,
 	}
-	rec.MTF50LPMM = Number(curve.LPPerMM(float64(rec.MTF50), geo.PitchUM))
 	if m.Dark > 0 {
 		rec.Contrast = Number(m.Light / m.Dark)
 	} else {
 		rec.Contrast = Number(math.Inf(1))
-	}
-	for _, f := range freqs {
-		rec.MTFAtFreqs = append(rec.MTFAtFreqs, Number(c.At(curve.CyPerPx(f, geo.PitchUM))))
 	}
 	for _, f := range m.Flags {
 		rec.Warnings = append(rec.Warnings, flagText[f])

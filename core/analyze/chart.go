@@ -56,9 +56,9 @@ type MissingTarget struct {
 // recogniseChart looks for Sagitta's chart in the photo. When it is there,
 // it tags every measurement with the target under it, sets aside edge
 // measurements and rejected runs that lie on marks or sine patterns (they
-// are counted, not listed), lists the targets with
-// no measurement and adds the set-up checks to the warnings. Photos without
-// the chart's marks are left exactly as they were.
+// are counted, not listed) and lists the targets with no measurement; the
+// set-up checks, which depend on the pixel pitch, are left to checkSetup.
+// Photos without the chart's marks are left exactly as they were.
 func recogniseChart(dec *decode.Image, img *Image) {
 	pose, note := chart.Recognise(dec.Lum)
 	if pose == nil {
@@ -67,16 +67,11 @@ func recogniseChart(dec *decode.Image, img *Image) {
 		}
 		return
 	}
-	focalPx := 0.0
-	if f := dec.Exif.FocalLengthMM; f > 0 && img.PitchUM > 0 {
-		focalPx = f * 1000 / img.PitchUM
-	}
 	cr := &ChartResult{
 		Code: pose.Code.String(), Marks: pose.Marks, Homography: pose.H,
-		Setup: pose.Check(focalPx), Patterns: []PatternTarget{}, Missing: []MissingTarget{}, OutsideFrame: []string{},
+		Patterns: []PatternTarget{}, Missing: []MissingTarget{}, OutsideFrame: []string{},
 	}
 	img.Chart = cr
-	img.Warnings = append(img.Warnings, cr.Setup.Warnings...)
 
 	type key struct {
 		id   string
@@ -189,4 +184,31 @@ func recogniseChart(dec *decode.Image, img *Image) {
 		}
 	}
 	sort.SliceStable(cr.Missing, func(a, b int) bool { return cr.Missing[a].TargetID < cr.Missing[b].TargetID })
+}
+
+// checkSetup sets the chart's set-up checks (chart.Pose.Check) from the
+// stored chart code and homography: the tilt needs the focal length in
+// pixels, from the Exif focal length and the pixel pitch. Run and
+// Resummarise both check the set-up with it.
+func checkSetup(img *Image) error {
+	cr := img.Chart
+	code, err := chart.ParseCode(cr.Code)
+	if err != nil {
+		return err
+	}
+	d, err := chart.NewDesign(code)
+	if err != nil {
+		return err
+	}
+	inv, ok := cr.Homography.Inverse()
+	if !ok {
+		return ResultError("the chart's homography cannot be inverted")
+	}
+	pose := &chart.Pose{Code: code, Design: d, H: cr.Homography, Inv: inv, Marks: cr.Marks, W: img.Width, Hpx: img.Height}
+	focalPx := 0.0
+	if f := img.Exif.FocalLengthMM; f > 0 && img.PitchUM > 0 {
+		focalPx = f * 1000 / img.PitchUM
+	}
+	cr.Setup = pose.Check(focalPx)
+	return nil
 }

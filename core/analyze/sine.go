@@ -327,13 +327,16 @@ func grow(q [4][2]float64, m float64) [4][2]float64 {
 	return q
 }
 
-// records returns the measurement records of the stars (one per
-// orientation: sagittal and tangential, or two mixed ones at the optical
-// centre) and of the grating sets, and fills img.Stars and img.Gratings.
-func (ps *patterns) records(img *Image, geo field.Geometry, freqs []float64) []Measurement {
+// starRecords returns the measurement records of the stars, one per
+// orientation: along and across the field radius through the star (at the
+// optical centre, +x and +y), and fills img.Stars. Each star's segments
+// were aligned with that radius when it was measured (findPatterns), so the
+// records depend on the optical centre; what depends on the pitch and the
+// field frequencies is left to place.
+func (ps *patterns) starRecords(img *Image, geo field.Geometry) []Measurement {
 	var out []Measurement
 	for i, s := range ps.stars {
-		info := StarInfo{ID: i + 1, XPx: s.X, YPx: s.Y, HeightMM: geo.HeightMM(s.X, s.Y),
+		info := StarInfo{ID: i + 1, XPx: s.X, YPx: s.Y,
 			CentreUncPx: s.CentreUncPx, Cycles: s.Cycles, RadiusPx: s.RadiusPx, InnerPx: s.InnerPx,
 			OuterPx: s.OuterPx, Modulation: s.Modulation, RefFreq: s.RefFreq, MaxFreq: s.MaxFreq, Resolved: s.ResolvedFreq,
 			AliasMod: s.AliasMod, Segments: s.Segments, Flags: []string{}, Warnings: []string{}, Records: []int{}}
@@ -349,8 +352,7 @@ func (ps *patterns) records(img *Image, geo field.Geometry, freqs []float64) []M
 			if dir > 180-1e-9 {
 				dir = 0
 			}
-			o, ang := geo.Classify(s.X, s.Y, dir)
-			rec := patternRecord("star", s.X, s.Y, o, ang, dir, c, geo, freqs, s.RefFreq, s.MaxFreq)
+			rec := patternRecord("star", s.X, s.Y, dir, c, s.RefFreq, s.MaxFreq)
 			rec.PatternID = info.ID
 			rec.StdErr = se
 			rec.Flags, rec.Warnings = append(rec.Flags, info.Flags...), append(rec.Warnings, info.Warnings...)
@@ -369,19 +371,16 @@ func (ps *patterns) records(img *Image, geo field.Geometry, freqs []float64) []M
 		}
 		img.Stars = append(img.Stars, info)
 	}
-	out = append(out, ps.gratingRecords(img, geo, freqs)...)
 	return out
 }
 
-// gratingRecords measures every grating against the sheet's reference (the
-// grating of lowest frequency in the photo), fills img.Gratings and
-// returns one record per set of gratings: gratings of one orientation and
-// direction (within 10 degrees) lying close together (centres within 1.5
-// times the sum of their half-diagonals).
-func (ps *patterns) gratingRecords(img *Image, geo field.Geometry, freqs []float64) []Measurement {
-	gs := ps.gratings
+// gratingInfos describes every measured grating, measured against the
+// sheet's reference (the grating of lowest frequency in the photo); the
+// image height and orientation are set by gratingRecords.
+func gratingInfos(gs []*sine.Grating) []GratingInfo {
+	out := []GratingInfo{}
 	if len(gs) == 0 {
-		return nil
+		return out
 	}
 	ref := 0
 	for i, g := range gs {
@@ -390,14 +389,9 @@ func (ps *patterns) gratingRecords(img *Image, geo field.Geometry, freqs []float
 		}
 	}
 	weakRef := gs[ref].FreqCyPx > maxRefFreqCyPx
-	half := func(g *sine.Grating) float64 {
-		q := g.Corners
-		return 0.5 * math.Hypot(q[2][0]-q[0][0], q[2][1]-q[0][1])
-	}
 	for i, g := range gs {
-		o, _ := geo.Classify(g.X, g.Y, g.DirectionDeg)
-		info := GratingInfo{ID: i + 1, XPx: g.X, YPx: g.Y, HeightMM: geo.HeightMM(g.X, g.Y),
-			Corners: g.Corners, FreqCyPx: g.FreqCyPx, DirectionDeg: g.DirectionDeg, Orientation: o,
+		info := GratingInfo{ID: i + 1, XPx: g.X, YPx: g.Y,
+			Corners: g.Corners, FreqCyPx: g.FreqCyPx, DirectionDeg: g.DirectionDeg,
 			Modulation: g.Modulation, ModStdErr: g.ModStdErr, MTF: Number(math.NaN()), Reference: i == ref, Flags: []string{}}
 		if i != ref && gs[ref].Modulation > 0 {
 			info.MTF = Number(g.Modulation / gs[ref].Modulation)
@@ -408,7 +402,34 @@ func (ps *patterns) gratingRecords(img *Image, geo field.Geometry, freqs []float
 		if weakRef {
 			info.Flags = append(info.Flags, string(sine.FlagWeakReference))
 		}
-		img.Gratings = append(img.Gratings, info)
+		out = append(out, info)
+	}
+	return out
+}
+
+// gratingRecords sets the image height and orientation of every grating in
+// img.Gratings and returns one record per set of gratings: gratings of one
+// orientation and direction (within 10 degrees) lying close together
+// (centres within 1.5 times the sum of their half-diagonals), the
+// reference left out. Sets depend on the orientations, so on the optical
+// centre. Values are modulation ratios to the reference, computed from the
+// modulations (full precision) rather than from GratingInfo.MTF.
+func gratingRecords(img *Image, geo field.Geometry) []Measurement {
+	gs := img.Gratings
+	ref := -1
+	for i, g := range gs {
+		img.Gratings[i].HeightMM = geo.HeightMM(g.XPx, g.YPx)
+		img.Gratings[i].Orientation, _ = geo.Classify(g.XPx, g.YPx, g.DirectionDeg)
+		if g.Reference {
+			ref = i
+		}
+	}
+	if ref < 0 {
+		return nil
+	}
+	half := func(g GratingInfo) float64 {
+		q := g.Corners
+		return 0.5 * math.Hypot(q[2][0]-q[0][0], q[2][1]-q[0][1])
 	}
 	// Sets by single linkage.
 	set := make([]int, len(gs))
@@ -424,11 +445,11 @@ func (ps *patterns) gratingRecords(img *Image, geo field.Geometry, freqs []float
 	}
 	for i := range gs {
 		for j := i + 1; j < len(gs); j++ {
-			a, b := img.Gratings[i], img.Gratings[j]
+			a, b := gs[i], gs[j]
 			if a.Orientation != b.Orientation || axisDiff(a.DirectionDeg, b.DirectionDeg) > 10 {
 				continue
 			}
-			if math.Hypot(a.XPx-b.XPx, a.YPx-b.YPx) <= 1.5*(half(gs[i])+half(gs[j])) {
+			if math.Hypot(a.XPx-b.XPx, a.YPx-b.YPx) <= 1.5*(half(a)+half(b)) {
 				set[root(j)] = root(i)
 			}
 		}
@@ -456,25 +477,23 @@ func (ps *patterns) gratingRecords(img *Image, geo field.Geometry, freqs []float
 		for _, i := range members {
 			g := gs[i]
 			c.Freq = append(c.Freq, g.FreqCyPx)
-			c.Value = append(c.Value, float64(img.Gratings[i].MTF))
+			c.Value = append(c.Value, g.Modulation/gs[ref].Modulation)
 			se = append(se, g.ModStdErr/gs[ref].Modulation)
-			x += g.X / float64(len(members))
-			y += g.Y / float64(len(members))
+			x += g.XPx / float64(len(members))
+			y += g.YPx / float64(len(members))
 			dir = g.DirectionDeg
-			for _, f := range img.Gratings[i].Flags {
+			for _, f := range g.Flags {
 				flags[f] = true
 			}
 		}
-		o, ang := geo.Classify(x, y, dir)
-		rec := patternRecord("grating", x, y, o, ang, dir, c, geo, freqs, c.Freq[1], c.Freq[len(c.Freq)-1])
-		rec.PatternID = img.Gratings[members[0]].ID
+		rec := patternRecord("grating", x, y, dir, c, c.Freq[1], c.Freq[len(c.Freq)-1])
+		rec.PatternID = gs[members[0]].ID
 		rec.StdErr = se
 		for _, f := range sortedKeys(flags) {
 			rec.Flags = append(rec.Flags, f)
 			rec.Warnings = append(rec.Warnings, sineFlagText[sine.Flag(f)])
 		}
-		q := gs[members[0]].Corners
-		rec.Region = q
+		rec.Region = gs[members[0]].Corners
 		out = append(out, rec)
 	}
 	return out
@@ -484,50 +503,29 @@ func (ps *patterns) gratingRecords(img *Image, geo field.Geometry, freqs []float
 // own MTF is taken as 1 without a warning.
 const maxRefFreqCyPx = 0.05
 
-// patternRecord builds the common part of a star or grating record. The
-// MTF50 figures are given only where the crossing lies within the measured
-// interval [lo, hi].
-func patternRecord(kind string, x, y float64, o field.Orientation, ang, dir float64, c curve.Curve, geo field.Geometry, freqs []float64, lo, hi float64) Measurement {
-	inRange := func(f float64) Number {
-		if f >= lo && f <= hi {
-			return Number(f)
-		}
-		return Number(math.NaN())
-	}
-	rec := Measurement{
+// patternRecord builds the common part of a star or grating record whose
+// direction of measurement is dir degrees and which measured the
+// frequencies [lo, hi] of curve c (see place for the rest).
+func patternRecord(kind string, x, y, dir float64, c curve.Curve, lo, hi float64) Measurement {
+	return Measurement{
 		Kind: kind, XPx: x, YPx: y,
-		HeightMM:       geo.HeightMM(x, y),
-		Orientation:    o,
-		RadiusAngleDeg: Number(ang),
-		NormalDeg:      dir,
-		MTF50:          inRange(c.MTF50()),
-		MTF50P:         inRange(c.MTF50P()),
-		MTFNyquist:     Number(c.AtNyquist()),
-		Freq:           c.Freq,
-		MTF:            c.Value,
-		Warnings:       []string{},
-		Flags:          []string{},
-		ESF:            edge.Profile{X: []float64{}, V: []float64{}},
-		LSF:            edge.Profile{X: []float64{}, V: []float64{}},
-		SNR:            Number(math.NaN()),
-		Contrast:       Number(math.NaN()),
-		MeasuredCyPx:   &[2]float64{lo, hi},
+		NormalDeg:    dir,
+		Freq:         c.Freq,
+		MTF:          c.Value,
+		Warnings:     []string{},
+		Flags:        []string{},
+		ESF:          edge.Profile{X: []float64{}, V: []float64{}},
+		LSF:          edge.Profile{X: []float64{}, V: []float64{}},
+		SNR:          Number(math.NaN()),
+		Contrast:     Number(math.NaN()),
+		MeasuredCyPx: &[2]float64{lo, hi},
 	}
-	rec.MTF50LPMM = Number(curve.LPPerMM(float64(rec.MTF50), geo.PitchUM))
-	for _, f := range freqs {
-		fc := curve.CyPerPx(f, geo.PitchUM)
-		v := math.NaN()
-		if fc >= lo && fc <= hi {
-			v = c.At(fc)
-		}
-		rec.MTFAtFreqs = append(rec.MTFAtFreqs, Number(v))
-	}
-	return rec
 }
 
 // agreement compares every star record with the edge records of the same
 // orientation at a similar image height, sets the star's and the photo's
-// agreement figures, and flags disagreement.
+// agreement figures, and flags disagreeing records (the photo's warning is
+// disagreement's).
 func agreement(img *Image) {
 	hTol := math.Max(nearHeightMM, nearHeightShare*img.CornerMM)
 	var sum2, sumD float64
@@ -614,10 +612,15 @@ func agreement(img *Image) {
 	}
 	img.Agreement = &Agreement{Records: n, RMSDiff: math.Sqrt(sum2 / float64(n)), MeanDiff: sumD / float64(n),
 		LoCyPx: AgreeLoCyPx, HiCyPx: AgreeHiCyPx}
-	if img.Agreement.RMSDiff > DisagreeRMS {
-		img.Warnings = append(img.Warnings, "sine stars and edges disagree: "+disagreeText(&StarAgreement{
-			RMSDiff: img.Agreement.RMSDiff, MeanDiff: img.Agreement.MeanDiff}))
+}
+
+// disagreement is the image's warning when stars and edges disagree (see
+// derivedWarnings), or "".
+func disagreement(a *Agreement) string {
+	if a == nil || !(a.RMSDiff > DisagreeRMS) {
+		return ""
 	}
+	return "sine stars and edges disagree: " + disagreeText(&StarAgreement{RMSDiff: a.RMSDiff, MeanDiff: a.MeanDiff})
 }
 
 // disagreeText words a disagreement for people.

@@ -3,6 +3,7 @@ package chart
 import (
 	"fmt"
 	"math"
+	"strings"
 )
 
 // aspects are the chart shapes on offer: name, long side over short side,
@@ -52,6 +53,27 @@ func (c Code) value() int {
 		}
 	}
 	return -1
+}
+
+// ParseCode reads a chart code as String writes it ("S1-3:2-L"). It
+// returns an OptionError for any other text.
+func ParseCode(s string) (Code, error) {
+	rest, ok := strings.CutPrefix(s, "S1-")
+	if !ok || len(rest) < 3 || rest[len(rest)-2] != '-' {
+		return Code{}, optErr("%q is not a chart code (like S1-3:2-L)", s)
+	}
+	c := Code{Aspect: rest[:len(rest)-2]}
+	switch rest[len(rest)-1] {
+	case 'L':
+	case 'P':
+		c.Portrait = true
+	default:
+		return Code{}, optErr("%q is not a chart code (like S1-3:2-L)", s)
+	}
+	if c.value() < 0 {
+		return Code{}, optErr("%q is not a chart code: unknown aspect ratio %q", s, c.Aspect)
+	}
+	return c, nil
 }
 
 // codeOf is the inverse of Code.value.

@@ -1,6 +1,7 @@
 package chart
 
 import (
+	"errors"
 	"math"
 	"math/bits"
 	"math/rand/v2"
@@ -308,6 +309,43 @@ func TestFieldCoverage(t *testing.T) {
 		}
 		if lo > 0.2 || hi < 0.9 {
 			t.Errorf("%v: squares span field %.2f to %.2f, want from below 0.2 to above 0.9", code, lo, hi)
+		}
+	}
+}
+
+// TestParseCode reads chart codes in the form printed on the sheet (the
+// examples of Code.String's doc) and refuses other text; every code of the
+// mark codebook reads back as itself.
+func TestParseCode(t *testing.T) {
+	cases := []struct {
+		in   string
+		want Code
+		ok   bool
+	}{
+		{"S1-3:2-L", Code{Aspect: "3:2"}, true},
+		{"S1-16:9-P", Code{Aspect: "16:9", Portrait: true}, true},
+		{"S1-1:1-L", Code{Aspect: "1:1"}, true},
+		{"S2-3:2-L", Code{}, false},
+		{"S1-5:4-L", Code{}, false},
+		{"S1-3:2-X", Code{}, false},
+		{"S1-3:2", Code{}, false},
+		{"S1-", Code{}, false},
+		{"", Code{}, false},
+	}
+	for _, c := range cases {
+		got, err := ParseCode(c.in)
+		if c.ok != (err == nil) || got != c.want {
+			t.Errorf("ParseCode(%q) = %+v, %v; want %+v, ok %v", c.in, got, err, c.want, c.ok)
+		}
+		var oe OptionError
+		if err != nil && !errors.As(err, &oe) {
+			t.Errorf("ParseCode(%q): error %T, want OptionError", c.in, err)
+		}
+	}
+	for v := range 2 * len(aspects) {
+		c := codeOf(v)
+		if got, err := ParseCode(c.String()); err != nil || got != c {
+			t.Errorf("ParseCode(%q) = %+v, %v", c.String(), got, err)
 		}
 	}
 }
