@@ -2,6 +2,8 @@ package analyze
 
 import (
 	"context"
+	"encoding/json"
+	"fmt"
 	"sync"
 	"testing"
 
@@ -72,4 +74,54 @@ func BenchmarkWholePhoto(b *testing.B) {
 			}
 		}
 	})
+}
+
+// BenchmarkResummarise times Resummarise to new field frequencies on the
+// demo photo's result (Sagitta's chart, 6 and 24 MP): alone, and with the
+// result read from JSON and written back, as the page's worker does.
+func BenchmarkResummarise(b *testing.B) {
+	s := Settings{FreqsLPMM: []float64{20, 40}}
+	for _, reduce := range []int{2, 1} {
+		var data []byte
+		var err error
+		if reduce == 1 {
+			data = demoPhoto(b)
+		} else if data, err = demo.PortraitSmall(reduce).Photo(); err != nil {
+			b.Fatal(err)
+		}
+		img, err := Run(context.Background(), "demo.jpg", data, Settings{}, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		text, err := json.Marshal(img)
+		if err != nil {
+			b.Fatal(err)
+		}
+		size := fmt.Sprintf("%dMP", 24/(reduce*reduce))
+		b.Run(size, func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := Resummarise(img, s); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+		b.Run(size+"-json", func(b *testing.B) {
+			b.ReportAllocs()
+			b.SetBytes(int64(len(text)))
+			for b.Loop() {
+				var in Image
+				if err := json.Unmarshal(text, &in); err != nil {
+					b.Fatal(err)
+				}
+				out, err := Resummarise(&in, s)
+				if err != nil {
+					b.Fatal(err)
+				}
+				if _, err := json.Marshal(out); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
 }

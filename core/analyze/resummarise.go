@@ -18,9 +18,10 @@ import (
 // the gratings are grouped again by their new orientations, and the stars'
 // agreement with edges, the chart's set-up checks, the warnings and the
 // summary are made again, by the same code as Run's last step (summarise).
-// The result equals what Run would give with s, to the last bit when img
-// is Run's own value and to the 5 decimals the JSON keeps of some figures
-// when img was read back from JSON.
+// The result equals what Run gives with s, also when img was read back
+// from its JSON: every figure Resummarise derives comes from full-precision
+// fields (positions, directions, curves, modulations), never from the
+// figures the JSON rounds to 5 decimals.
 //
 // What was measured cannot change without the photo: a different tone or
 // estimator (Settings.Tone, Method) gives a *MeasureAgainError. So does a
@@ -64,7 +65,11 @@ func Resummarise(img *Image, s Settings) (out *Image, err error) {
 		again = append(again, fmt.Sprintf("it was measured with the %s estimator, not %s", img.Method, m))
 	}
 	if !sameTone(chk.tone, img) {
-		again = append(again, fmt.Sprintf("it was decoded with tone %s (%s), not %s", img.Tone, img.ToneSource, chk.tone))
+		if chk.tone.Kind == decode.ToneAuto {
+			again = append(again, fmt.Sprintf("it was decoded with the tone chosen then (%s), not as the file says", img.Tone))
+		} else {
+			again = append(again, fmt.Sprintf("it was decoded with tone %s (%s), not with %s as chosen now", img.Tone, img.ToneSource, chk.tone))
+		}
 	}
 	if out.CenterPx != img.CenterPx && len(img.Stars) > 0 {
 		again = append(again, "the optical centre moved and the photo has sine stars, measured along and across the radius from the old centre")
