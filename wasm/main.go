@@ -10,8 +10,14 @@
 //	sagittaAnalyze(name string, bytes Uint8Array, settings string (JSON),
 //	               onProgress(stage string, fraction number)) -> string (JSON)
 //	    the analysis of one photo: the JSON of analyze.Image (core/analyze);
-//	    settings are analyze.Settings plus "fallback_sensor_mm": [w, h], the
-//	    sensor size to assume when the file's Exif gives no pixel pitch
+//	    settings are the JSON of analyze.Settings (with "fallback_sensor_mm",
+//	    the sensor size to assume when the file's Exif gives no pixel pitch)
+//	sagittaResummarise(image string (JSON), settings string (JSON))
+//	    -> {image: string (JSON)} or {remeasure: string}
+//	    one photo's analysis (as sagittaAnalyze gave it) with a new pixel
+//	    pitch, optical centre or field frequencies, without the photo
+//	    (analyze.Resummarise); remeasure, one plain line, when the settings
+//	    change what was measured and the photo must be analysed again
 //	sagittaPreview(bytes Uint8Array, maxSide number, tone string)
 //	    -> {width, height, factor, pixels Uint8Array}
 //	    an 8-bit grey display image of the decoded photo, reduced by an
@@ -36,18 +42,19 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"syscall/js"
 
 	"sagitta/core/analyze"
 	"sagitta/core/decode"
 	"sagitta/core/demo"
-	"sagitta/core/exif"
 	"sagitta/core/preview"
 )
 
 func main() {
 	register("sagittaAnalyze", analyzeJS)
+	register("sagittaResummarise", resummariseJS)
 	register("sagittaPreview", previewJS)
 	register("sagittaCSV", csvJS)
 	register("sagittaJSON", jsonJS)
@@ -80,20 +87,9 @@ func analyzeJS(args []js.Value) (any, error) {
 	}
 	name := args[0].String()
 	data := goBytes(args[1])
-	var in struct {
-		analyze.Settings
-		// FallbackSensorMM is used as the sensor size when neither a pitch
-		// nor a sensor size is given and the file's Exif gives no pitch.
-		FallbackSensorMM [2]float64 `json:"fallback_sensor_mm"`
-	}
-	if txt := args[2].String(); txt != "" {
-		if err := json.Unmarshal([]byte(txt), &in); err != nil {
-			return nil, fmt.Errorf("settings: %v", err)
-		}
-	}
-	s := in.Settings
-	if s.PitchUM == 0 && s.SensorMM[0] == 0 && in.FallbackSensorMM[0] > 0 && !exifHasPitch(data) {
-		s.SensorMM = in.FallbackSensorMM
+	s, err := settings(args[2])
+	if err != nil {
+		return nil, err
 	}
 	s.Workers = 1
 	var progress analyze.Progress
@@ -107,6 +103,48 @@ func analyzeJS(args []js.Value) (any, error) {
 	}
 	b, err := json.Marshal(img)
 	return string(b), err
+}
+
+// resummariseJS applies new settings to one photo's analysis.
+func resummariseJS(args []js.Value) (any, error) {
+	if len(args) < 2 || args[0].Type() != js.TypeString {
+		return nil, fmt.Errorf("sagittaResummarise(image, settings): wrong arguments")
+	}
+	var img analyze.Image
+	if err := json.Unmarshal([]byte(args[0].String()), &img); err != nil {
+		return nil, fmt.Errorf("result: %v", err)
+	}
+	s, err := settings(args[1])
+	if err != nil {
+		return nil, err
+	}
+	out, err := analyze.Resummarise(&img, s)
+	var again *analyze.MeasureAgainError
+	if errors.As(err, &again) {
+		return js.ValueOf(map[string]any{"remeasure": again.Error()}), nil
+	}
+	if err != nil {
+		return nil, err
+	}
+	b, err := json.Marshal(out)
+	if err != nil {
+		return nil, err
+	}
+	return js.ValueOf(map[string]any{"image": string(b)}), nil
+}
+
+// settings reads analysis settings from their JSON ("" for the defaults).
+func settings(v js.Value) (analyze.Settings, error) {
+	var s analyze.Settings
+	if v.Type() != js.TypeString {
+		return s, fmt.Errorf("settings: expected a JSON string")
+	}
+	if txt := v.String(); txt != "" {
+		if err := json.Unmarshal([]byte(txt), &s); err != nil {
+			return s, fmt.Errorf("settings: %v", err)
+		}
+	}
+	return s, nil
 }
 
 // previewJS decodes a photo and returns its reduced grey preview.
@@ -191,25 +229,6 @@ func results(args []js.Value) (analyze.Result, error) {
 		return res, fmt.Errorf("results: %v", err)
 	}
 	return res, nil
-}
-
-// exifHasPitch reports whether a JPEG or TIFF file's Exif gives a pixel
-// pitch (the focal-plane resolution).
-func exifHasPitch(data []byte) bool {
-	var (
-		t   exif.Tags
-		err error
-	)
-	switch {
-	case bytes.HasPrefix(data, []byte{0xFF, 0xD8}):
-		t, err = exif.ReadJPEG(data)
-	case bytes.HasPrefix(data, []byte("II*\x00")), bytes.HasPrefix(data, []byte("MM\x00*")):
-		t, err = exif.ReadTIFF(data)
-	default:
-		return false
-	}
-	p, ok := t.PixelPitchUM()
-	return err == nil && ok && p > 0
 }
 
 // goBytes copies a Uint8Array into Go memory.
