@@ -4,7 +4,7 @@
 
 import { engine } from './engine.js';
 import { AbortError } from './pool.js';
-import { readSettings, settingsKey, watchSettings, settingsSummary } from './settings.js';
+import { readSettings, settingsKey, watchSettings, settingsSummary, measuredAlike } from './settings.js';
 import { renderResult, refreshUnits, outcome } from './results.js';
 import { saveBlob } from './plot.js';
 import { renderCompare } from './compare.js';
@@ -34,14 +34,14 @@ window.sagitta = {
 function setStatus() {
   const ps = state.photos;
   let s = 'ready';
-  if (ps.some((p) => p.status === 'queued' || p.status === 'working')) s = 'working';
+  if (ps.some((p) => p.status === 'queued' || p.status === 'working' || p.status === 'updating')) s = 'working';
   else if (ps.some((p) => p.status === 'error')) s = 'error';
   else if (ps.some((p) => p.result)) s = 'done';
   document.body.dataset.status = s;
   $('queue-head').hidden = ps.length === 0;
   $('first-time').hidden = ps.length > 0;
   document.querySelector('.intake').classList.toggle('compact', ps.length > 0);
-  $('cancel-all').hidden = s !== 'working';
+  $('cancel-all').hidden = !ps.some((p) => p.job);
   const any = ps.some((p) => p.result);
   for (const id of ['export-json', 'export-csv', 'export-report']) $(id).disabled = !any;
 }
@@ -153,6 +153,7 @@ function addFiles(files) {
     const p = {
       key: nextKey++, name: file.name, file, label: '', status: 'queued', stage: 'waiting',
       fraction: 0, result: null, error: '', thumb: null, preview: null, job: null, settingsKey: '',
+      update: null, remeasure: '', remeasureKey: '',
     };
     state.photos.push(p);
     makeRow(p);
@@ -169,6 +170,8 @@ function addFiles(files) {
 async function measure(p) {
   const settings = readSettings();
   p.settingsKey = settingsKey(settings);
+  p.update = null; // a pending resummary no longer applies
+  p.remeasure = p.remeasureKey = '';
   p.status = 'queued';
   p.stage = 'waiting';
   p.fraction = 0;
@@ -222,7 +225,7 @@ async function measure(p) {
     }
   }
   setStatus();
-  refreshStale();
+  applySettings();
 }
 
 function failed(p, message) {
@@ -302,6 +305,9 @@ function updateRow(p) {
     case 'working':
       st.textContent = stageWords(p.stage) + ` (${Math.round(p.fraction * 100)} %)`;
       break;
+    case 'updating':
+      st.textContent = 'Applying the new settings…';
+      break;
     case 'done':
       st.textContent = outcome(p.result);
       break;
@@ -325,7 +331,7 @@ function updateRow(p) {
   };
   if (p.status === 'queued' || p.status === 'working') add('Cancel', () => p.job && p.job.cancel(), 'Cancel');
   else {
-    if (p.status !== 'done' || isStale(p)) add('Measure again', () => measure(p), 'Measure again');
+    if (p.status !== 'updating' && (p.status !== 'done' || isStale(p))) add('Measure again', () => measure(p), 'Measure again');
     add('Remove', () => remove(p), 'Remove');
   }
 }
@@ -461,22 +467,84 @@ function isStale(p, s = readSettings()) {
   return true;
 }
 
+// applySettings brings the measured photos to the form's settings. Pixel
+// size, optical centre and field frequencies only place and summarise what
+// was measured: the core applies them to each result without the photo
+// (quick). Tone and estimator, and the optical centre of a photo with sine
+// stars, need the photo measured again: those wait for "Measure all again".
+function applySettings() {
+  const s = readSettings();
+  if (state.functions.has('resummarise')) {
+    for (const p of state.photos) {
+      const ok = (p.status === 'done' || p.status === 'updating') && isStale(p, s) && measuredAlike(JSON.parse(p.settingsKey), s);
+      if (ok && p.remeasureKey !== settingsKey(s)) resummarise(p, s);
+    }
+  }
+  refreshStale();
+}
+
+// resummarise asks the core for p's result with settings s; a newer
+// request, or measuring the photo again, supersedes it.
+async function resummarise(p, s) {
+  const token = {};
+  p.update = token;
+  p.remeasure = p.remeasureKey = '';
+  p.status = 'updating';
+  updateRow(p);
+  setStatus();
+  let r;
+  try {
+    r = await state.pool.call('resummarise', [JSON.stringify(p.result), JSON.stringify(s)]);
+  } catch (e) {
+    r = { remeasure: e.message };
+  }
+  if (p.update !== token || !state.photos.includes(p)) return;
+  p.update = null;
+  p.status = 'done';
+  if (r.image) {
+    p.result = r.image;
+    p.settingsKey = settingsKey(s);
+    if (state.selected === p.key) showSelected();
+    if (!$('place-compare').hidden) renderCompare($('place-compare'), state);
+  } else {
+    p.remeasure = r.remeasure; // the core's reason; asked again only for other settings
+    p.remeasureKey = settingsKey(s);
+  }
+  setStatus();
+  refreshStale();
+  if (!state.photos.some((q) => q.status === 'updating')) {
+    const n = state.photos.filter((q) => q.result && !isStale(q)).length;
+    announce(`Settings applied to ${n} photo${n === 1 ? '' : 's'} without measuring again.`);
+  }
+}
+
+// refreshStale shows which photos wait to be measured again, and why.
 function refreshStale() {
-  const stale = state.photos.some((p) => isStale(p));
-  $('stale-bar').hidden = !stale;
+  const s = readSettings();
+  const waiting = state.photos.filter((p) => p.status === 'done' && isStale(p, s));
+  $('stale-bar').hidden = waiting.length === 0;
+  if (waiting.length) {
+    const why = [];
+    if (waiting.some((p) => !measuredAlike(JSON.parse(p.settingsKey), s))) why.push('the tone and the estimator change how photos are read and measured');
+    if (waiting.some((p) => p.remeasure && /sine stars/.test(p.remeasure))) why.push('sine stars are measured along and across the radius from the optical centre');
+    if (waiting.some((p) => p.remeasure && !/sine stars/.test(p.remeasure))) why.push('the new settings could not be applied without measuring');
+    if (!why.length) why.push('these settings differ from the ones the photos were measured with');
+    const what = waiting.length === 1 ? `${waiting[0].name} again` : `these ${waiting.length} photos again`;
+    $('stale-text').textContent = `${why.join('; ').replace(/^./, (c) => c.toUpperCase())}: measure ${what} to apply them.`;
+  }
   for (const p of state.photos) updateRow(p);
 }
 
 function setupSettings() {
   watchSettings({
-    analysis: refreshStale,
+    analysis: applySettings,
     units: (u) => {
       state.units = u;
       refreshUnits(state);
     },
   });
   $('remeasure').addEventListener('click', () => {
-    for (const p of state.photos) if (isStale(p) || p.status === 'error' || p.status === 'cancelled') measure(p);
+    for (const p of state.photos) if ((p.status === 'done' && isStale(p)) || p.status === 'error' || p.status === 'cancelled') measure(p);
   });
 }
 

@@ -120,7 +120,7 @@ export function renderCompare(root, state) {
   l2.append(oSel);
   controls.append(l1, l2);
   main.append(controls);
-  if (mixedFreqs) main.append(el('p', { class: 'notes' }, 'These photos were measured with different field frequencies; measure them again with the same settings to compare them.'));
+  if (mixedFreqs) main.append(el('p', { class: 'notes' }, 'These photos have different field frequencies (a photo waiting to be measured again keeps its old ones): measure it again, on the Measure place, to compare them.'));
 
   const fi = Math.min(view.fi, freqs.length - 1);
   const series = [];

@@ -23,8 +23,12 @@
 //
 //   {type: "call", id, fn, args}
 //       Run one of the core's other functions (fn: "csv", "json", "plot", "palette", "chart",
-//       "plan", "demo"; see CALLS in worker.js); args: an array of strings
-//       or numbers. Quick jobs, queued ahead of photos.
+//       "plan", "demo", "resummarise"; see CALLS in worker.js); args: an array of strings
+//       or numbers. Quick jobs, queued ahead of photos. "resummarise" takes
+//       a photo's analysis and new settings (both JSON strings) and gives
+//       {image} (the analysis for those settings, without measuring again)
+//       or {remeasure: reason} when the settings need the photo measured
+//       again (sagittaResummarise in wasm/main.go).
 //
 // Worker -> page
 //
@@ -71,7 +75,7 @@ export const FROM_WORKER = Object.freeze({
 });
 
 /** Functions a "call" message may name (see CALLS in worker.js). */
-export const CALLS = Object.freeze(['csv', 'json', 'plot', 'palette', 'chart', 'plan', 'demo']);
+export const CALLS = Object.freeze(['csv', 'json', 'plot', 'palette', 'chart', 'plan', 'demo', 'resummarise']);
 
 /**
  * analyzeMessage builds an "analyze" message and its transfer list.

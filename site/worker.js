@@ -18,10 +18,14 @@ const CALLS = {
   chart: (options, format) => bytesOut(core('sagittaChart')(options, format)),
   plan: (options) => ({ result: core('sagittaPlan')(options) }),
   demo: (reduce) => bytesOut(core('sagittaDemo')(reduce)),
+  resummarise: (image, settings) => {
+    const r = core('sagittaResummarise')(image, settings);
+    return { result: r.image ? { image: JSON.parse(r.image) } : { remeasure: r.remeasure } };
+  },
 };
 
 // The core's global names behind each call.
-const CORE_NAMES = { csv: 'sagittaCSV', json: 'sagittaJSON', plot: 'sagittaPlot', palette: 'sagittaPalette', chart: 'sagittaChart', plan: 'sagittaPlan', demo: 'sagittaDemo' };
+const CORE_NAMES = { csv: 'sagittaCSV', json: 'sagittaJSON', plot: 'sagittaPlot', palette: 'sagittaPalette', chart: 'sagittaChart', plan: 'sagittaPlan', demo: 'sagittaDemo', resummarise: 'sagittaResummarise' };
 
 let started = null; // promise of the running Go instance
 let go = null;
