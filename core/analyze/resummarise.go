@@ -29,16 +29,22 @@ import (
 // measured in angular segments aligned with the field radius through it
 // (sine.StarOptions.AlignDeg), and its sagittal and tangential records are
 // read along and across that radius. Read along a radius from another
-// centre, its segments give only an interpolation between them (sine.Star.Along)
-// that departs from a measurement aligned with the new radius by up to a
-// few hundredths of MTF for an astigmatic lens, so the star is measured
-// again rather than reported at lower accuracy.
+// centre, its segments give only an interpolation between them
+// (sine.Star.Along), less accurate for an astigmatic lens: on a simulated
+// star behind an anisotropic Gaussian (1.3 and 0.7 px), read 22.5 degrees
+// off its segments, the largest error against the analytic MTF from 0.05
+// to 0.35 cy/px was 0.03 and 0.06 (the two directions) against 0.005 and
+// 0.012 when aligned. So the star is measured again rather than reported
+// at lower accuracy than Run gives.
 //
 // Settings.MaxPixels and Workers play no part (nothing is decoded or
 // measured). img is not changed; the new Image shares with it the slices
 // neither changes (curves, profiles, segments, Exif, the chart's marks).
 // A malformed img gives a ResultError.
 func Resummarise(img *Image, s Settings) (out *Image, err error) {
+	if img == nil {
+		return nil, ResultError("no image")
+	}
 	defer func() {
 		if r := recover(); r != nil {
 			out, err = nil, fmt.Errorf("analyze: internal error on %s: %v", img.File, r)
