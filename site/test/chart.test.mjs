@@ -3,32 +3,23 @@
 // size gives a page of the sheet's size, the ruler correction reaches the
 // core, and the planner answers.
 
-import { test, before, after } from 'node:test';
+import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import fs from 'node:fs';
 import path from 'node:path';
-import { OUT, startServer, launch, waitEngine, waitStatus, shot, download, run, testPhoto, cli, diff } from './helpers.mjs';
+import { OUT, waitEngine, waitStatus, shot, download, run, testPhoto, cli, diff, useServedPage } from './helpers.mjs';
 
-let server;
-let browser;
-before(async () => {
-  server = await startServer();
-  browser = await launch();
-});
-after(async () => {
-  await browser?.close();
-  server?.stop();
-});
+const env = useServedPage();
 
 // Page size in PDF points (1/72 in) of a sheet in mm: mm / 25.4 * 72.
 const pt = (mm) => (mm / 25.4) * 72;
 
 test('the chart downloads as a PDF of the chosen paper, prints at its size, and the planner answers', async () => {
-  const context = await browser.newContext({ viewport: { width: 1400, height: 1000 }, acceptDownloads: true });
+  const context = await env.browser.newContext({ viewport: { width: 1400, height: 1000 }, acceptDownloads: true });
   const page = await context.newPage();
   const errors = [];
   page.on('pageerror', (e) => errors.push(e.message));
-  await page.goto(server.url);
+  await page.goto(env.server.url);
   await waitEngine(page);
   assert.equal(await page.isVisible('#tab-print'), true);
   await page.click('#tab-print');
@@ -91,11 +82,11 @@ test('the chart downloads as a PDF of the chosen paper, prints at its size, and 
 
 test('a photo of the chart: recognised, its set-up checked, its marks shown', async () => {
   const photo = testPhoto('on-chart.jpg', ['-chart', '-w', '3000', '-h', '2000']);
-  const context = await browser.newContext({ viewport: { width: 1400, height: 1000 } });
+  const context = await env.browser.newContext({ viewport: { width: 1400, height: 1000 } });
   const page = await context.newPage();
   const errors = [];
   page.on('pageerror', (e) => errors.push(e.message));
-  await page.goto(server.url);
+  await page.goto(env.server.url);
   await waitEngine(page);
   await page.setInputFiles('#file-input', photo);
   assert.equal(await waitStatus(page, ['done', 'error']), 'done');

@@ -6,6 +6,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import readline from 'node:readline';
 import { chromium } from 'playwright-core';
+import { before, after } from 'node:test';
 
 export const ROOT = process.env.SAGITTA_ROOT || path.resolve(import.meta.dirname, '../..');
 export const BIN = path.join(ROOT, 'bin');
@@ -137,4 +138,20 @@ export async function download(page, click) {
   const [d] = await Promise.all([page.waitForEvent('download'), click()]);
   const p = await d.path();
   return { name: d.suggestedFilename(), text: fs.readFileSync(p, 'utf8'), bytes: fs.readFileSync(p) };
+}
+
+// useServedPage registers hooks that start the local server and a browser
+// before a test file's tests and stop both after them; the returned object
+// holds them (env.server, env.browser) once the tests run.
+export function useServedPage() {
+  const env = {};
+  before(async () => {
+    env.server = await startServer();
+    env.browser = await launch();
+  });
+  after(async () => {
+    await env.browser?.close();
+    env.server?.stop();
+  });
+  return env;
 }

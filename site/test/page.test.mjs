@@ -4,17 +4,13 @@
 // The reference for every number is the native command-line tool run on the
 // same file (`sagitta analyze --json/--csv`).
 
-import { test, before, after } from 'node:test';
+import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import fs from 'node:fs';
 import path from 'node:path';
-import {
-  ROOT, WORK, demoPhoto, testPhoto, cli, startServer, launch, recordRequests, dropFiles, waitStatus, waitEngine,
-  diff, shot, download,
-} from './helpers.mjs';
+import { ROOT, WORK, demoPhoto, testPhoto, cli, recordRequests, dropFiles, waitStatus, waitEngine, diff, shot, download, useServedPage } from './helpers.mjs';
 
-let server;
-let browser;
+const env = useServedPage();
 
 // csvDiff compares two CSV files of the tool's layout: the same header, rows
 // and words, and numbers within one unit of their last decimal. (The page
@@ -39,23 +35,13 @@ function csvDiff(a, b) {
   return '';
 }
 
-before(async () => {
-  server = await startServer();
-  browser = await launch();
-});
-
-after(async () => {
-  await browser?.close();
-  server?.stop();
-});
-
 async function open(viewport = { width: 1400, height: 1000 }) {
-  const context = await browser.newContext({ viewport, acceptDownloads: true });
+  const context = await env.browser.newContext({ viewport, acceptDownloads: true });
   const requests = recordRequests(context);
   const page = await context.newPage();
   const errors = [];
   page.on('pageerror', (e) => errors.push(e.message));
-  const response = await page.goto(server.url);
+  const response = await page.goto(env.server.url);
   await waitEngine(page);
   return { context, page, requests, errors, response, loaded: Date.now() };
 }
@@ -69,7 +55,7 @@ test('a dropped photo gives the command-line tool\'s JSON and CSV, with no netwo
   // Every file of the page came from the page's own server, with the policy.
   const csp = response.headers()['content-security-policy'];
   assert.match(csp, /connect-src 'none'/);
-  const origin = new URL(server.url).origin;
+  const origin = new URL(env.server.url).origin;
   for (const r of requests.network()) assert.ok(r.url.startsWith(origin + '/'), `request to ${r.url}`);
   const settled = Date.now();
 

@@ -2,31 +2,22 @@
 // dropped at once, read in Compare (sorted by f-number, renamed), and the
 // printable report.
 
-import { test, before, after } from 'node:test';
+import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import fs from 'node:fs';
 import path from 'node:path';
-import { OUT, testPhoto, startServer, launch, dropFiles, waitStatus, waitEngine, shot, run } from './helpers.mjs';
+import { OUT, testPhoto, dropFiles, waitStatus, waitEngine, shot, run, useServedPage } from './helpers.mjs';
 
-let server;
-let browser;
-before(async () => {
-  server = await startServer();
-  browser = await launch();
-});
-after(async () => {
-  await browser?.close();
-  server?.stop();
-});
+const env = useServedPage();
 
 test('an aperture series: compare sorted by f-number, rename, printable report', async () => {
   // Dropped out of order on purpose.
   const files = ['11', '2.8', '5.6'].map((f) => testPhoto(`series-f${f}.jpg`, ['-w', '1800', '-h', '1200', '-f', f, '-seed', f.length]));
-  const context = await browser.newContext({ viewport: { width: 1400, height: 1000 } });
+  const context = await env.browser.newContext({ viewport: { width: 1400, height: 1000 } });
   const page = await context.newPage();
   const errors = [];
   page.on('pageerror', (e) => errors.push(e.message));
-  await page.goto(server.url);
+  await page.goto(env.server.url);
   await waitEngine(page);
   await dropFiles(page, files);
   await page.waitForFunction(() => document.querySelectorAll('.photo').length === 3);

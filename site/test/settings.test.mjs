@@ -6,27 +6,18 @@
 // again". The reference for every number is the native tool on the same
 // file (`sagitta analyze --json`).
 
-import { test, before, after } from 'node:test';
+import { test } from 'node:test';
 import assert from 'node:assert/strict';
-import { testPhoto, cli, startServer, launch, waitStatus, waitEngine, diff, shot } from './helpers.mjs';
+import { testPhoto, cli, waitStatus, waitEngine, diff, shot, useServedPage } from './helpers.mjs';
 
-let server;
-let browser;
-before(async () => {
-  server = await startServer();
-  browser = await launch();
-});
-after(async () => {
-  await browser?.close();
-  server?.stop();
-});
+const env = useServedPage();
 
 async function open() {
-  const context = await browser.newContext({ viewport: { width: 1400, height: 1000 } });
+  const context = await env.browser.newContext({ viewport: { width: 1400, height: 1000 } });
   const page = await context.newPage();
   const errors = [];
   page.on('pageerror', (e) => errors.push(e.message));
-  await page.goto(server.url);
+  await page.goto(env.server.url);
   await waitEngine(page);
   return { context, page, errors };
 }
