@@ -31,7 +31,7 @@
 //	sagittaChart(options, format) -> Uint8Array, sagittaPlan(options) -> string
 //	    the printable chart and the shooting planner (chart.go)
 //	sagittaDemo(reduce number) -> Uint8Array
-//	    the built-in demo photo (core/demo), a JPEG, on a sensor reduced by
+//	    the built-in demo photo (core/sim/demo), a JPEG, on a sensor reduced by
 //	    the integer factor reduce (1 = 24 MP; as `sagitta demo -reduce`)
 //
 // Every function throws an Error whose message is one plain line on
@@ -48,8 +48,8 @@ import (
 
 	"sagitta/core/analyze"
 	"sagitta/core/decode"
-	"sagitta/core/demo"
 	"sagitta/core/preview"
+	"sagitta/core/sim/demo"
 )
 
 func main() {

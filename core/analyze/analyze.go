@@ -19,9 +19,9 @@ import (
 
 	"sagitta/core/decode"
 	"sagitta/core/edge"
+	"sagitta/core/edgefind"
 	"sagitta/core/exif"
 	"sagitta/core/field"
-	"sagitta/core/find"
 )
 
 // Settings are the user's choices for one analysis. The zero value is valid
@@ -98,7 +98,7 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	}
 
 	progress(StageFinding, 0.15)
-	cands, rejects := find.Edges(dec.Lum, find.Options{})
+	cands, rejects := edgefind.Edges(dec.Lum, edgefind.Options{})
 	pats := findPatterns(ctx, dec.Lum, geo, s.Workers) // sine stars and gratings (sine.go)
 	cands, rejects = pats.exclude(cands, rejects)
 	img.Rejected = append(img.Rejected, pats.rejected...)
@@ -248,7 +248,7 @@ type outcome struct {
 
 // measureAll measures every candidate, in parallel over workers goroutines
 // (in WebAssembly GOMAXPROCS is 1 and this runs sequentially).
-func measureAll(ctx context.Context, dec *decode.Image, cands []find.Candidate, method edge.Method, workers int, done func(int)) []outcome {
+func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candidate, method edge.Method, workers int, done func(int)) []outcome {
 	out := make([]outcome, len(cands))
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)

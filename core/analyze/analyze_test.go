@@ -5,9 +5,9 @@ import (
 	"math"
 	"testing"
 
-	"sagitta/core/demo"
 	"sagitta/core/field"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/demo"
+	"sagitta/core/sim/simcam"
 )
 
 // side is one straight side of a square in the simulated sheet.

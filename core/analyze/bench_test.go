@@ -8,10 +8,10 @@ import (
 	"testing"
 
 	"sagitta/core/decode"
-	"sagitta/core/demo"
 	"sagitta/core/edge"
+	"sagitta/core/edgefind"
 	"sagitta/core/field"
-	"sagitta/core/find"
+	"sagitta/core/sim/demo"
 )
 
 var (
@@ -38,7 +38,7 @@ func BenchmarkWholePhoto(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	cands, _ := find.Edges(dec.Lum, find.Options{})
+	cands, _ := edgefind.Edges(dec.Lum, edgefind.Options{})
 	b.Run("decode", func(b *testing.B) {
 		b.ReportAllocs()
 		for i := 0; i < b.N; i++ {
@@ -50,7 +50,7 @@ func BenchmarkWholePhoto(b *testing.B) {
 	b.Run("find", func(b *testing.B) {
 		b.ReportAllocs()
 		for i := 0; i < b.N; i++ {
-			find.Edges(dec.Lum, find.Options{})
+			edgefind.Edges(dec.Lum, edgefind.Options{})
 		}
 	})
 	b.Run("sine-patterns", func(b *testing.B) {

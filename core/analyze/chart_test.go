@@ -6,7 +6,7 @@ import (
 	"testing"
 
 	"sagitta/core/analyze"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 // TestNoChart: a photo of tilted squares that is not Sagitta's chart is

@@ -9,7 +9,7 @@ import (
 	"testing"
 
 	"sagitta/core/draw"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 // TestLookStars is for people, not for the build: with SAGITTA_LOOK_DIR set

@@ -9,9 +9,9 @@ import (
 	"sync"
 	"testing"
 
-	"sagitta/core/demo"
 	"sagitta/core/exif"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/demo"
+	"sagitta/core/sim/simcam"
 )
 
 // Resummarise is checked against Run itself: measuring a photo with

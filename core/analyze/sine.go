@@ -11,8 +11,8 @@ import (
 
 	"sagitta/core/curve"
 	"sagitta/core/edge"
+	"sagitta/core/edgefind"
 	"sagitta/core/field"
-	"sagitta/core/find"
 	"sagitta/core/plane"
 	"sagitta/core/sine"
 )
@@ -215,7 +215,7 @@ func measureGrating(p *plane.Plane, c sine.Candidate) (g *sine.Grating, err erro
 
 // exclude drops the edge candidates and rejected runs that lie on a
 // pattern: a star's spokes and a grating's lines are not edges.
-func (ps *patterns) exclude(cands []find.Candidate, rejects []find.Reject) ([]find.Candidate, []find.Reject) {
+func (ps *patterns) exclude(cands []edgefind.Candidate, rejects []edgefind.Reject) ([]edgefind.Candidate, []edgefind.Reject) {
 	if len(ps.discs)+len(ps.quads) == 0 {
 		return cands, rejects
 	}

@@ -9,8 +9,8 @@ import (
 
 	"sagitta/core/curve"
 	"sagitta/core/decode"
-	"sagitta/core/find"
-	"sagitta/core/simcam"
+	"sagitta/core/edgefind"
+	"sagitta/core/sim/simcam"
 )
 
 // photo encodes scene s with camera c (16-bit sRGB PNG unless c says
@@ -43,7 +43,7 @@ func TestStarOnlyPhoto(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	raw, _ := find.Edges(dec.Lum, find.Options{})
+	raw, _ := edgefind.Edges(dec.Lum, edgefind.Options{})
 	if len(raw) == 0 {
 		t.Fatal("the edge finder offers no spoke here: the test would prove nothing")
 	}

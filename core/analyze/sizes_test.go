@@ -5,8 +5,8 @@ import (
 	"testing"
 
 	"sagitta/core/chart"
-	"sagitta/core/chart/chartsim"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/chartsim"
+	"sagitta/core/sim/simcam"
 )
 
 // TestChartAtSmallSizes guards the searches against photo sizes that fall

@@ -5,8 +5,8 @@ import (
 	"testing"
 
 	"sagitta/core/chart"
-	"sagitta/core/chart/chartsim"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/chartsim"
+	"sagitta/core/sim/simcam"
 )
 
 // BenchmarkRender draws the A4 chart at 600 dpi in each format.

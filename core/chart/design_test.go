@@ -210,9 +210,9 @@ func segDist(a, b, c, d [2]float64) float64 {
 	return math.Min(math.Min(pd(a, c, d), pd(b, c, d)), math.Min(pd(c, a, b), pd(d, a, b)))
 }
 
-// TestClearance checks the space around targets. core/find's regions reach
+// TestClearance checks the space around targets. core/edgefind's regions reach
 // up to 32 px on each side of an edge, and keep a further 6 px plus the
-// reduction factor (2 at 3000 px) clear of other detail (core/find,
+// reduction factor (2 at 3000 px) clear of other detail (core/edgefind,
 // find.go): 40 px. Between any two squares the design leaves 0.021 chart
 // units, which is 42 px when the chart's short side spans 2000 px (a 6 MP
 // photo filled by the chart) and twice that at 24 MP. core/analyze drops

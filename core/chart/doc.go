@@ -37,7 +37,7 @@
 //     the chart's design (aspect and orientation) and the mark's index, and
 //     correcting one misread sector;
 //   - every square clear of every other by at least 0.021 chart units (42 px
-//     when the chart's short side spans 2000 px), room for core/find's
+//     when the chart's short side spans 2000 px), room for core/edgefind's
 //     regions of up to 32 px on each side of an edge plus its margins, and
 //     of every sine pattern by at least 0.0364 (40 px at 1100 px), room for
 //     those regions plus the 8 px the analyser keeps between edge regions
@@ -74,7 +74,7 @@
 // the set-up (Check): how much of the frame the chart fills, whether part of
 // it is cut off, its rotation, the keystone of a camera not square to it,
 // and how far its centre lies from the frame's. On simulated photos
-// (core/chart/chartsim) the pose puts the squares' corners within 0.03 px
+// (core/sim/chartsim) the pose puts the squares' corners within 0.03 px
 // of the truth.
 //
 // # For the web page

@@ -7,9 +7,9 @@ import (
 	"testing"
 
 	"sagitta/core/chart"
-	"sagitta/core/chart/chartsim"
 	"sagitta/core/plane"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/chartsim"
+	"sagitta/core/sim/simcam"
 )
 
 // photos caches rendered photos by design code, view and lens, so tests

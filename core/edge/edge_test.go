@@ -8,7 +8,7 @@ import (
 	"testing"
 
 	"sagitta/core/plane"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 // Check values come from closed forms:

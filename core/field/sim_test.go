@@ -9,7 +9,7 @@ import (
 
 	"sagitta/core/analyze"
 	"sagitta/core/field"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 // The simulated shoot: a chart of dark squares filling the frame, each

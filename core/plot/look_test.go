@@ -9,7 +9,7 @@ import (
 
 	"sagitta/core/analyze"
 	"sagitta/core/plot"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 // TestLook renders every plot of a realistic simulated shoot to PNG and SVG

@@ -5,7 +5,7 @@ import (
 	"testing"
 
 	"sagitta/core/plane"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 // benchFrame renders a w x h frame with a 3 x 2 grid of stars (48 cycles,

@@ -7,7 +7,7 @@ import (
 
 	"sagitta/core/draw"
 	"sagitta/core/plane"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 // TestFind renders a photo with two stars, a grating and some slanted

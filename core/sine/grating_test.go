@@ -7,7 +7,7 @@ import (
 	"testing"
 
 	"sagitta/core/plane"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 // alignedRect returns the corners of a w x h rectangle centred at (cx, cy)

@@ -6,7 +6,7 @@ import (
 	"testing"
 
 	"sagitta/core/plane"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 // render returns the noise-free linear image of scene s through lens l.

@@ -8,7 +8,7 @@ import (
 	"testing"
 
 	"sagitta/core/plane"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 // TestStarMTF renders sinusoidal stars through known Gaussian, anisotropic

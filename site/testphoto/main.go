@@ -1,6 +1,6 @@
 // Command testphoto writes a simulated photo of a chart of slanted squares
 // for the page's browser tests and timings: a W x H frame from the simulated
-// camera (core/simcam) behind an invented lens that softens towards the
+// camera (core/sim/simcam) behind an invented lens that softens towards the
 // corners, sagittal and tangential differently, with photon and read noise,
 // saved as JPEG (or PNG, or a 16-bit TIFF by extension) with Exif naming the
 // "Sagitta Simulated Camera".
@@ -21,9 +21,9 @@ import (
 	"golang.org/x/image/tiff"
 
 	sheet "sagitta/core/chart"
-	"sagitta/core/chart/chartsim"
 	"sagitta/core/exif"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/chartsim"
+	"sagitta/core/sim/simcam"
 )
 
 func main() {

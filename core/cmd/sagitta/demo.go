@@ -6,7 +6,7 @@ import (
 	"io"
 	"os"
 
-	"sagitta/core/demo"
+	"sagitta/core/sim/demo"
 )
 
 // cmdDemo writes the built-in demo photo: a simulated lens and camera of our

@@ -8,7 +8,7 @@ import (
 	"strings"
 	"testing"
 
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 // runCLI runs a command line and returns stdout, stderr and the exit status.

@@ -11,7 +11,7 @@ import (
 	"path/filepath"
 	"testing"
 
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 // TestPlotsFlag runs "sagitta analyze --json --plots DIR" on two simulated

@@ -1,4 +1,4 @@
-package find
+package edgefind
 
 import "sagitta/core/plane"
 

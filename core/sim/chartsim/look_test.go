@@ -5,8 +5,8 @@ import (
 	"testing"
 
 	"sagitta/core/chart"
-	"sagitta/core/chart/chartsim"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/chartsim"
+	"sagitta/core/sim/simcam"
 )
 
 // TestLook writes a simulated photo of the chart to $CHART_LOOK/photo.png

@@ -1,4 +1,4 @@
-package find
+package edgefind
 
 // tilePx is the side of the tiles over which the local threshold is set,
 // in coarse pixels.

@@ -1,4 +1,4 @@
-// Package find locates the measurable straight edges in a photo: the sides
+// Package edgefind locates the measurable straight edges in a photo: the sides
 // of dark or light polygons at any rotation on any fairly uniform
 // background, whether printed by Sagitta or taped to a wall.
 //
@@ -8,7 +8,7 @@
 // straight runs, and each run long enough becomes an oriented region at full
 // resolution, placed clear of corners and of every other boundary. What
 // cannot be measured well is listed with the reason.
-package find
+package edgefind
 
 import (
 	"fmt"

@@ -5,7 +5,7 @@ import (
 	"testing"
 
 	"sagitta/core/chart"
-	"sagitta/core/chart/chartsim"
+	"sagitta/core/sim/chartsim"
 )
 
 // TestViewHomography checks View.Homography against the camera it stands

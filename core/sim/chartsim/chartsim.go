@@ -1,5 +1,5 @@
 // Package chartsim photographs Sagitta's printed chart with the simulated
-// camera (core/simcam): it places a chart Design in front of a pinhole
+// camera (core/sim/simcam): it places a chart Design in front of a pinhole
 // camera and turns its targets into a simcam Scene, for tests, benchmarks
 // and demo photos of the chart.
 //
@@ -21,7 +21,7 @@ import (
 	"math"
 
 	"sagitta/core/chart"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 // View is a camera looking at the chart.

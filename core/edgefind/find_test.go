@@ -1,4 +1,4 @@
-package find
+package edgefind
 
 import (
 	"fmt"
@@ -6,7 +6,7 @@ import (
 	"testing"
 
 	"sagitta/core/plane"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/simcam"
 )
 
 func render(t *testing.T, w, h int, s simcam.Scene, sigma float64) *plane.Plane {

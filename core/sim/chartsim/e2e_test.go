@@ -9,9 +9,9 @@ import (
 
 	"sagitta/core/analyze"
 	"sagitta/core/chart"
-	"sagitta/core/chart/chartsim"
 	"sagitta/core/field"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/chartsim"
+	"sagitta/core/sim/simcam"
 )
 
 // TestEndToEnd photographs the 3:2 chart with a simulated full-frame camera

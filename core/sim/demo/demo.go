@@ -1,6 +1,6 @@
 // Package demo holds Sagitta's built-in demonstration: an invented lens on
 // an invented camera photographing a sheet of tilted squares, rendered by
-// the simulated camera (core/simcam). Every number here is made up for the
+// the simulated camera (core/sim/simcam). Every number here is made up for the
 // demonstration; none describes a real product. Because the lens is
 // simulated, its true MTF at every point is known, which makes the demo
 // photo a test input too.
@@ -16,9 +16,9 @@ import (
 	"math"
 
 	"sagitta/core/chart"
-	"sagitta/core/chart/chartsim"
 	"sagitta/core/exif"
-	"sagitta/core/simcam"
+	"sagitta/core/sim/chartsim"
+	"sagitta/core/sim/simcam"
 )
 
 // Scenario describes a simulated photo: sensor, lens and sheet.
