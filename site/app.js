@@ -153,7 +153,7 @@ function addFiles(files) {
     const p = {
       key: nextKey++, name: file.name, file, label: '', status: 'queued', stage: 'waiting',
       fraction: 0, result: null, error: '', thumb: null, preview: null, job: null, settingsKey: '',
-      update: null, remeasure: '', remeasureKey: '',
+      update: null, remeasure: '', remeasureCodes: [], remeasureKey: '',
     };
     state.photos.push(p);
     makeRow(p);
@@ -460,7 +460,7 @@ async function showSelected() {
 function isStale(p, s = readSettings()) {
   if (!p.result) return false;
   if (p.settingsKey === settingsKey(s)) return false;
-  if (/^Exif/.test(p.result.pitch_source) && s.fallback_sensor_mm) {
+  if (p.result.pitch_from === 'exif' && s.fallback_sensor_mm) {
     const used = JSON.parse(p.settingsKey);
     return settingsKey({ ...s, fallback_sensor_mm: used.fallback_sensor_mm }) !== p.settingsKey;
   }
@@ -496,7 +496,7 @@ async function resummarise(p, s) {
   try {
     r = await state.pool.call('resummarise', [JSON.stringify(p.result), JSON.stringify(s)]);
   } catch (e) {
-    r = { remeasure: e.message };
+    r = { remeasure: e.message, remeasure_codes: [] };
   }
   if (p.update !== token || !state.photos.includes(p)) return;
   p.update = null;
@@ -507,7 +507,8 @@ async function resummarise(p, s) {
     if (state.selected === p.key) showSelected();
     if (!$('place-compare').hidden) renderCompare($('place-compare'), state);
   } else {
-    p.remeasure = r.remeasure; // the core's reason; asked again only for other settings
+    p.remeasure = r.remeasure; // the core's reason and its codes (core/note); asked again only for other settings
+    p.remeasureCodes = r.remeasure_codes || [];
     p.remeasureKey = settingsKey(s);
   }
   setStatus();
@@ -526,8 +527,9 @@ function refreshStale() {
   if (waiting.length) {
     const why = [];
     if (waiting.some((p) => !measuredAlike(JSON.parse(p.settingsKey), s))) why.push('the tone and the estimator change how photos are read and measured');
-    if (waiting.some((p) => p.remeasure && /sine stars/.test(p.remeasure))) why.push('sine stars are measured along and across the radius from the optical centre');
-    if (waiting.some((p) => p.remeasure && !/sine stars/.test(p.remeasure))) why.push('the new settings could not be applied without measuring');
+    const stars = (p) => p.remeasure && p.remeasureCodes.includes('centre-moved-stars');
+    if (waiting.some(stars)) why.push('sine stars are measured along and across the radius from the optical centre');
+    if (waiting.some((p) => p.remeasure && !stars(p))) why.push('the new settings could not be applied without measuring');
     if (!why.length) why.push('these settings differ from the ones the photos were measured with');
     const what = waiting.length === 1 ? `${waiting[0].name} again` : `these ${waiting.length} photos again`;
     $('stale-text').textContent = `${why.join('; ').replace(/^./, (c) => c.toUpperCase())}: measure ${what} to apply them.`;

@@ -63,7 +63,7 @@ export function renderResult(sec, p, state, display) {
   if (r.agreement && r.agreement.records > 0) {
     const a = r.agreement;
     // The core words a disagreement among the photo's warnings.
-    const words = r.warnings.some((w) => w.startsWith('sine stars and edges disagree')) ? 'disagree' : 'agree';
+    const words = r.warning_codes.includes('stars-edges-disagree') ? 'disagree' : 'agree';
     sec.append(el('p', { class: 'facts agreement' }, `Sine stars and edges ${words}: they differ by ${fmt(a.rms_diff, 3)} rms between ${fmtFreq(a.lo_cy_px, state.units, r)} and ${fmtFreq(a.hi_cy_px, state.units, r)} ` +
       `(${a.records} star record${a.records === 1 ? '' : 's'}; edges read ${a.mean_diff >= 0 ? 'higher' : 'lower'} by ${fmt(Math.abs(a.mean_diff), 3)} on average).`));
   }

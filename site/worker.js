@@ -20,7 +20,7 @@ const CALLS = {
   demo: (reduce) => bytesOut(core('sagittaDemo')(reduce)),
   resummarise: (image, settings) => {
     const r = core('sagittaResummarise')(image, settings);
-    return { result: r.image ? { image: JSON.parse(r.image) } : { remeasure: r.remeasure } };
+    return { result: r.image ? { image: JSON.parse(r.image) } : { remeasure: r.remeasure, remeasure_codes: Array.from(r.remeasure_codes || []) } };
   },
 };
 

@@ -22,6 +22,7 @@ import (
 	"sagitta/core/edgefind"
 	"sagitta/core/exif"
 	"sagitta/core/field"
+	"sagitta/core/note"
 )
 
 // Settings are the user's choices for one analysis. The zero value is valid
@@ -83,11 +84,14 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	img = &Image{
 		File: name, Width: dec.Width, Height: dec.Height,
 		Format: dec.Format, BitDepth: dec.BitDepth,
-		Tone: dec.Tone.String(), ToneSource: dec.ToneSource,
+		Tone: dec.Tone.String(), ToneSource: dec.ToneSource, ToneFrom: string(dec.ToneFrom),
 		Method: chk.method.String(), Exif: dec.Exif,
 		Measurements: []Measurement{}, Rejected: []Rejected{},
 		Stars: []StarInfo{}, Gratings: []GratingInfo{},
-		Warnings: append([]string{}, dec.Warnings...),
+		Warnings: []string{}, WarningCodes: []string{},
+	}
+	for i, w := range dec.Warnings {
+		img.warn(note.New(dec.WarningCodes[i], w))
 	}
 	geo, err := placeFrame(img, s, chk.freqs)
 	if err != nil {
@@ -103,7 +107,7 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	cands, rejects = pats.exclude(cands, rejects)
 	img.Rejected = append(img.Rejected, pats.rejected...)
 	for _, r := range rejects {
-		img.Rejected = append(img.Rejected, Rejected{r.X0, r.Y0, r.X1, r.Y1, r.Reason})
+		img.Rejected = append(img.Rejected, Rejected{r.X0, r.Y0, r.X1, r.Y1, r.Reason, string(r.Code)})
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, err
@@ -121,10 +125,10 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	for i, r := range results {
 		c := cands[i]
 		if r.err != nil {
-			img.Rejected = append(img.Rejected, rejectOf(c.Region, "no clean edge: "+plainError(r.err)))
+			img.Rejected = append(img.Rejected, rejectOf(c.Region, note.New(note.NoCleanEdge, "no clean edge: "+plainError(r.err))))
 			continue
 		}
-		if reason := unusable(r.m); reason != "" {
+		if reason, ok := unusable(r.m); ok {
 			img.Rejected = append(img.Rejected, rejectOf(c.Region, reason))
 			continue
 		}
@@ -136,7 +140,8 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 		return nil, err
 	}
 	recogniseChart(dec, img) // tags measurements on Sagitta's chart (chart.go)
-	err = summarise(img, geo, img.Warnings)
+	base, _ := img.notes()
+	err = summarise(img, geo, base)
 	if errors.Is(err, errNoRecords) {
 		return nil, noTargets(img.Rejected)
 	}
@@ -183,7 +188,9 @@ func (s Settings) check() (checked, error) {
 // it.
 func placeFrame(img *Image, s Settings, freqs []float64) (field.Geometry, error) {
 	var err error
-	img.PitchUM, img.PitchSource, err = pitch(s, img.Width, img.Exif)
+	var from note.Code
+	img.PitchUM, img.PitchSource, from, err = pitch(s, img.Width, img.Exif)
+	img.PitchFrom = string(from)
 	if err != nil {
 		return field.Geometry{}, err
 	}
@@ -225,20 +232,20 @@ func noTargets(rej []Rejected) error {
 // pitch chooses the pixel pitch of an image widthPx wide: the user's value,
 // else the sensor width over the image width, else the Exif focal-plane
 // resolution, else the fallback sensor's width over the image width.
-func pitch(s Settings, widthPx int, tags exif.Tags) (float64, string, error) {
+func pitch(s Settings, widthPx int, tags exif.Tags) (float64, string, note.Code, error) {
 	switch {
 	case s.PitchUM > 0:
-		return s.PitchUM, "user", nil
+		return s.PitchUM, "user", note.PitchUser, nil
 	case s.SensorMM[0] > 0:
-		return s.SensorMM[0] * 1000 / float64(widthPx), "sensor size", nil
+		return s.SensorMM[0] * 1000 / float64(widthPx), "sensor size", note.PitchSensor, nil
 	}
 	if p, ok := tags.PixelPitchUM(); ok && p > 0.3 && p < 50 {
-		return p, "Exif focal-plane resolution", nil
+		return p, "Exif focal-plane resolution", note.PitchExif, nil
 	}
 	if s.FallbackSensorMM[0] > 0 {
-		return s.FallbackSensorMM[0] * 1000 / float64(widthPx), "sensor size", nil
+		return s.FallbackSensorMM[0] * 1000 / float64(widthPx), "sensor size", note.PitchFallback, nil
 	}
-	return 0, "", errors.New("analyze: the pixel pitch is unknown: give it in um, or the sensor size in mm")
+	return 0, "", "", errors.New("analyze: the pixel pitch is unknown: give it in um, or the sensor size in mm")
 }
 
 type outcome struct {
@@ -301,25 +308,25 @@ func measureOne(dec *decode.Image, r edge.Region, method edge.Method) (o outcome
 
 // Measurements with these flags are set aside rather than reported: their
 // numbers would mislead (common practice for the slanted-edge method).
-func unusable(m *edge.Measurement) string {
+func unusable(m *edge.Measurement) (note.Note, bool) {
 	for _, f := range m.Flags {
 		switch f {
 		case edge.FlagClippedDark, edge.FlagClippedLight:
-			return "clipped: the " + map[edge.Flag]string{edge.FlagClippedDark: "dark", edge.FlagClippedLight: "light"}[f] + " side reaches the limit of the file's values"
+			return note.New(note.Clipped, "clipped: the "+map[edge.Flag]string{edge.FlagClippedDark: "dark", edge.FlagClippedLight: "light"}[f]+" side reaches the limit of the file's values"), true
 		}
 	}
 	if m.BowPx > maxBowPx {
-		return fmt.Sprintf("curved: bows by %.1f px", m.BowPx)
+		return note.New(note.Curved, fmt.Sprintf("curved: bows by %.1f px", m.BowPx)), true
 	}
-	return ""
+	return note.Note{}, false
 }
 
 // maxBowPx is the bow beyond which an edge is not taken as straight.
 const maxBowPx = 2.0
 
-func rejectOf(r edge.Region, reason string) Rejected {
+func rejectOf(r edge.Region, why note.Note) Rejected {
 	tx, ty := math.Cos(r.AngleDeg*math.Pi/180), math.Sin(r.AngleDeg*math.Pi/180)
-	return Rejected{r.X - r.HalfLen*tx, r.Y - r.HalfLen*ty, r.X + r.HalfLen*tx, r.Y + r.HalfLen*ty, reason}
+	return Rejected{r.X - r.HalfLen*tx, r.Y - r.HalfLen*ty, r.X + r.HalfLen*tx, r.Y + r.HalfLen*ty, why.Text, string(why.Code)}
 }
 
 func plainError(err error) string {

@@ -5,6 +5,7 @@ import (
 
 	"sagitta/core/chart"
 	"sagitta/core/decode"
+	"sagitta/core/note"
 )
 
 // ChartResult is what the analysis learnt from a Sagitta chart in the
@@ -48,9 +49,10 @@ type PatternTarget struct {
 // MissingTarget is a chart target (or one edge of a square) with no
 // measurement.
 type MissingTarget struct {
-	TargetID string `json:"target_id"`
-	Edge     int    `json:"target_edge,omitempty"`
-	Reason   string `json:"reason"`
+	TargetID   string `json:"target_id"`
+	Edge       int    `json:"target_edge,omitempty"`
+	Reason     string `json:"reason"`
+	ReasonCode string `json:"reason_code"` // core/note
 }
 
 // recogniseChart looks for Sagitta's chart in the photo. When it is there,
@@ -60,10 +62,10 @@ type MissingTarget struct {
 // set-up checks, which depend on the pixel pitch, are left to checkSetup.
 // Photos without the chart's marks are left exactly as they were.
 func recogniseChart(dec *decode.Image, img *Image) {
-	pose, note := chart.Recognise(dec.Lum)
+	pose, why := chart.Recognise(dec.Lum)
 	if pose == nil {
-		if note != "" {
-			img.Warnings = append(img.Warnings, "chart: "+note)
+		if why.Text != "" {
+			img.warn(note.New(why.Code, "chart: "+why.Text))
 		}
 		return
 	}
@@ -116,12 +118,12 @@ func recogniseChart(dec *decode.Image, img *Image) {
 
 	// Square edges inside the photo with no measurement: the reason of a
 	// rejected candidate on that edge, if any.
-	rejectedOn := map[key]string{}
+	rejectedOn := map[key]Rejected{}
 	for _, r := range img.Rejected {
 		hit := pose.Locate((r.X0+r.X1)/2, (r.Y0+r.Y1)/2)
 		if hit.Kind == chart.HitSquare {
 			if _, seen := rejectedOn[key{hit.ID, hit.Edge}]; !seen {
-				rejectedOn[key{hit.ID, hit.Edge}] = r.Reason
+				rejectedOn[key{hit.ID, hit.Edge}] = r
 			}
 		}
 	}
@@ -141,11 +143,11 @@ func recogniseChart(dec *decode.Image, img *Image) {
 				cr.EdgesIdentified++
 				continue
 			}
-			reason := rejectedOn[key{q.ID, e}]
-			if reason == "" {
-				reason = "not found"
+			r, ok := rejectedOn[key{q.ID, e}]
+			if !ok {
+				r.Reason, r.ReasonCode = "not found", string(note.NotFound)
 			}
-			cr.Missing = append(cr.Missing, MissingTarget{q.ID, e, reason})
+			cr.Missing = append(cr.Missing, MissingTarget{q.ID, e, r.Reason, r.ReasonCode})
 		}
 	}
 	// The sine analysis's stars and gratings, by the target under each;
@@ -172,7 +174,7 @@ func recogniseChart(dec *decode.Image, img *Image) {
 		case !inFrame(s.X-s.Radius, s.Y-s.Radius, s.X+s.Radius, s.Y+s.Radius):
 			cr.OutsideFrame = append(cr.OutsideFrame, s.ID)
 		case sine && !got[key{s.ID, 0}]:
-			cr.Missing = append(cr.Missing, MissingTarget{TargetID: s.ID, Reason: "not found as a sine star"})
+			cr.Missing = append(cr.Missing, MissingTarget{TargetID: s.ID, Reason: "not found as a sine star", ReasonCode: string(note.StarNotFound)})
 		}
 	}
 	for _, g := range pose.Design.Gratings {
@@ -180,7 +182,7 @@ func recogniseChart(dec *decode.Image, img *Image) {
 		case !inFrame(g.X-g.W/2, g.Y-g.H/2, g.X+g.W/2, g.Y+g.H/2):
 			cr.OutsideFrame = append(cr.OutsideFrame, g.ID)
 		case sine && !got[key{g.ID, 0}]:
-			cr.Missing = append(cr.Missing, MissingTarget{TargetID: g.ID, Reason: "not found as a sine grating"})
+			cr.Missing = append(cr.Missing, MissingTarget{TargetID: g.ID, Reason: "not found as a sine grating", ReasonCode: string(note.GratingNotFound)})
 		}
 	}
 	sort.SliceStable(cr.Missing, func(a, b int) bool { return cr.Missing[a].TargetID < cr.Missing[b].TargetID })

@@ -4,6 +4,7 @@ import (
 	"sagitta/core/edge"
 	"sagitta/core/exif"
 	"sagitta/core/field"
+	"sagitta/core/note"
 )
 
 // Result is what one call of the command-line tool prints: one entry per
@@ -20,12 +21,14 @@ type Image struct {
 	Height      int        `json:"height"`
 	PitchUM     float64    `json:"pitch_um"`
 	PitchSource string     `json:"pitch_source"` // "user", "sensor size" or "Exif focal-plane resolution"
+	PitchFrom   string     `json:"pitch_from"`   // its code: "user", "sensor", "exif" or "fallback" (core/note)
 	CenterPx    [2]float64 `json:"center_px"`
 	CornerMM    float64    `json:"corner_mm"` // largest image height in the frame, mm
 	Format      string     `json:"format"`
 	BitDepth    int        `json:"bit_depth"`
 	Tone        string     `json:"tone"`
 	ToneSource  string     `json:"tone_source"`
+	ToneFrom    string     `json:"tone_from"` // its code: "user", "file" or "default" (core/note)
 	Method      string     `json:"method"`
 	FreqsLPMM   []float64  `json:"freqs_lp_mm"` // the field frequencies used for summaries
 	Exif        exif.Tags  `json:"exif"`
@@ -33,6 +36,7 @@ type Image struct {
 	Measurements []Measurement `json:"measurements"`
 	Rejected     []Rejected    `json:"rejected"`
 	Warnings     []string      `json:"warnings"`
+	WarningCodes []string      `json:"warning_codes"` // aligned with Warnings (core/note)
 
 	// Stars and Gratings detail the sine patterns behind the records of
 	// kind "star" and "grating" (see sine.go); Agreement compares stars
@@ -100,13 +104,26 @@ type Measurement struct {
 }
 
 // Rejected is a candidate that was not measured or whose measurement was
-// set aside, with the reason.
+// set aside, with the reason and its code (core/note).
 type Rejected struct {
-	X0     float64 `json:"x0_px"`
-	Y0     float64 `json:"y0_px"`
-	X1     float64 `json:"x1_px"`
-	Y1     float64 `json:"y1_px"`
-	Reason string  `json:"reason"`
+	X0         float64 `json:"x0_px"`
+	Y0         float64 `json:"y0_px"`
+	X1         float64 `json:"x1_px"`
+	Y1         float64 `json:"y1_px"`
+	Reason     string  `json:"reason"`
+	ReasonCode string  `json:"reason_code"`
+}
+
+// notes returns the image's warnings with their codes; false when the
+// codes do not match the warnings (a result changed by hand).
+func (img *Image) notes() ([]note.Note, bool) {
+	return note.Join(img.Warnings, img.WarningCodes)
+}
+
+// warn adds a warning with its code.
+func (img *Image) warn(n note.Note) {
+	img.Warnings = append(img.Warnings, n.Text)
+	img.WarningCodes = append(img.WarningCodes, string(n.Code))
 }
 
 // Number is a float64 written to JSON as null when it is not a finite

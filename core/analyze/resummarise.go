@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"sagitta/core/decode"
+	"sagitta/core/note"
 	"sagitta/core/sine"
 )
 
@@ -66,22 +67,24 @@ func Resummarise(img *Image, s Settings) (out *Image, err error) {
 	if err != nil {
 		return nil, err
 	}
-	var again []string
+	var again []note.Note
 	if m := chk.method.String(); m != img.Method {
-		again = append(again, fmt.Sprintf("it was measured with the %s estimator, not %s", img.Method, m))
+		again = append(again, note.New(note.AgainMethod, fmt.Sprintf("it was measured with the %s estimator, not %s", img.Method, m)))
 	}
 	if !sameTone(chk.tone, img) {
 		if chk.tone.Kind == decode.ToneAuto {
-			again = append(again, fmt.Sprintf("it was decoded with the tone chosen then (%s), not as the file says", img.Tone))
+			again = append(again, note.New(note.AgainTone, fmt.Sprintf("it was decoded with the tone chosen then (%s), not as the file says", img.Tone)))
 		} else {
-			again = append(again, fmt.Sprintf("it was decoded with tone %s (%s), not with %s as chosen now", img.Tone, img.ToneSource, chk.tone))
+			again = append(again, note.New(note.AgainTone, fmt.Sprintf("it was decoded with tone %s (%s), not with %s as chosen now", img.Tone, img.ToneSource, chk.tone)))
 		}
 	}
 	if out.CenterPx != img.CenterPx && len(img.Stars) > 0 {
-		again = append(again, "the optical centre moved and the photo has sine stars, measured along and across the radius from the old centre")
+		again = append(again, note.New(note.AgainCentreStars, "the optical centre moved and the photo has sine stars, measured along and across the radius from the old centre"))
 	}
 	if len(again) > 0 {
-		return nil, &MeasureAgainError{Reasons: again}
+		e := &MeasureAgainError{}
+		e.Reasons, e.Codes = note.Split(again)
+		return nil, e
 	}
 	if err := summarise(out, geo, base); err != nil {
 		return nil, err
@@ -91,9 +94,12 @@ func Resummarise(img *Image, s Settings) (out *Image, err error) {
 
 // MeasureAgainError is Resummarise's answer when the new settings change
 // what was measured, not only how it is placed and summarised: the photo
-// must be measured again (Run). Reasons say what changed, in words.
+// must be measured again (Run). Reasons say what changed, in words, and
+// Codes the same, aligned, for programs (core/note: note.AgainMethod,
+// note.AgainTone, note.AgainCentreStars).
 type MeasureAgainError struct {
 	Reasons []string
+	Codes   []string
 }
 
 func (e *MeasureAgainError) Error() string {
@@ -120,14 +126,19 @@ func sameTone(t decode.Tone, img *Image) bool {
 }
 
 // baseWarnings returns the image's warnings that summarise does not derive
-// (see derivedWarnings), checking that the derived ones close the list.
-func baseWarnings(img *Image) ([]string, error) {
+// (see derivedWarnings), with their codes, checking that the derived ones
+// close the list.
+func baseWarnings(img *Image) ([]note.Note, error) {
+	all, ok := img.notes()
+	if !ok {
+		return nil, ResultError("its warning codes do not match its warnings")
+	}
 	tail := derivedWarnings(img)
-	n := len(img.Warnings) - len(tail)
-	if n < 0 || !slices.Equal(img.Warnings[n:], tail) {
+	n := len(all) - len(tail)
+	if n < 0 || !slices.Equal(all[n:], tail) {
 		return nil, ResultError("its warnings do not end with those its chart check, stars and edges give")
 	}
-	return img.Warnings[:n:n], nil
+	return all[:n:n], nil
 }
 
 // clearSummary returns a copy of img without what summarise derives: no
@@ -162,7 +173,7 @@ func clearSummary(img *Image) *Image {
 		c := *img.Chart
 		out.Chart = &c
 	}
-	out.Agreement, out.Summary, out.Warnings = nil, nil, nil
+	out.Agreement, out.Summary, out.Warnings, out.WarningCodes = nil, nil, nil, nil
 	return &out
 }
 

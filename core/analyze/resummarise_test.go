@@ -6,10 +6,12 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sync"
 	"testing"
 
 	"sagitta/core/exif"
+	"sagitta/core/note"
 	"sagitta/core/sim/demo"
 	"sagitta/core/sim/simcam"
 )
@@ -202,19 +204,19 @@ func TestResummariseMeasureAgain(t *testing.T) {
 	sq := run(t, squaresPhoto.photo(t), Settings{})
 	st := run(t, starPhoto.photo(t), Settings{PitchUM: 5})
 	cases := []struct {
-		name    string
-		img     *Image
-		s       Settings
-		reasons int // MeasureAgainError with this many reasons; 0: another error
+		name  string
+		img   *Image
+		s     Settings
+		codes []string // MeasureAgainError with these codes (core/note); none: another error
 	}{
-		{"tone: linear", sq, Settings{Tone: "linear"}, 1},
-		{"tone: sRGB chosen where the file's rule chose it", sq, Settings{Tone: "srgb"}, 1},
-		{"estimator: ISO 12233", sq, Settings{Method: "iso"}, 1},
-		{"tone and estimator", sq, Settings{Tone: "gamma:2.2", Method: "iso"}, 2},
-		{"optical centre of a photo with a star", st, Settings{PitchUM: 5, CenterPx: at(590, 410)}, 1},
-		{"unknown estimator", sq, Settings{Method: "best"}, 0},
-		{"field frequency 0", sq, Settings{FreqsLPMM: []float64{0}}, 0},
-		{"no pitch", st, Settings{}, 0},
+		{"tone: linear", sq, Settings{Tone: "linear"}, []string{"tone-changed"}},
+		{"tone: sRGB chosen where the file's rule chose it", sq, Settings{Tone: "srgb"}, []string{"tone-changed"}},
+		{"estimator: ISO 12233", sq, Settings{Method: "iso"}, []string{"method-changed"}},
+		{"tone and estimator", sq, Settings{Tone: "gamma:2.2", Method: "iso"}, []string{"method-changed", "tone-changed"}},
+		{"optical centre of a photo with a star", st, Settings{PitchUM: 5, CenterPx: at(590, 410)}, []string{"centre-moved-stars"}},
+		{"unknown estimator", sq, Settings{Method: "best"}, nil},
+		{"field frequency 0", sq, Settings{FreqsLPMM: []float64{0}}, nil},
+		{"no pitch", st, Settings{}, nil},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -223,9 +225,9 @@ func TestResummariseMeasureAgain(t *testing.T) {
 			switch {
 			case out != nil || err == nil:
 				t.Fatalf("got a result, want an error")
-			case c.reasons > 0 && (!errors.As(err, &again) || len(again.Reasons) != c.reasons):
-				t.Errorf("error %v (%T), want a MeasureAgainError with %d reasons", err, err, c.reasons)
-			case c.reasons == 0 && errors.As(err, &again):
+			case len(c.codes) > 0 && (!errors.As(err, &again) || !slices.Equal(again.Codes, c.codes) || len(again.Reasons) != len(c.codes)):
+				t.Errorf("error %v (%T), want a MeasureAgainError with codes %q", err, err, c.codes)
+			case len(c.codes) == 0 && errors.As(err, &again):
 				t.Errorf("error %v, want one that is not a MeasureAgainError", err)
 			}
 			t.Logf("%v", err)
@@ -241,6 +243,7 @@ func TestResummariseMeasureAgain(t *testing.T) {
 		change func(*Image)
 	}{
 		{"stars and edges made to disagree, with no warning", func(img *Image) { img.Agreement.RMSDiff = 2 * DisagreeRMS }},
+		{"a warning code with no warning", func(img *Image) { img.WarningCodes = append(img.WarningCodes, "no-edges") }},
 		{"a curve cut short", func(img *Image) { img.Measurements[3].MTF = img.Measurements[3].MTF[:5] }},
 		{"no reference grating", func(img *Image) {
 			for i := range img.Gratings {
@@ -325,19 +328,20 @@ func TestPitch(t *testing.T) {
 		tags exif.Tags
 		want float64
 		src  string
+		from note.Code
 	}{
-		{"user", Settings{PitchUM: 4.3, SensorMM: [2]float64{36, 24}}, good, 4.3, "user"},
-		{"sensor", Settings{SensorMM: [2]float64{36, 24}, FallbackSensorMM: [2]float64{24, 16}}, good, 6, "sensor size"},
-		{"Exif", Settings{FallbackSensorMM: [2]float64{24, 16}}, good, 6, "Exif focal-plane resolution"},
-		{"fallback: Exif out of range", Settings{FallbackSensorMM: [2]float64{24, 16}}, bad, 4, "sensor size"},
-		{"fallback: no Exif", Settings{FallbackSensorMM: [2]float64{24, 16}}, exif.Tags{}, 4, "sensor size"},
-		{"none", Settings{}, bad, 0, ""},
+		{"user", Settings{PitchUM: 4.3, SensorMM: [2]float64{36, 24}}, good, 4.3, "user", note.PitchUser},
+		{"sensor", Settings{SensorMM: [2]float64{36, 24}, FallbackSensorMM: [2]float64{24, 16}}, good, 6, "sensor size", note.PitchSensor},
+		{"Exif", Settings{FallbackSensorMM: [2]float64{24, 16}}, good, 6, "Exif focal-plane resolution", note.PitchExif},
+		{"fallback: Exif out of range", Settings{FallbackSensorMM: [2]float64{24, 16}}, bad, 4, "sensor size", note.PitchFallback},
+		{"fallback: no Exif", Settings{FallbackSensorMM: [2]float64{24, 16}}, exif.Tags{}, 4, "sensor size", note.PitchFallback},
+		{"none", Settings{}, bad, 0, "", ""},
 	}
 	const tol = 1e-9
 	for _, c := range cases {
-		p, src, err := pitch(c.s, 6000, c.tags)
-		if math.Abs(p-c.want) > tol || src != c.src || (err != nil) != (c.src == "") {
-			t.Errorf("%s: %g um from %q (%v), want %g from %q", c.name, p, src, err, c.want, c.src)
+		p, src, from, err := pitch(c.s, 6000, c.tags)
+		if math.Abs(p-c.want) > tol || src != c.src || from != c.from || (err != nil) != (c.src == "") {
+			t.Errorf("%s: %g um from %q/%q (%v), want %g from %q/%q", c.name, p, src, from, err, c.want, c.src, c.from)
 		}
 	}
 }

@@ -13,6 +13,7 @@ import (
 	"sagitta/core/edge"
 	"sagitta/core/edgefind"
 	"sagitta/core/field"
+	"sagitta/core/note"
 	"sagitta/core/plane"
 	"sagitta/core/sine"
 )
@@ -187,7 +188,7 @@ func findPatterns(ctx context.Context, p *plane.Plane, geo field.Geometry, worke
 			ps.quads = append(ps.quads, grow(c.Corners, patternMarginPx))
 		case errors.Is(r.err, sine.ErrStarTooSmall):
 			ps.rejected = append(ps.rejected, Rejected{c.X - c.RadiusPx, c.Y, c.X + c.RadiusPx, c.Y,
-				"sine star too small for its number of cycles"})
+				"sine star too small for its number of cycles", string(note.StarTooSmall)})
 		}
 	}
 	return ps
@@ -486,12 +487,12 @@ func agreement(img *Image) {
 }
 
 // disagreement is the image's warning when stars and edges disagree (see
-// derivedWarnings), or "".
-func disagreement(a *Agreement) string {
+// derivedWarnings); false when they agree.
+func disagreement(a *Agreement) (note.Note, bool) {
 	if a == nil || !(a.RMSDiff > DisagreeRMS) {
-		return ""
+		return note.Note{}, false
 	}
-	return "sine stars and edges disagree: " + disagreeText(&StarAgreement{RMSDiff: a.RMSDiff, MeanDiff: a.MeanDiff})
+	return note.New(note.StarsEdgesDisagree, "sine stars and edges disagree: "+disagreeText(&StarAgreement{RMSDiff: a.RMSDiff, MeanDiff: a.MeanDiff})), true
 }
 
 // disagreeText words a disagreement for people.

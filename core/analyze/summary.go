@@ -3,10 +3,12 @@ package analyze
 import (
 	"errors"
 	"math"
+	"slices"
 	"sort"
 
 	"sagitta/core/curve"
 	"sagitta/core/field"
+	"sagitta/core/note"
 )
 
 // errNoRecords is summarise's report of an image with no measurement
@@ -26,7 +28,7 @@ const noEdgeWarning = "no measurable edge was found in this photo, only sine pat
 // derivedWarnings) and summarises the frame. Run ends with it and
 // Resummarise repeats it on a copy cleared of its results (clearSummary),
 // so that the two give the same numbers.
-func summarise(img *Image, geo field.Geometry, base []string) error {
+func summarise(img *Image, geo field.Geometry, base []note.Note) error {
 	for i := range img.Stars {
 		img.Stars[i].HeightMM = geo.HeightMM(img.Stars[i].XPx, img.Stars[i].YPx)
 	}
@@ -49,7 +51,7 @@ func summarise(img *Image, geo field.Geometry, base []string) error {
 			return err
 		}
 	}
-	img.Warnings = append(append([]string{}, base...), derivedWarnings(img)...)
+	img.Warnings, img.WarningCodes = note.Split(append(slices.Clip(base), derivedWarnings(img)...))
 	var err error
 	img.Summary, err = field.Summarise(geo, fieldPoints(img.Measurements), img.FreqsLPMM)
 	return err
@@ -96,12 +98,19 @@ func place(m *Measurement, geo field.Geometry, freqs []float64) {
 // order: the chart's set-up checks, the disagreement of stars and edges,
 // and the lack of any edge. The image's other warnings (the file's, the
 // chart search's) come before them.
-func derivedWarnings(img *Image) []string {
-	var w []string
+func derivedWarnings(img *Image) []note.Note {
+	var w []note.Note
 	if img.Chart != nil {
-		w = append(w, img.Chart.Setup.Warnings...)
+		s := img.Chart.Setup
+		for i, t := range s.Warnings {
+			c := ""
+			if i < len(s.WarningCodes) {
+				c = s.WarningCodes[i]
+			}
+			w = append(w, note.New(note.Code(c), t))
+		}
 	}
-	if d := disagreement(img.Agreement); d != "" {
+	if d, ok := disagreement(img.Agreement); ok {
 		w = append(w, d)
 	}
 	edges := false
@@ -109,7 +118,7 @@ func derivedWarnings(img *Image) []string {
 		edges = edges || m.Kind == "edge"
 	}
 	if !edges {
-		w = append(w, noEdgeWarning)
+		w = append(w, note.New(note.NoEdges, noEdgeWarning))
 	}
 	return w
 }

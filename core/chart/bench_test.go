@@ -46,7 +46,7 @@ func BenchmarkRecognise(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
 				if pose, note := chart.Recognise(p); pose == nil {
-					b.Fatal(note)
+					b.Fatal(note.Text)
 				}
 			}
 		})

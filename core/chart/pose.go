@@ -3,6 +3,8 @@ package chart
 import (
 	"fmt"
 	"math"
+
+	"sagitta/core/note"
 )
 
 // Hit says what part of the chart lies under an image point.
@@ -94,8 +96,10 @@ type Setup struct {
 	// TiltDeg is the angle between the chart's normal and the camera's
 	// optical axis, when the focal length is known (else 0).
 	TiltDeg float64 `json:"tilt_deg,omitempty"`
-	// Warnings word every check that failed, with what to change.
-	Warnings []string `json:"warnings"`
+	// Warnings word every check that failed, with what to change;
+	// WarningCodes are their codes, aligned (core/note).
+	Warnings     []string `json:"warnings"`
+	WarningCodes []string `json:"warning_codes"`
 }
 
 // Thresholds of the set-up checks. They are Sagitta's own choices, not a
@@ -142,20 +146,23 @@ func (ps *Pose) Check(focalPx float64) Setup {
 	if focalPx > 0 {
 		s.TiltDeg = tiltDeg(ps.H, focalPx, w/2, h/2)
 	}
-	s.Warnings = []string{}
-	warn := func(format string, a ...any) { s.Warnings = append(s.Warnings, fmt.Sprintf(format, a...)) }
+	s.Warnings, s.WarningCodes = []string{}, []string{}
+	warn := func(c note.Code, format string, a ...any) {
+		s.Warnings = append(s.Warnings, fmt.Sprintf(format, a...))
+		s.WarningCodes = append(s.WarningCodes, string(c))
+	}
 	if s.CoverPct < MinCoverPct {
-		warn("The chart fills only %.0f %% of the frame, so the frame's edges and corners are not measured: move closer or zoom in until the chart's corner marks reach the corners of the frame.", s.CoverPct)
+		warn(note.SetupCover, "The chart fills only %.0f %% of the frame, so the frame's edges and corners are not measured: move closer or zoom in until the chart's corner marks reach the corners of the frame.", s.CoverPct)
 	}
 	if s.VisiblePct < MinVisiblePct {
-		warn("%.0f %% of the chart lies outside the frame, so targets near its edges are cut off: step back or zoom out until the corner marks are just inside the frame.", 100-s.VisiblePct)
+		warn(note.SetupCutOff, "%.0f %% of the chart lies outside the frame, so targets near its edges are cut off: step back or zoom out until the corner marks are just inside the frame.", 100-s.VisiblePct)
 	}
 	if math.Abs(s.RotationDeg) > MaxRotationDeg {
 		side := "clockwise"
 		if s.RotationDeg < 0 {
 			side = "anticlockwise"
 		}
-		warn("The chart is turned %.1f degrees %s in the frame: level the camera (or the chart) so the chart's sides run with the frame's.", math.Abs(s.RotationDeg), side)
+		warn(note.SetupRotated, "The chart is turned %.1f degrees %s in the frame: level the camera (or the chart) so the chart's sides run with the frame's.", math.Abs(s.RotationDeg), side)
 	}
 	tilt := ""
 	if s.TiltDeg > 0 {
@@ -166,17 +173,17 @@ func (ps *Pose) Check(focalPx float64) Setup {
 		if s.KeystoneLRPct < 0 {
 			near, far = far, near
 		}
-		warn("The camera is not square to the chart%s: its %s side appears %.1f %% larger than its %s side, so the %s side is nearer. Turn the camera (or the chart) until both sides match; a tilted chart is sharp only along one line.", tilt, near, math.Abs(s.KeystoneLRPct), far, near)
+		warn(note.SetupNotSquare, "The camera is not square to the chart%s: its %s side appears %.1f %% larger than its %s side, so the %s side is nearer. Turn the camera (or the chart) until both sides match; a tilted chart is sharp only along one line.", tilt, near, math.Abs(s.KeystoneLRPct), far, near)
 	}
 	if math.Abs(s.KeystoneTBPct) > MaxKeystonePct {
 		near, far := "top", "bottom"
 		if s.KeystoneTBPct < 0 {
 			near, far = far, near
 		}
-		warn("The camera is tilted against the chart%s: its %s appears %.1f %% larger than its %s, so the %s is nearer. Tilt the camera (or the chart) until both match; a tilted chart is sharp only along one line.", tilt, near, math.Abs(s.KeystoneTBPct), far, near)
+		warn(note.SetupTilted, "The camera is tilted against the chart%s: its %s appears %.1f %% larger than its %s, so the %s is nearer. Tilt the camera (or the chart) until both match; a tilted chart is sharp only along one line.", tilt, near, math.Abs(s.KeystoneTBPct), far, near)
 	}
 	if s.OffCentrePct > MaxOffCentrePct {
-		warn("The chart's centre is %.0f %% of the frame's height away from the frame's centre: aim the camera at the chart's centre.", s.OffCentrePct)
+		warn(note.SetupOffCentre, "The chart's centre is %.0f %% of the frame's height away from the frame's centre: aim the camera at the chart's centre.", s.OffCentrePct)
 	}
 	return s
 }

@@ -5,6 +5,7 @@ import (
 	"math"
 	"sort"
 
+	"sagitta/core/note"
 	"sagitta/core/plane"
 )
 
@@ -40,8 +41,9 @@ type Pose struct {
 
 // Recognise looks for a Sagitta chart in a linear-light photo. It returns
 // nil and an empty note when the photo shows no chart marks at all (any
-// other photo), nil and a note in plain words when marks were read but too
-// few to place the chart, and the chart's pose otherwise.
+// other photo), nil and a note (plain words and a code, core/note) when
+// marks were read but too few to place the chart or not fitting one chart,
+// and the chart's pose otherwise.
 //
 // Method: candidate discs (findDiscs) are read as marks (readMark); the
 // chart code held by most marks wins; with four or more marks of that code
@@ -51,7 +53,7 @@ type Pose struct {
 // dropped and the pose refitted. The pose is accepted only when it maps
 // each mark's disc to an ellipse of the size found (within 25 %), which
 // also checks fits through exactly four points.
-func Recognise(p *plane.Plane) (*Pose, string) {
+func Recognise(p *plane.Plane) (*Pose, note.Note) {
 	var marks []FoundMark
 	for _, d := range findDiscs(p) {
 		if m, ok := readMark(p, d); ok {
@@ -59,7 +61,7 @@ func Recognise(p *plane.Plane) (*Pose, string) {
 		}
 	}
 	if len(marks) == 0 {
-		return nil, ""
+		return nil, note.Note{}
 	}
 	// Majority code; one mark per index (the most certain reading).
 	votes := map[int]int{}
@@ -87,8 +89,9 @@ func Recognise(p *plane.Plane) (*Pose, string) {
 	}
 	sort.Slice(use, func(a, b int) bool { return use[a].Index < use[b].Index })
 	d, _ := NewDesign(codeOf(code))
-	few := func() string {
-		return fmt.Sprintf("found %d of the chart's 8 marks, too few to place it: frame the whole chart, or check focus and lighting", len(use))
+	disagree := note.New(note.ChartMarksDisagree, "found chart marks that do not fit together: the photo may show two charts, or a mark is damaged")
+	few := func() note.Note {
+		return note.New(note.ChartFewMarks, fmt.Sprintf("found %d of the chart's 8 marks, too few to place it: frame the whole chart, or check focus and lighting", len(use)))
 	}
 	if len(use) < 3 {
 		return nil, few()
@@ -101,13 +104,13 @@ func Recognise(p *plane.Plane) (*Pose, string) {
 		tol := math.Max(2, 0.01*pose.markSpacingPx())
 		if res <= tol {
 			if !pose.sizesAgree() {
-				return nil, "found chart marks that do not fit together: the photo may show two charts, or a mark is damaged"
+				return nil, disagree
 			}
 			pose.W, pose.Hpx = p.W, p.H
-			return pose, ""
+			return pose, note.Note{}
 		}
 		if len(use) <= 4 {
-			return nil, "found chart marks that do not fit together: the photo may show two charts, or a mark is damaged"
+			return nil, disagree
 		}
 		use = append(use[:worst], use[worst+1:]...)
 	}

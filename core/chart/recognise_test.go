@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"sagitta/core/chart"
+	"sagitta/core/note"
 	"sagitta/core/plane"
 	"sagitta/core/sim/chartsim"
 	"sagitta/core/sim/simcam"
@@ -90,7 +91,7 @@ func TestRecognise(t *testing.T) {
 			p := photo(t, d, c.view, lensSigma)
 			pose, note := chart.Recognise(p)
 			if pose == nil {
-				t.Fatalf("not recognised: %q", note)
+				t.Fatalf("not recognised: %q", note.Text)
 			}
 			if pose.Code != c.code {
 				t.Errorf("code %v, want %v", pose.Code, c.code)
@@ -126,7 +127,7 @@ func TestNotAChart(t *testing.T) {
 	}
 	cam := simcam.Camera{W: 800, H: 600, Lens: simcam.Fixed{PSF: simcam.Gaussian{Sigma1: 0.8, Sigma2: 0.8}}}
 	p := cam.RenderLinear(s)
-	if pose, note := chart.Recognise(p); pose != nil || note != "" {
+	if pose, note := chart.Recognise(p); pose != nil || note.Text != "" || note.Code != "" {
 		t.Errorf("a photo without marks gave pose %v, note %q", pose, note)
 	}
 	// The chart moved right and down so that only two marks (top-left and
@@ -137,8 +138,9 @@ func TestNotAChart(t *testing.T) {
 	}
 	q := photo(t, d, chartsim.View{W: 900, H: 600, ShiftX: 560, ShiftY: 150}, lensSigma)
 	pose, note := chart.Recognise(q)
-	if pose != nil || !strings.Contains(note, "too few") {
-		t.Errorf("a chart cut to two marks gave pose %v, note %q", pose != nil, note)
+	// The code is the contract's (core/note); the words may change.
+	if pose != nil || !strings.Contains(note.Text, "too few") || note.Code != "chart-few-marks" {
+		t.Errorf("a chart cut to two marks gave pose %v, note %q", pose != nil, note.Text)
 	}
 }
 
@@ -188,9 +190,9 @@ func TestSetupChecks(t *testing.T) {
 				inv, _ := h.Inverse()
 				pose = &chart.Pose{Code: d.Code, Design: d, H: h, Inv: inv, W: c.view.W, Hpx: c.view.H}
 			} else {
-				var note string
-				if pose, note = chart.Recognise(photo(t, d, c.view, lensSigma)); pose == nil {
-					t.Fatalf("not recognised: %s", note)
+				var why note.Note
+				if pose, why = chart.Recognise(photo(t, d, c.view, lensSigma)); pose == nil {
+					t.Fatalf("not recognised: %s", why.Text)
 				}
 			}
 			s := pose.Check(c.view.FocalPx)

@@ -36,6 +36,7 @@ import (
 	"golang.org/x/image/tiff"
 
 	"sagitta/core/exif"
+	"sagitta/core/note"
 	"sagitta/core/plane"
 )
 
@@ -68,17 +69,27 @@ type Image struct {
 	Colour bool
 	// Tone is the tone curve actually applied (never ToneAuto) and
 	// ToneSource says why, in plain words: "user", "file: PNG gAMA 1.0",
-	// "default: sRGB", ...
+	// "default: sRGB", ...; ToneFrom is its code (note.ToneUser,
+	// note.ToneFile or note.ToneDefault).
 	Tone       Tone
 	ToneSource string
+	ToneFrom   note.Code
 	// Lum is the linear-light luminance, Width x Height, full scale = 1.
 	Lum *plane.Plane
 	// Exif holds the tags read from a JPEG APP1 segment, a TIFF file's
 	// IFD0 and Exif IFD, or a PNG eXIf chunk; empty if there are none.
 	Exif exif.Tags
 	// Warnings are plain-language notes about choices made while
-	// decoding (assumed tone, ignored alpha, unreadable Exif, ...).
-	Warnings []string
+	// decoding (assumed tone, ignored alpha, unreadable Exif, ...);
+	// WarningCodes holds their codes, aligned (core/note).
+	Warnings     []string
+	WarningCodes []note.Code
+}
+
+// warn adds a warning with its code.
+func (im *Image) warn(c note.Code, text string) {
+	im.Warnings = append(im.Warnings, text)
+	im.WarningCodes = append(im.WarningCodes, c)
 }
 
 // Config returns the format and the size in px of an image from its header,
@@ -171,7 +182,7 @@ func Decode(data []byte, opt Options) (*Image, error) {
 		return nil, formatErr(fmt.Sprintf("corrupt %s (header says %d x %d, decoder gave %d x %d)", strings.ToUpper(format), w, h, b.Dx(), b.Dy()), nil)
 	}
 
-	out.Tone, out.ToneSource = chooseTone(opt.Tone, format, pi, out)
+	out.Tone, out.ToneSource, out.ToneFrom = chooseTone(opt.Tone, format, pi, out)
 	conv := newConverter(out.Tone)
 	out.Lum = conv.luminance(img)
 	out.Colour = conv.colour
@@ -182,41 +193,41 @@ func Decode(data []byte, opt Options) (*Image, error) {
 	}
 	img = nil // release the decoded pixels before anything else allocates
 	if conv.alpha {
-		out.Warnings = append(out.Warnings, "alpha channel ignored: colour values used as stored, nothing composited")
+		out.warn(note.AlphaIgnored, "alpha channel ignored: colour values used as stored, nothing composited")
 	}
 	readExif(out, format, data, pi)
 	return out, nil
 }
 
 // chooseTone resolves ToneAuto into the tone to apply and its reason.
-func chooseTone(user Tone, format string, pi pngInfo, out *Image) (Tone, string) {
+func chooseTone(user Tone, format string, pi pngInfo, out *Image) (Tone, string, note.Code) {
 	if user.Kind != ToneAuto {
-		return user, "user"
+		return user, "user", note.ToneUser
 	}
 	if format == FormatPNG {
 		switch {
 		case pi.hasSRGB:
-			return SRGB, "file: PNG sRGB chunk"
+			return SRGB, "file: PNG sRGB chunk", note.ToneFile
 		case pi.hasICCP:
-			out.Warnings = append(out.Warnings, "PNG ICC profile not read: decoded as sRGB")
-			return SRGB, "file: PNG iCCP chunk (profile not read; assumed sRGB)"
+			out.warn(note.ICCNotRead, "PNG ICC profile not read: decoded as sRGB")
+			return SRGB, "file: PNG iCCP chunk (profile not read; assumed sRGB)", note.ToneFile
 		case pi.hasGAMA && pi.gama == 100000:
-			return Linear, "file: PNG gAMA 1.0"
+			return Linear, "file: PNG gAMA 1.0", note.ToneFile
 		case pi.hasGAMA && pi.gama > 0:
 			file := float64(pi.gama) / 100000 // the encoding exponent, 11.3.3.2
 			g := 1 / file
 			if t := Gamma(g); t.Check() == nil {
-				return t, fmt.Sprintf("file: PNG gAMA %.5g (decoding gamma %.4g)", file, g)
+				return t, fmt.Sprintf("file: PNG gAMA %.5g (decoding gamma %.4g)", file, g), note.ToneFile
 			}
-			out.Warnings = append(out.Warnings, fmt.Sprintf("PNG gAMA %.5g ignored: decoding gamma %.4g is outside [%v, %v]", file, g, MinGamma, MaxGamma))
+			out.warn(note.GammaIgnored, fmt.Sprintf("PNG gAMA %.5g ignored: decoding gamma %.4g is outside [%v, %v]", file, g, MinGamma, MaxGamma))
 		case pi.hasGAMA:
-			out.Warnings = append(out.Warnings, "PNG gAMA of 0 ignored")
+			out.warn(note.GammaZero, "PNG gAMA of 0 ignored")
 		}
 	}
 	if out.BitDepth == 16 {
-		out.Warnings = append(out.Warnings, "16-bit file declares no tone curve: decoded as sRGB; choose linear if it holds linear data from a raw converter")
+		out.warn(note.NoToneCurve, "16-bit file declares no tone curve: decoded as sRGB; choose linear if it holds linear data from a raw converter")
 	}
-	return SRGB, "default: sRGB"
+	return SRGB, "default: sRGB", note.ToneDefault
 }
 
 // readExif fills out.Exif; an unreadable Exif block is a warning, not a
@@ -238,11 +249,11 @@ func readExif(out *Image, format string, data []byte, pi pngInfo) {
 		}
 	}
 	if err != nil {
-		out.Warnings = append(out.Warnings, "Exif data unreadable ("+err.Error()+")")
+		out.warn(note.ExifUnreadable, "Exif data unreadable ("+err.Error()+")")
 		return
 	}
 	out.Exif = t
 	if t.Orientation > 1 {
-		out.Warnings = append(out.Warnings, fmt.Sprintf("Exif orientation %d not applied: pixels analysed as stored on the sensor", t.Orientation))
+		out.warn(note.OrientationNotApplied, fmt.Sprintf("Exif orientation %d not applied: pixels analysed as stored on the sensor", t.Orientation))
 	}
 }

@@ -16,6 +16,7 @@ import (
 
 	"sagitta/core/edge"
 	"sagitta/core/internal/coarse"
+	"sagitta/core/note"
 	"sagitta/core/plane"
 )
 
@@ -57,10 +58,11 @@ type Candidate struct {
 }
 
 // Reject is a straight run that will not be measured, with the reason in
-// plain words.
+// plain words and its code (core/note).
 type Reject struct {
 	X0, Y0, X1, Y1 float64 // ends of the run, px
 	Reason         string
+	Code           note.Code
 }
 
 // Reasons given for rejected runs.
@@ -70,6 +72,14 @@ const (
 	ReasonCrowded = "too close to other detail"
 	ReasonBorder  = "too close to the image border"
 )
+
+// reasonCode is the code of each reason.
+var reasonCode = map[string]note.Code{
+	ReasonShort:   note.TooShort,
+	ReasonRagged:  note.NotStraight,
+	ReasonCrowded: note.Crowded,
+	ReasonBorder:  note.NearBorder,
+}
 
 // Edges finds the edge regions of a photo.
 func Edges(p *plane.Plane, opt Options) ([]Candidate, []Reject) {
@@ -119,7 +129,7 @@ func Edges(p *plane.Plane, opt Options) ([]Candidate, []Reject) {
 		a, b := r.pts[0], r.pts[len(r.pts)-1]
 		lenPx := dist(a, b) * fk
 		rej := func(reason string) {
-			rejects = append(rejects, Reject{a[0] * fk, a[1] * fk, b[0] * fk, b[1] * fk, reason})
+			rejects = append(rejects, Reject{a[0] * fk, a[1] * fk, b[0] * fk, b[1] * fk, reason, reasonCode[reason]})
 		}
 		if lenPx < opt.MinLengthPx {
 			if lenPx >= opt.MinLengthPx/2 {
@@ -145,7 +155,7 @@ func Edges(p *plane.Plane, opt Options) ([]Candidate, []Reject) {
 			reg, reason := place(pcx, pcy, dx, dy, pieceHalf, r.id, label, c.W, c.H, fk, p.W, p.H, opt)
 			if reason != "" {
 				e := pieceHalf
-				rejects = append(rejects, Reject{pcx - e*dx, pcy - e*dy, pcx + e*dx, pcy + e*dy, reason})
+				rejects = append(rejects, Reject{pcx - e*dx, pcy - e*dy, pcx + e*dx, pcy + e*dy, reason, reasonCode[reason]})
 				continue
 			}
 			cands = append(cands, Candidate{Region: reg, Boundary: r.boundary, Run: r.id})

@@ -114,13 +114,14 @@ func TestRejectReasons(t *testing.T) {
 	_, rej := Edges(p, Options{})
 	reasons := map[string]int{}
 	for _, r := range rej {
-		reasons[r.Reason]++
+		reasons[r.Reason+" / "+string(r.Code)]++
 	}
-	if reasons[ReasonShort] == 0 {
-		t.Errorf("no %q among %v", ReasonShort, rej)
+	// Each reason comes with its code (core/note).
+	if k := ReasonShort + " / too-short"; reasons[k] == 0 {
+		t.Errorf("no %q among %v", k, rej)
 	}
-	if reasons[ReasonCrowded] == 0 {
-		t.Errorf("no %q among %v", ReasonCrowded, rej)
+	if k := ReasonCrowded + " / crowded"; reasons[k] == 0 {
+		t.Errorf("no %q among %v", k, rej)
 	}
 }
 

@@ -3,6 +3,8 @@ package field
 import (
 	"fmt"
 	"math"
+
+	"sagitta/core/note"
 )
 
 // CurveSamples is the number of heights at which a smooth curve is sampled.
@@ -66,6 +68,7 @@ func (s *Summary) fieldCurves(pts []Point) *fitSet {
 			fit := fitCurve(pts, or, func(p Point) float64 { return p.MTF[k] })
 			if fit == nil {
 				s.Warnings = append(s.Warnings, fmt.Sprintf("no %s field curve at %s lp/mm: fewer than %d %s measurements over a range of heights", or, fmtNum(f), MinCurvePoints, or))
+				s.WarningCodes = append(s.WarningCodes, string(note.NoFieldCurve))
 			} else {
 				fit.curve.Quantity, fit.curve.FreqLPMM = "mtf", f
 				s.Curves = append(s.Curves, fit.curve)

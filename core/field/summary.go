@@ -59,8 +59,10 @@ type Summary struct {
 	Balance Balance `json:"balance"`
 	// Cautions are the set-up cautions to show beside any verdict.
 	Cautions []string `json:"cautions"`
-	// Warnings say what could not be summarised and why.
-	Warnings []string `json:"warnings"`
+	// Warnings say what could not be summarised and why; WarningCodes
+	// are their codes, aligned (core/note).
+	Warnings     []string `json:"warnings"`
+	WarningCodes []string `json:"warning_codes"`
 }
 
 // SummaryPoint is a measurement in the summary: its place, orientation and
@@ -136,14 +138,15 @@ func Summarise(geo Geometry, points []Point, freqsLPMM []float64) (*Summary, err
 		PitchUM:   geo.PitchUM,
 		CenterPx:  [2]float64{geo.CenterX, geo.CenterY},
 		WidthPx:   geo.Width, HeightPx: geo.Height,
-		CornerMM:    geo.CornerMM(),
-		Smoother:    smootherName,
-		Points:      []SummaryPoint{},
-		Curves:      []Curve{},
-		MTF50Curves: []Curve{},
-		Astigmatism: []Astigmatism{},
-		Cautions:    append([]string{}, Cautions...),
-		Warnings:    []string{},
+		CornerMM:     geo.CornerMM(),
+		Smoother:     smootherName,
+		Points:       []SummaryPoint{},
+		Curves:       []Curve{},
+		MTF50Curves:  []Curve{},
+		Astigmatism:  []Astigmatism{},
+		Cautions:     append([]string{}, Cautions...),
+		Warnings:     []string{},
+		WarningCodes: []string{},
 	}
 	pts := make([]Point, 0, len(points))
 	for _, p := range points {

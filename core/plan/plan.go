@@ -121,10 +121,11 @@ type Plan struct {
 	BlurOverPitch     float64 `json:"blur_over_pitch,omitempty"`
 	Verdict           string  `json:"verdict"`
 	// Summary says the verdict in words; Advice what to change; Warnings
-	// other cautions.
-	Summary  string   `json:"summary"`
-	Advice   []string `json:"advice"`
-	Warnings []string `json:"warnings"`
+	// other cautions, with their codes aligned in WarningCodes (core/note).
+	Summary      string   `json:"summary"`
+	Advice       []string `json:"advice"`
+	Warnings     []string `json:"warnings"`
+	WarningCodes []string `json:"warning_codes"`
 
 	limitLong bool // the chart's long side limits the framing
 }

@@ -5,12 +5,13 @@ import (
 	"math"
 
 	"sagitta/core/chart"
+	"sagitta/core/note"
 )
 
 // verdict sets the chart-limit verdict, its summary, the advice on what to
 // change and the other warnings.
 func (p *Plan) verdict(opt Options, co chart.Options, pr printer) {
-	p.Advice, p.Warnings = []string{}, []string{}
+	p.Advice, p.Warnings, p.WarningCodes = []string{}, []string{}, []string{}
 	worst := p.Freqs[0]
 	for _, f := range p.Freqs {
 		if f.PrintMTF < worst.PrintMTF {
@@ -50,14 +51,14 @@ func (p *Plan) verdict(opt Options, co chart.Options, pr printer) {
 		p.advise(opt, co, pr, crit)
 	}
 	if p.Nyquist == nil {
-		p.Warnings = append(p.Warnings, "Give the pixel pitch (or the photo's size in pixels) to check the print up to the sensor's Nyquist frequency.")
+		p.warn(note.PlanNoPitch, "Give the pixel pitch (or the photo's size in pixels) to check the print up to the sensor's Nyquist frequency.")
 	}
 	if p.FocalLengths < MinFocalLengths {
-		p.Warnings = append(p.Warnings, fmt.Sprintf("The chart is only %.0f focal lengths away (%.2f m from the lens): lenses behave differently at close range, so the field curves may not show how the lens draws distant subjects. A larger sheet lets you shoot from farther (common practice: about %d focal lengths or more).",
+		p.warn(note.PlanCloseRange, fmt.Sprintf("The chart is only %.0f focal lengths away (%.2f m from the lens): lenses behave differently at close range, so the field curves may not show how the lens draws distant subjects. A larger sheet lets you shoot from farther (common practice: about %d focal lengths or more).",
 			p.FocalLengths, p.ObjectDistanceMM/1000, MinFocalLengths))
 	}
 	if sa := nearestAspect(p.SensorMM); sa != p.Aspect {
-		p.Warnings = append(p.Warnings, fmt.Sprintf("The chart is %s but the sensor is nearer %s: the chart cannot fill the frame, and the frame's corners are not measured.", p.Aspect, sa))
+		p.warn(note.PlanAspect, fmt.Sprintf("The chart is %s but the sensor is nearer %s: the chart cannot fill the frame, and the frame's corners are not measured.", p.Aspect, sa))
 	}
 }
 
@@ -117,4 +118,10 @@ func (p *Plan) side(wh [2]float64) float64 {
 		return math.Max(wh[0], wh[1])
 	}
 	return math.Min(wh[0], wh[1])
+}
+
+// warn adds a warning with its code.
+func (p *Plan) warn(c note.Code, text string) {
+	p.Warnings = append(p.Warnings, text)
+	p.WarningCodes = append(p.WarningCodes, string(c))
 }

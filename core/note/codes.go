@@ -1,0 +1,152 @@
+package note
+
+// Every code the core gives beside a sentence, by where it appears in the
+// JSON of `sagitta analyze --json` (README, "The JSON contract"). A key
+// "warnings" (or "reason") has its codes in "warning_codes" (or
+// "reason_code") beside it, aligned one for one.
+
+// Photo warnings: the file's, in Image.warnings (core/decode).
+const (
+	// AlphaIgnored: the file has an alpha channel; colour values were used
+	// as stored, nothing composited.
+	AlphaIgnored Code = "alpha-ignored"
+	// ICCNotRead: a PNG carries an ICC profile, which is not read; the
+	// photo was decoded as sRGB.
+	ICCNotRead Code = "icc-not-read"
+	// GammaIgnored: a PNG's gAMA chunk gives a decoding gamma outside the
+	// accepted range; it was ignored.
+	GammaIgnored Code = "gamma-ignored"
+	// GammaZero: a PNG's gAMA chunk holds 0; it was ignored.
+	GammaZero Code = "gamma-zero"
+	// NoToneCurve: a 16-bit file declares no tone curve and was decoded as
+	// sRGB (it may hold linear data).
+	NoToneCurve Code = "no-tone-curve"
+	// ExifUnreadable: the Exif block could not be read; the pixels are
+	// analysed all the same.
+	ExifUnreadable Code = "exif-unreadable"
+	// OrientationNotApplied: Exif asks for a turn or mirror; the pixels are
+	// analysed as stored.
+	OrientationNotApplied Code = "orientation-not-applied"
+)
+
+// Chart warnings: the search for Sagitta's chart, in Image.warnings, and
+// its set-up checks, in chart.setup.warnings (and again in Image.warnings).
+const (
+	// ChartFewMarks: some of the chart's marks were read, too few to place
+	// it.
+	ChartFewMarks Code = "chart-few-marks"
+	// ChartMarksDisagree: the marks read do not fit one chart (two charts,
+	// or a damaged mark).
+	ChartMarksDisagree Code = "chart-marks-disagree"
+	// SetupCover: the chart fills too little of the frame.
+	SetupCover Code = "setup-cover"
+	// SetupCutOff: part of the chart lies outside the frame.
+	SetupCutOff Code = "setup-cut-off"
+	// SetupRotated: the chart is turned in the frame.
+	SetupRotated Code = "setup-rotated"
+	// SetupNotSquare: the chart's left and right sides are at different
+	// distances (keystone left/right).
+	SetupNotSquare Code = "setup-not-square"
+	// SetupTilted: the chart's top and bottom are at different distances
+	// (keystone top/bottom).
+	SetupTilted Code = "setup-tilted"
+	// SetupOffCentre: the chart's centre is away from the frame's centre.
+	SetupOffCentre Code = "setup-off-centre"
+)
+
+// Analysis warnings, in Image.warnings.
+const (
+	// StarsEdgesDisagree: sine stars and nearby edges measure different
+	// MTF (see Image.agreement).
+	StarsEdgesDisagree Code = "stars-edges-disagree"
+	// NoEdges: only sine patterns were measured; no edge.
+	NoEdges Code = "no-edges"
+)
+
+// Summary warnings, in summary.warnings (core/field).
+const (
+	// NoFieldCurve: too few measurements of one orientation over a range
+	// of heights for a field curve at one frequency.
+	NoFieldCurve Code = "no-field-curve"
+)
+
+// Reasons a candidate was set aside, in rejected[].reason_code; a chart
+// target with no measurement takes the reason of a candidate set aside on
+// it, in chart.missing[].reason_code.
+const (
+	// TooShort: the straight run is too short to measure.
+	TooShort Code = "too-short"
+	// NotStraight: the run is not straight.
+	NotStraight Code = "not-straight"
+	// Crowded: the run is too close to other detail.
+	Crowded Code = "crowded"
+	// NearBorder: the run is too close to the image border.
+	NearBorder Code = "near-border"
+	// NoCleanEdge: the region gave no clean edge when measured.
+	NoCleanEdge Code = "no-clean-edge"
+	// Clipped: one side of the edge reaches the limit of the file's values.
+	Clipped Code = "clipped"
+	// Curved: the edge bows too much to be taken as straight.
+	Curved Code = "curved"
+	// StarTooSmall: a sine star too small for its number of cycles.
+	StarTooSmall Code = "star-too-small"
+)
+
+// Reasons a chart target has no measurement when no candidate was set
+// aside on it, in chart.missing[].reason_code.
+const (
+	// NotFound: no edge was found on the square's side.
+	NotFound Code = "not-found"
+	// StarNotFound: the chart's sine star was not found.
+	StarNotFound Code = "star-not-found"
+	// GratingNotFound: the chart's sine grating was not found.
+	GratingNotFound Code = "grating-not-found"
+)
+
+// Causes to measure a photo again instead of applying new settings to its
+// result (analyze.MeasureAgainError; the page's "resummarise" call gives
+// them as remeasure_codes).
+const (
+	// AgainMethod: another estimator was chosen.
+	AgainMethod Code = "method-changed"
+	// AgainTone: another tone (or the file's own) was chosen.
+	AgainTone Code = "tone-changed"
+	// AgainCentreStars: the optical centre moved and the photo has sine
+	// stars, measured along and across the radius from the old centre.
+	AgainCentreStars Code = "centre-moved-stars"
+)
+
+// Where the pixel pitch came from, in Image.pitch_from (pitch_source words
+// it).
+const (
+	// PitchUser: the pitch given by the user.
+	PitchUser Code = "user"
+	// PitchSensor: the sensor width given by the user over the image width.
+	PitchSensor Code = "sensor"
+	// PitchExif: the Exif focal-plane resolution.
+	PitchExif Code = "exif"
+	// PitchFallback: the fallback sensor's width (the sensor to assume when
+	// the file says nothing) over the image width.
+	PitchFallback Code = "fallback"
+)
+
+// Where the tone came from, in Image.tone_from (tone_source words it).
+const (
+	// ToneUser: the tone chosen by the user.
+	ToneUser Code = "user"
+	// ToneFile: the file's own tags (PNG sRGB, iCCP or gAMA chunks).
+	ToneFile Code = "file"
+	// ToneDefault: the file says nothing; sRGB is assumed.
+	ToneDefault Code = "default"
+)
+
+// The shooting planner's warnings, in the plan's warnings (core/plan).
+const (
+	// PlanNoPitch: no pixel pitch, so the print is not checked up to
+	// Nyquist.
+	PlanNoPitch Code = "plan-no-pitch"
+	// PlanCloseRange: the chart is only a few focal lengths away.
+	PlanCloseRange Code = "plan-close-range"
+	// PlanAspect: the chart's shape differs from the sensor's.
+	PlanAspect Code = "plan-aspect"
+)
