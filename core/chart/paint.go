@@ -5,6 +5,7 @@ import (
 	"math"
 	"strconv"
 
+	"sagitta/core/decode"
 	"sagitta/core/draw"
 )
 
@@ -23,13 +24,7 @@ import (
 // printCode returns the 8-bit sRGB code of linear reflectance r (clamped to
 // [0, 1]).
 func printCode(r float64) uint8 {
-	r = math.Min(math.Max(r, 0), 1)
-	var v float64
-	if r <= 0.0031308 {
-		v = 12.92 * r
-	} else {
-		v = 1.055*math.Pow(r, 1/2.4) - 0.055
-	}
+	v := decode.SRGBFromLinear(math.Min(math.Max(r, 0), 1))
 	return uint8(math.Round(255 * v))
 }
 

@@ -134,6 +134,19 @@ func SRGBToLinear(v float64) float64 {
 	return math.Pow((v+0.055)/1.055, 2.4)
 }
 
+// SRGBFromLinear is the sRGB encoding function of IEC 61966-2-1:1999,
+// section 5.2, the inverse of SRGBToLinear: V = 12.92 L for L <= 0.0031308,
+// else 1.055 L^(1/2.4) - 0.055. It does not clamp: L above 1 gives V above
+// 1 (the simulated camera sharpens before it clips); callers that write
+// code values clamp. The one sRGB transfer of the project (the simulated
+// camera, the preview, the plots and the printed chart use these two).
+func SRGBFromLinear(l float64) float64 {
+	if l <= 0.0031308 {
+		return 12.92 * l
+	}
+	return 1.055*math.Pow(l, 1/2.4) - 0.055
+}
+
 // Linearize returns the linear value of a normalised code value V in
 // [0, 1] (code value / largest code value) under tone t. ToneAuto is
 // treated as sRGB. Full scale (V = 1) gives exactly 1 for every tone.

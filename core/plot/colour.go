@@ -4,6 +4,7 @@ import (
 	"image/color"
 	"math"
 
+	"sagitta/core/decode"
 	"sagitta/core/field"
 )
 
@@ -123,7 +124,7 @@ func (s *Scale) At(t float64) color.NRGBA {
 // SRGBToOKLab converts an 8-bit sRGB colour to OKLab (L, a, b); white is
 // (1, 0, 0).
 func SRGBToOKLab(c color.NRGBA) (L, a, b float64) {
-	r, g, bl := SRGBDecode(float64(c.R)/255), SRGBDecode(float64(c.G)/255), SRGBDecode(float64(c.B)/255)
+	r, g, bl := decode.SRGBToLinear(float64(c.R)/255), decode.SRGBToLinear(float64(c.G)/255), decode.SRGBToLinear(float64(c.B)/255)
 	l := math.Cbrt(0.4122214708*r + 0.5363325363*g + 0.0514459929*bl)
 	m := math.Cbrt(0.2119034982*r + 0.6806995451*g + 0.1073969566*bl)
 	s := math.Cbrt(0.0883024619*r + 0.2817188376*g + 0.6299787005*bl)
@@ -142,25 +143,7 @@ func OKLabToSRGB(L, a, b float64) color.NRGBA {
 	r := 4.0767416621*l - 3.3077115913*m + 0.2309699292*s
 	g := -1.2684380046*l + 2.6097574011*m - 0.3413193965*s
 	bl := -0.0041960863*l - 0.7034186147*m + 1.7076147010*s
-	return color.NRGBA{to8(SRGBEncode(r)), to8(SRGBEncode(g)), to8(SRGBEncode(bl)), 0xff}
-}
-
-// SRGBDecode is the sRGB transfer function from code value to linear light
-// (IEC 61966-2-1): v/12.92 for v <= 0.04045, else ((v + 0.055)/1.055)^2.4.
-func SRGBDecode(v float64) float64 {
-	if v <= 0.04045 {
-		return v / 12.92
-	}
-	return math.Pow((v+0.055)/1.055, 2.4)
-}
-
-// SRGBEncode is the inverse of SRGBDecode, clamped to [0, 1].
-func SRGBEncode(l float64) float64 {
-	l = math.Max(0, math.Min(1, l))
-	if l <= 0.0031308 {
-		return 12.92 * l
-	}
-	return 1.055*math.Pow(l, 1/2.4) - 0.055
+	return color.NRGBA{to8(decode.SRGBFromLinear(r)), to8(decode.SRGBFromLinear(g)), to8(decode.SRGBFromLinear(bl)), 0xff}
 }
 
 func to8(v float64) uint8 { return uint8(math.Round(255 * math.Max(0, math.Min(1, v)))) }

@@ -21,8 +21,8 @@ package preview
 import (
 	"fmt"
 	"image"
-	"math"
 
+	"sagitta/core/decode"
 	"sagitta/core/plane"
 )
 
@@ -78,7 +78,7 @@ type table [255]float64
 func encodeTable() *table {
 	var t table
 	for c := range t {
-		t[c] = srgbDecode((float64(c) + 0.5) / 255)
+		t[c] = decode.SRGBToLinear((float64(c) + 0.5) / 255)
 	}
 	return &t
 }
@@ -97,20 +97,4 @@ func (t *table) encode(l float64) uint8 {
 		}
 	}
 	return uint8(lo)
-}
-
-// srgbEncode is the sRGB transfer function (IEC 61966-2-1), L in [0, 1].
-func srgbEncode(l float64) float64 {
-	if l <= 0.0031308 {
-		return 12.92 * l
-	}
-	return 1.055*math.Pow(l, 1/2.4) - 0.055
-}
-
-// srgbDecode is its inverse (IEC 61966-2-1), V in [0, 1].
-func srgbDecode(v float64) float64 {
-	if v <= 0.04045 {
-		return v / 12.92
-	}
-	return math.Pow((v+0.055)/1.055, 2.4)
 }

@@ -5,6 +5,7 @@ import (
 	"math"
 	"testing"
 
+	"sagitta/core/decode"
 	"sagitta/core/plane"
 )
 
@@ -45,8 +46,8 @@ func TestEncodeMatchesTransferFunction(t *testing.T) {
 			if v < 0 || v > 1 {
 				continue
 			}
-			l := srgbDecode(v)
-			want := uint8(math.Round(srgbEncode(l) * 255))
+			l := decode.SRGBToLinear(v)
+			want := uint8(math.Round(decode.SRGBFromLinear(l) * 255))
 			if got := lut.encode(l); got != want {
 				t.Fatalf("encode(%g) = %d, want %d (code %d)", l, got, want, c)
 			}

@@ -8,6 +8,7 @@ import (
 	"math"
 	"math/rand/v2"
 
+	"sagitta/core/decode"
 	"sagitta/core/plane"
 )
 
@@ -112,24 +113,6 @@ func poisson(rng *rand.Rand, m float64) float64 {
 	return k
 }
 
-// srgbEncode is the sRGB transfer function of IEC 61966-2-1:
-// V = 12.92 L for L <= 0.0031308, else 1.055 L^(1/2.4) - 0.055.
-func srgbEncode(l float64) float64 {
-	if l <= 0.0031308 {
-		return 12.92 * l
-	}
-	return 1.055*math.Pow(l, 1/2.4) - 0.055
-}
-
-// srgbDecode is its inverse: L = V / 12.92 for V <= 0.04045, else
-// ((V + 0.055) / 1.055)^2.4.
-func srgbDecode(v float64) float64 {
-	if v <= 0.04045 {
-		return v / 12.92
-	}
-	return math.Pow((v+0.055)/1.055, 2.4)
-}
-
 // encodeImage applies the transfer function, sharpening and quantisation.
 func (c *Camera) encodeImage(p *plane.Plane) image.Image {
 	v := make([]float64, len(p.Pix))
@@ -137,7 +120,7 @@ func (c *Camera) encodeImage(p *plane.Plane) image.Image {
 	for i, l := range p.Pix {
 		x := math.Min(math.Max(float64(l), 0), 1)
 		if srgb {
-			x = srgbEncode(x)
+			x = decode.SRGBFromLinear(x)
 		}
 		v[i] = x
 	}
