@@ -22,6 +22,7 @@ import (
 	"sagitta/core/edgefind"
 	"sagitta/core/exif"
 	"sagitta/core/field"
+	"sagitta/core/internal/parallel"
 	"sagitta/core/note"
 )
 
@@ -260,37 +261,20 @@ func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candida
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
-	workers = min(workers, max(len(cands), 1))
-	next := make(chan int)
-	var wg sync.WaitGroup
-	var mu sync.Mutex
+	var mu sync.Mutex // one progress report at a time, in order
 	finished := 0
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range next {
-				out[i] = measureOne(dec, cands[i].Region, method)
-				mu.Lock()
-				finished++
-				mu.Unlock()
-			}
-		}()
-	}
-	for i := range cands {
+	parallel.For(len(cands), workers, func(i int) {
 		if ctx.Err() != nil {
-			break
+			return // cancelled: Run returns ctx.Err() and drops out
 		}
-		next <- i
-		if workers == 1 || i%8 == 7 {
-			mu.Lock()
-			n := finished
-			mu.Unlock()
-			done(n)
+		out[i] = measureOne(dec, cands[i].Region, method)
+		mu.Lock()
+		finished++
+		if workers == 1 || finished%8 == 0 {
+			done(finished)
 		}
-	}
-	close(next)
-	wg.Wait()
+		mu.Unlock()
+	})
 	return out
 }
 

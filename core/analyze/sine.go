@@ -5,14 +5,13 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"runtime"
 	"sort"
-	"sync"
 
 	"sagitta/core/curve"
 	"sagitta/core/edge"
 	"sagitta/core/edgefind"
 	"sagitta/core/field"
+	"sagitta/core/internal/parallel"
 	"sagitta/core/note"
 	"sagitta/core/plane"
 	"sagitta/core/sine"
@@ -148,34 +147,18 @@ func findPatterns(ctx context.Context, p *plane.Plane, geo field.Geometry, worke
 		err error
 	}
 	res := make([]result, len(cands))
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	var wg sync.WaitGroup
-	next := make(chan int)
-	for range min(workers, max(len(cands), 1)) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range next {
-				c := cands[i]
-				if c.Kind == sine.KindStar {
-					align := math.Atan2(c.Y-geo.CenterY, c.X-geo.CenterX) * 180 / math.Pi
-					res[i].s, res[i].err = measureStar(p, c, align)
-				} else {
-					res[i].g, res[i].err = measureGrating(p, c)
-				}
-			}
-		}()
-	}
-	for i := range cands {
+	parallel.For(len(cands), workers, func(i int) {
 		if ctx.Err() != nil {
-			break
+			return // cancelled: Run returns ctx.Err()
 		}
-		next <- i
-	}
-	close(next)
-	wg.Wait()
+		c := cands[i]
+		if c.Kind == sine.KindStar {
+			align := math.Atan2(c.Y-geo.CenterY, c.X-geo.CenterX) * 180 / math.Pi
+			res[i].s, res[i].err = measureStar(p, c, align)
+		} else {
+			res[i].g, res[i].err = measureGrating(p, c)
+		}
+	})
 	for i, c := range cands {
 		r := res[i]
 		switch {

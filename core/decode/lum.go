@@ -4,9 +4,9 @@ import (
 	"image"
 	"image/color"
 	"runtime"
-	"sync"
 	"sync/atomic"
 
+	"sagitta/core/internal/parallel"
 	"sagitta/core/plane"
 )
 
@@ -41,14 +41,7 @@ func parallelRows(w, h int, fn func(y0, y1 int)) {
 		fn(0, h)
 		return
 	}
-	n = min(n, 8, h)
-	var wg sync.WaitGroup
-	for i := range n {
-		y0, y1 := h*i/n, h*(i+1)/n
-		wg.Add(1)
-		go func() { defer wg.Done(); fn(y0, y1) }()
-	}
-	wg.Wait()
+	parallel.Ranges(h, min(n, 8, h), fn)
 }
 
 // luminance builds the plane. It reads the pixel buffers of the image types

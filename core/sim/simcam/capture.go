@@ -9,6 +9,7 @@ import (
 	"math/rand/v2"
 
 	"sagitta/core/decode"
+	"sagitta/core/internal/parallel"
 	"sagitta/core/plane"
 )
 
@@ -74,7 +75,7 @@ func (c *Camera) addNoise(p *plane.Plane) {
 		return
 	}
 	fw := c.FullWellE
-	parallel(p.H, func(lo, hi int) {
+	parallel.Ranges(p.H, 0, func(lo, hi int) {
 		for j := lo; j < hi; j++ {
 			rng := rand.New(rand.NewPCG(c.Seed, noiseStream^uint64(j)))
 			row := p.Pix[j*p.W : (j+1)*p.W]
@@ -187,7 +188,7 @@ func gaussBlur(v []float64, w, h int, sigma float64) []float64 {
 	}
 	tmp := make([]float64, len(v))
 	out := make([]float64, len(v))
-	parallel(h, func(lo, hi int) {
+	parallel.Ranges(h, 0, func(lo, hi int) {
 		for y := lo; y < hi; y++ {
 			for x := range w {
 				s := 0.0
@@ -199,7 +200,7 @@ func gaussBlur(v []float64, w, h int, sigma float64) []float64 {
 			}
 		}
 	})
-	parallel(h, func(lo, hi int) {
+	parallel.Ranges(h, 0, func(lo, hi int) {
 		for y := lo; y < hi; y++ {
 			for x := range w {
 				s := 0.0

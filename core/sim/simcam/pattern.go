@@ -2,10 +2,9 @@ package simcam
 
 import (
 	"math"
-	"runtime"
-	"sync"
 
 	"gonum.org/v1/gonum/dsp/fourier"
+	"sagitta/core/internal/parallel"
 	"sagitta/core/plane"
 )
 
@@ -123,7 +122,7 @@ func addPattern(p *plane.Plane, l Lens, bg float64, pt pattern) {
 	spec := make([]complex128, ny*nh)
 	cell := 1 / float64(k)
 
-	parallel(ny, func(lo, hi int) {
+	parallel.Ranges(ny, 0, func(lo, hi int) {
 		row := make([]float64, nx)
 		fft := fourier.NewFFT(nx)
 		for j := lo; j < hi; j++ {
@@ -140,7 +139,7 @@ func addPattern(p *plane.Plane, l Lens, bg float64, pt pattern) {
 	})
 
 	dec := make([]complex128, hp*nh) // decimated rows, x spectrum
-	parallel(nh, func(lo, hi int) {
+	parallel.Ranges(nh, 0, func(lo, hi int) {
 		col := make([]complex128, ny)
 		fold := make([]complex128, hp)
 		fwd := fourier.NewCmplxFFT(ny)
@@ -171,7 +170,7 @@ func addPattern(p *plane.Plane, l Lens, bg float64, pt pattern) {
 	})
 
 	norm := 1 / float64(nx*ny)
-	parallel(hp, func(lo, hi int) {
+	parallel.Ranges(hp, 0, func(lo, hi int) {
 		z := make([]complex128, wp)
 		inv := fourier.NewCmplxFFT(wp)
 		for t := lo; t < hi; t++ {
@@ -200,24 +199,4 @@ func addPattern(p *plane.Plane, l Lens, bg float64, pt pattern) {
 			}
 		}
 	})
-}
-
-// parallel runs f over [0, n) split into contiguous chunks, one goroutine
-// per processor.
-func parallel(n int, f func(lo, hi int)) {
-	g := min(runtime.GOMAXPROCS(0), n)
-	if g <= 1 {
-		f(0, n)
-		return
-	}
-	var wg sync.WaitGroup
-	for i := range g {
-		lo, hi := i*n/g, (i+1)*n/g
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			f(lo, hi)
-		}()
-	}
-	wg.Wait()
 }

@@ -2,11 +2,10 @@ package simcam
 
 import (
 	"math"
-	"runtime"
 	"slices"
 	"sync"
-	"sync/atomic"
 
+	"sagitta/core/internal/parallel"
 	"sagitta/core/plane"
 )
 
@@ -206,26 +205,15 @@ func (ws *worker) clipBufs(d int) ([]vec, []vec) {
 // over row bands; each row is computed independently, so the output does not
 // depend on scheduling.
 func (r *renderer) renderPolygons(p *plane.Plane) {
-	nb := len(r.bands)
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range min(runtime.GOMAXPROCS(0), max(nb, 1)) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			ws := newWorker()
-			for {
-				b := int(next.Add(1) - 1)
-				if b >= nb {
-					return
-				}
-				for j := b * bandRows; j < min((b+1)*bandRows, r.h); j++ {
-					r.row(ws, j, p.Pix[j*r.w:(j+1)*r.w])
-				}
-			}
-		}()
-	}
-	wg.Wait()
+	// Scratch space, one per goroutine at a time.
+	pool := sync.Pool{New: func() any { return newWorker() }}
+	parallel.For(len(r.bands), 0, func(b int) {
+		ws := pool.Get().(*worker)
+		for j := b * bandRows; j < min((b+1)*bandRows, r.h); j++ {
+			r.row(ws, j, p.Pix[j*r.w:(j+1)*r.w])
+		}
+		pool.Put(ws)
+	})
 }
 
 // row renders row j into out.
