@@ -9,19 +9,17 @@ import (
 	"testing"
 
 	"sagitta/core/draw"
+	"sagitta/core/internal/look"
 	"sagitta/core/sim/simcam"
 )
 
-// TestLookStars is for people, not for the build: with SAGITTA_LOOK_DIR set
+// TestLookStars is for people, not for the build: with SAGITTA_LOOK set
 // it renders the simulated lens of lensScene (plain and sharpened), runs
 // the analysis and writes, per photo, the photo and a plot of each star's
 // segment curves, its sagittal and tangential curves, the edges of the same
 // orientation and the analytic MTF, to look at.
 func TestLookStars(t *testing.T) {
-	dir := os.Getenv("SAGITTA_LOOK_DIR")
-	if dir == "" {
-		t.Skip("set SAGITTA_LOOK_DIR to write the plots")
-	}
+	dir := look.Need(t, "analyze")
 	lens, sc := lensScene()
 	for _, c := range []struct {
 		name     string

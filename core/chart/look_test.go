@@ -4,15 +4,15 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
+
+	"sagitta/core/internal/look"
 )
 
-// TestLookWrite writes the A4 and A3 charts (3:2) as PDF to $CHART_LOOK for
-// inspection, e.g. with pdftoppm (skipped unless CHART_LOOK is set).
+// TestLookWrite writes the A4 and A3 charts (3:2) as PDF to
+// $SAGITTA_LOOK/chart for inspection, e.g. with pdftoppm (skipped unless
+// SAGITTA_LOOK is set).
 func TestLookWrite(t *testing.T) {
-	dir := os.Getenv("CHART_LOOK")
-	if dir == "" {
-		t.Skip("set CHART_LOOK=dir to write charts for inspection")
-	}
+	dir := look.Need(t, "chart")
 	for name, opt := range map[string]Options{"a4": {}, "a3": {Paper: "A3"}} {
 		b, err := Render(opt, "pdf")
 		if err != nil {

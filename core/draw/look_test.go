@@ -8,6 +8,8 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
+
+	"sagitta/core/internal/look"
 )
 
 // testPage draws a page of w x h user units (meant for millimetres) that
@@ -117,13 +119,10 @@ func testPage(c Canvas, w, h float64) {
 	c.Image(160, 245, 24, 24, rgba)
 }
 
-// TestLook writes the test page as PDF, SVG and PNG into the directory named
-// by SAGITTA_DRAW_LOOK (for looking at by eye); it is skipped otherwise.
+// TestLook writes the test page as PDF, SVG and PNG into
+// $SAGITTA_LOOK/draw (for looking at by eye); it is skipped otherwise.
 func TestLook(t *testing.T) {
-	dir := os.Getenv("SAGITTA_DRAW_LOOK")
-	if dir == "" {
-		t.Skip("set SAGITTA_DRAW_LOOK to a directory to write the test page")
-	}
+	dir := look.Need(t, "draw")
 	const w, h = 210, 297
 	pdf, err := NewPDF(w, h)
 	if err != nil {

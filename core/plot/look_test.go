@@ -8,23 +8,18 @@ import (
 	"testing"
 
 	"sagitta/core/analyze"
+	"sagitta/core/internal/look"
 	"sagitta/core/plot"
 	"sagitta/core/sim/simcam"
 )
 
 // TestLook renders every plot of a realistic simulated shoot to PNG and SVG
-// in the directory named by PLOT_LOOK, for people to look at; without it
-// the test is skipped. The shoot: a 36 x 24 mm frame (3000 x 2000 px at
+// in $SAGITTA_LOOK/plot, for people to look at; without SAGITTA_LOOK the
+// test is skipped. The shoot: a 36 x 24 mm frame (3000 x 2000 px at
 // 12 um) of radially turned squares through a field-varying lens, once
 // centred and once with the right side softer, at f/5.6.
 func TestLook(t *testing.T) {
-	dir := os.Getenv("PLOT_LOOK")
-	if dir == "" {
-		t.Skip("set PLOT_LOOK=dir to write the plots of a simulated photo")
-	}
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		t.Fatal(err)
-	}
+	dir := look.Need(t, "plot")
 	const w, h, pitch = 3000, 2000, 12.0
 	var imgs []*analyze.Image
 	for _, tilt := range []float64{0, 0.02} {

@@ -5,17 +5,16 @@ import (
 	"testing"
 
 	"sagitta/core/chart"
+	"sagitta/core/internal/look"
 	"sagitta/core/sim/chartsim"
 	"sagitta/core/sim/simcam"
 )
 
-// TestLook writes a simulated photo of the chart to $CHART_LOOK/photo.png
-// for inspection (skipped unless CHART_LOOK is set).
+// TestLook writes a simulated photo of the chart to
+// $SAGITTA_LOOK/chartsim/photo.png for inspection (skipped unless
+// SAGITTA_LOOK is set).
 func TestLook(t *testing.T) {
-	dir := os.Getenv("CHART_LOOK")
-	if dir == "" {
-		t.Skip("set CHART_LOOK=dir to write a simulated photo of the chart")
-	}
+	dir := look.Need(t, "chartsim")
 	d, _ := chart.NewDesign(chart.Code{Aspect: "3:2"})
 	v := chartsim.View{W: 1800, H: 1200, Fill: 0.95, RollDeg: 2.5, YawDeg: 12, FocalPx: 4000}
 	cam := simcam.Camera{W: v.W, H: v.H, Lens: simcam.Fixed{PSF: simcam.Gaussian{Sigma1: 0.9, Sigma2: 0.9}}, FullWellE: 20000, ReadNoiseE: 3, Seed: 3}

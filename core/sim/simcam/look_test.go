@@ -2,8 +2,11 @@ package simcam
 
 import (
 	"os"
+	"path/filepath"
 	"runtime"
 	"testing"
+
+	"sagitta/core/internal/look"
 )
 
 // lookScene is a 600 x 400 scene with tilted squares, a star and a grating.
@@ -42,7 +45,8 @@ func TestDeterministic(t *testing.T) {
 			t.Fatalf("pixel %d differs: %v vs %v", i, a.Pix[i], b.Pix[i])
 		}
 	}
-	if os.Getenv("SIMCAM_LOOK") == "" {
+	dir, ok := look.Dir(t, "simcam")
+	if !ok {
 		return
 	}
 	cam = Camera{W: 600, H: 400, Lens: lookLens(), FullWellE: 20000, ReadNoiseE: 3, Seed: 7}
@@ -50,7 +54,7 @@ func TestDeterministic(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := os.WriteFile("/tmp/simcam-look.png", buf, 0o644); err != nil {
+	if err := os.WriteFile(filepath.Join(dir, "look.png"), buf, 0o644); err != nil {
 		t.Fatal(err)
 	}
 }
