@@ -196,14 +196,15 @@ func csvJS(args []js.Value) (any, error) {
 }
 
 // jsonJS rewrites a results document exactly as the command-line tool
-// prints it (indented by one space, with a final newline).
+// prints it (analyze.WriteJSON).
 func jsonJS(args []js.Value) (any, error) {
 	res, err := results(args)
 	if err != nil {
 		return nil, err
 	}
-	b, err := json.MarshalIndent(res, "", " ")
-	return string(b) + "\n", err
+	var buf bytes.Buffer
+	err = analyze.WriteJSON(&buf, res)
+	return buf.String(), err
 }
 
 // demoJS renders the demo photo.

@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
@@ -92,9 +91,7 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 	}
 	switch {
 	case *asJSON:
-		enc := json.NewEncoder(stdout)
-		enc.SetIndent("", " ")
-		return enc.Encode(res)
+		return analyze.WriteJSON(stdout, res)
 	case *asCSV:
 		return analyze.WriteCSV(stdout, res)
 	}
