@@ -147,20 +147,74 @@ func outerRadius(p *plane.Plane, cx, cy float64, n int, guess float64) (rEdge, r
 	}
 }
 
-// measureRings fits every ring segment, normalises and fills the curves.
+// measureRings measures the star's MTF from its rings, one function per
+// step of the sine-star SFR (s-SFR) of ISO 12233:2014 (and later
+// editions) as this package does it (package doc, steps 4 to 6): the
+// measured annulus (ringRange), the pixels binned into ring segments
+// (binRings), the full-circle fit of each ring (fitRings), the
+// normalisation by the modulation at zero frequency (normalise) and each
+// segment's curve resampled onto the output grid (segmentCurves); then the
+// quality flags.
 func (s *Star) measureRings(p *plane.Plane, opt StarOptions) error {
 	nSeg := opt.Segments
-	nf := float64(s.Cycles)
-	rNyq := nf / math.Pi // radius where N/(2 pi r) = 0.5 cy/px
-	rIn := math.Max(rNyq, minCellPixels*float64(nSeg)/(2*math.Pi))
+	rIn, count, err := s.ringRange(nSeg)
+	if err != nil {
+		return err
+	}
+	cells, tally := s.binRings(p, rIn, count, nSeg)
+	ringF, ringMod, err := s.fitRings(cells, rIn, count, nSeg)
+	if err != nil {
+		return err
+	}
+	if err := s.normalise(ringF, ringMod); err != nil {
+		return err
+	}
+	seMid, err := s.segmentCurves(cells, ringF, nSeg, opt.FreqStep)
+	if err != nil {
+		return err
+	}
+	s.flags(opt, seMid, tally.clipped/math.Max(tally.clipN, 1), tally.aliasN, tally.aliasS, tally.aliasSS)
+	return nil
+}
+
+// ringRange sets the measured annulus: from the inner radius rIn (the
+// Nyquist radius N/pi, where N/(2 pi r) = 0.5 cy/px, or farther out where
+// the cells would hold too few pixels or the centre's uncertainty would
+// shift the frequencies too much) out to the outer radius, in count rings
+// 1 px apart (ISO 12233:2014, s-SFR: the rings of the star measured).
+// It sets InnerPx and OuterPx; ErrStarTooSmall when fewer than 4 px remain.
+func (s *Star) ringRange(nSeg int) (rIn float64, count int, err error) {
+	rNyq := float64(s.Cycles) / math.Pi
+	rIn = math.Max(rNyq, minCellPixels*float64(nSeg)/(2*math.Pi))
 	rIn = math.Max(rIn, s.CentreUncPx/maxFreqShift)
 	rIn = math.Max(rIn, 3)
 	if rIn > s.OuterPx-4 {
-		return ErrStarTooSmall
+		return 0, 0, ErrStarTooSmall
 	}
-	count := int(s.OuterPx-rIn) + 1
+	count = int(s.OuterPx-rIn) + 1
 	s.InnerPx = rIn
 	s.OuterPx = rIn + float64(count-1)
+	return rIn, count, nil
+}
+
+// ringTally counts, over the pixels binRings visits, those of the star's
+// disc at the file's limits (clipN, clipped) and the sums of the values
+// inside 0.8 of the Nyquist radius (aliasN, aliasS, aliasSS), for the
+// flags.
+type ringTally struct {
+	clipN, clipped          float64
+	aliasN, aliasS, aliasSS float64
+}
+
+// binRings bins the pixels (never interpolated) into rings 1 px wide, the
+// k-th at radius rIn + k, and nSeg angular segments starting at AlignDeg,
+// accumulating in each cell the sums of the fit a + b cos(N phi) +
+// c sin(N phi) (ISO 12233:2014, s-SFR: the modulation read along circles
+// of the star; package doc, step 4). cells[k*nSeg+seg] is ring k, segment
+// seg.
+func (s *Star) binRings(p *plane.Plane, rIn float64, count, nSeg int) ([]harmonic, ringTally) {
+	nf := float64(s.Cycles)
+	rNyq := nf / math.Pi
 	cells := make([]harmonic, count*nSeg)
 	segW := 2 * math.Pi / float64(nSeg)
 	align := s.AlignDeg * math.Pi / 180
@@ -168,8 +222,7 @@ func (s *Star) measureRings(p *plane.Plane, opt StarOptions) error {
 	x0, x1 := max(int(math.Floor(s.X-rMax)), 0), min(int(math.Ceil(s.X+rMax)), p.W-1)
 	y0, y1 := max(int(math.Floor(s.Y-rMax)), 0), min(int(math.Ceil(s.Y+rMax)), p.H-1)
 	rAlias := 0.8 * rNyq
-	var aliasN, aliasS, aliasSS float64
-	var clipN, clipped float64
+	var t ringTally
 	for y := y0; y <= y1; y++ {
 		dy := float64(y) + 0.5 - s.Y
 		for x := x0; x <= x1; x++ {
@@ -177,15 +230,15 @@ func (s *Star) measureRings(p *plane.Plane, opt StarOptions) error {
 			r := math.Hypot(dx, dy)
 			v := float64(p.Pix[y*p.W+x])
 			if r <= s.RadiusPx {
-				clipN++
+				t.clipN++
 				if v >= plane.ClipLevel || v <= darkLimit {
-					clipped++
+					t.clipped++
 				}
 			}
 			if r < rAlias {
-				aliasN++
-				aliasS += v
-				aliasSS += v * v
+				t.aliasN++
+				t.aliasS += v
+				t.aliasSS += v * v
 			}
 			k := int(math.Floor(r - rIn + 0.5))
 			if k < 0 || k >= count {
@@ -200,10 +253,17 @@ func (s *Star) measureRings(p *plane.Plane, opt StarOptions) error {
 			cells[k*nSeg+seg].add(cs, sn, v)
 		}
 	}
+	return cells, t
+}
 
-	// Full-circle fits: mean level, noise, modulation per ring.
-	ringMod := make([]float64, count)
-	ringF := make([]float64, count)
+// fitRings fits each ring over the full circle (its segments' sums
+// merged): its frequency N / (2 pi r) and modulation (NaN where the fit
+// fails), and the star's mean level and noise from all rings (ISO
+// 12233:2014, s-SFR; package doc, step 4). ErrNoStar when no ring fits.
+func (s *Star) fitRings(cells []harmonic, rIn float64, count, nSeg int) (ringF, ringMod []float64, err error) {
+	nf := float64(s.Cycles)
+	ringMod = make([]float64, count)
+	ringF = make([]float64, count)
 	var meanSum, meanN, res2, resN float64
 	for k := range count {
 		var h harmonic
@@ -222,10 +282,21 @@ func (s *Star) measureRings(p *plane.Plane, opt StarOptions) error {
 		}
 	}
 	if meanN == 0 {
-		return ErrNoStar
+		return nil, nil, ErrNoStar
 	}
 	s.Mean = meanSum / meanN
 	s.NoiseRMS = math.Sqrt(res2 / resN)
+	return ringF, ringMod, nil
+}
+
+// normalise sets the star's modulation at zero frequency (reference: the
+// normalisation of ISO 12233:2014's s-SFR by the low-frequency modulation,
+// extrapolated to f = 0; package doc, step 5), the outer ring's
+// frequency and modulation, the highest frequency measured, and the raw
+// rings divided by the reference, ascending in frequency. ErrNoStar when
+// the outer ring has no modulation.
+func (s *Star) normalise(ringF, ringMod []float64) error {
+	count := len(ringF)
 	s.RefFreq = ringF[count-1]
 	s.OuterMod = ringMod[count-1]
 	if !(s.OuterMod > 0) {
@@ -236,19 +307,27 @@ func (s *Star) measureRings(p *plane.Plane, opt StarOptions) error {
 	if ringF[0] > curve.Nyquist-0.005 {
 		s.MaxFreq = curve.Nyquist
 	}
-	// Raw rings, ascending in frequency.
 	for k := count - 1; k >= 0; k-- {
 		if !math.IsNaN(ringMod[k]) {
 			s.RingFreq = append(s.RingFreq, ringF[k])
 			s.RingMTF = append(s.RingMTF, ringMod[k]/s.Modulation)
 		}
 	}
-	// Per-segment curves.
-	grid := freqGrid(opt.FreqStep, s.MaxFreq)
+	return nil
+}
+
+// segmentCurves fits each segment's cells ring by ring, divides the
+// modulations by the reference and resamples them onto the output grid
+// (freqGrid, resample; package doc, step 6: the s-SFR of ISO 12233:2014
+// per direction). It returns the standard errors between 0.05 and 0.35
+// cy/px, for the noise flag; ErrNoStar when a segment has fewer than two
+// rings or a value is not finite.
+func (s *Star) segmentCurves(cells []harmonic, ringF []float64, nSeg int, step float64) (seMid []float64, err error) {
+	count := len(ringF)
+	grid := freqGrid(step, s.MaxFreq)
 	fr := make([]float64, 0, count)
 	vr := make([]float64, 0, count)
 	er := make([]float64, 0, count)
-	var seMid []float64
 	for sg := range nSeg {
 		fr, vr, er = fr[:0], vr[:0], er[:0]
 		for k := count - 1; k >= 0; k-- {
@@ -266,7 +345,7 @@ func (s *Star) measureRings(p *plane.Plane, opt StarOptions) error {
 		seg.Curve.Value = make([]float64, len(grid))
 		seg.StdErr = make([]float64, len(grid))
 		if len(fr) < 2 {
-			return ErrNoStar // a segment without data: nothing to report for it
+			return nil, ErrNoStar // a segment without data: nothing to report for it
 		}
 		s.resample(&seg, fr, vr, er)
 		for i, f := range grid {
@@ -279,12 +358,11 @@ func (s *Star) measureRings(p *plane.Plane, opt StarOptions) error {
 	for _, sg := range s.Segments {
 		for i := range sg.Curve.Value {
 			if !finite(sg.Curve.Value[i]) || !finite(sg.StdErr[i]) {
-				return ErrNoStar // a fit that came apart; never hand on NaN
+				return nil, ErrNoStar // a fit that came apart; never hand on NaN
 			}
 		}
 	}
-	s.flags(opt, seMid, clipped/math.Max(clipN, 1), aliasN, aliasS, aliasSS)
-	return nil
+	return seMid, nil
 }
 
 // reference returns the star's modulation at zero frequency, M0: the value
