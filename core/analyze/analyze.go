@@ -32,7 +32,7 @@ import (
 type Settings struct {
 	PitchUM   float64     `json:"pitch_um,omitempty"`  // pixel pitch, micrometres
 	SensorMM  [2]float64  `json:"sensor_mm,omitempty"` // sensor width and height, mm (pitch = width / image width)
-	CenterPx  *[2]float64 `json:"center_px,omitempty"` // optical centre, px; nil = image centre
+	CentrePx  *[2]float64 `json:"center_px,omitempty"` // optical centre, px; nil = image centre
 	Tone      string      `json:"tone,omitempty"`      // "", "srgb", "linear", "gamma:G"
 	Method    string      `json:"method,omitempty"`    // "", "refined", "iso"
 	FreqsLPMM []float64   `json:"freqs_lp_mm,omitempty"`
@@ -196,13 +196,13 @@ func placeFrame(img *Image, s Settings, freqs []float64) (field.Geometry, error)
 		return field.Geometry{}, err
 	}
 	geo := field.NewGeometry(img.Width, img.Height, img.PitchUM)
-	if s.CenterPx != nil {
-		geo.CenterX, geo.CenterY = s.CenterPx[0], s.CenterPx[1]
+	if s.CentrePx != nil {
+		geo.CentreX, geo.CentreY = s.CentrePx[0], s.CentrePx[1]
 	}
 	if err := geo.Validate(); err != nil {
 		return field.Geometry{}, err
 	}
-	img.CenterPx = [2]float64{geo.CenterX, geo.CenterY}
+	img.CentrePx = [2]float64{geo.CentreX, geo.CentreY}
 	img.CornerMM = geo.CornerMM()
 	img.FreqsLPMM = append([]float64(nil), freqs...)
 	return geo, nil

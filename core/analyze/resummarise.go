@@ -12,7 +12,7 @@ import (
 
 // Resummarise returns a new Image: img with the pixel pitch, optical
 // centre and field frequencies of s (PitchUM, SensorMM, the Exif kept in
-// img, FallbackSensorMM; CenterPx; FreqsLPMM), without the photo. Every
+// img, FallbackSensorMM; CentrePx; FreqsLPMM), without the photo. Every
 // record's image height, orientation, angle to the radius, MTF50 in lp/mm
 // and values at the field frequencies are derived again from its position,
 // direction and stored curve (a sine pattern's only where it was measured),
@@ -78,7 +78,7 @@ func Resummarise(img *Image, s Settings) (out *Image, err error) {
 			again = append(again, note.New(note.AgainTone, fmt.Sprintf("it was decoded with tone %s (%s), not with %s as chosen now", img.Tone, img.ToneSource, chk.tone)))
 		}
 	}
-	if out.CenterPx != img.CenterPx && len(img.Stars) > 0 {
+	if out.CentrePx != img.CentrePx && len(img.Stars) > 0 {
 		again = append(again, note.New(note.AgainCentreStars, "the optical centre moved and the photo has sine stars, measured along and across the radius from the old centre"))
 	}
 	if len(again) > 0 {

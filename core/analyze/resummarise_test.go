@@ -120,12 +120,12 @@ func TestResummariseEqualsRun(t *testing.T) {
 		a, b  Settings
 		short bool
 	}{
-		{"squares: optical centre", squaresPhoto, Settings{}, Settings{CenterPx: at(637.3, 271.7)}, true},
+		{"squares: optical centre", squaresPhoto, Settings{}, Settings{CentrePx: at(637.3, 271.7)}, true},
 		{"squares: field frequencies 20, 40", squaresPhoto, Settings{}, Settings{FreqsLPMM: []float64{20, 40}}, true},
 		{"squares: pitch from Exif to a 36 x 24 mm sensor", squaresPhoto, Settings{}, Settings{SensorMM: [2]float64{36, 24}}, true},
-		{"squares: all three and back", squaresPhoto, Settings{PitchUM: 30, CenterPx: at(480, 350), FreqsLPMM: []float64{5}}, Settings{}, false},
+		{"squares: all three and back", squaresPhoto, Settings{PitchUM: 30, CentrePx: at(480, 350), FreqsLPMM: []float64{5}}, Settings{}, false},
 		{"star and gratings: pitch and frequencies", starPhoto, Settings{PitchUM: 5}, Settings{PitchUM: 4, FreqsLPMM: []float64{20, 40}}, true},
-		{"gratings: optical centre splits the set", gratingPhoto, Settings{PitchUM: 5}, Settings{PitchUM: 5, CenterPx: at(330, 600)}, true},
+		{"gratings: optical centre splits the set", gratingPhoto, Settings{PitchUM: 5}, Settings{PitchUM: 5, CentrePx: at(330, 600)}, true},
 		{"chart: pitch from Exif to 5.5 um, frequencies 15, 45", chartPhoto, Settings{}, Settings{PitchUM: 5.5, FreqsLPMM: []float64{15, 45}}, true},
 	}
 	for _, c := range cases {
@@ -156,7 +156,7 @@ func TestResummariseEqualsRun(t *testing.T) {
 				t.Error("Resummarise changed its input")
 			}
 			t.Logf("%d records (%d before), centre %v, pitch %.4g um (%s), corner %.3f mm", len(want.Measurements), len(a.Measurements),
-				want.CenterPx, want.PitchUM, want.PitchSource, want.CornerMM)
+				want.CentrePx, want.PitchUM, want.PitchSource, want.CornerMM)
 			// Something must have changed, or the case proves nothing.
 			if string(marshal(t, want)) == string(before) {
 				t.Error("settings A and B give the same result")
@@ -213,7 +213,7 @@ func TestResummariseMeasureAgain(t *testing.T) {
 		{"tone: sRGB chosen where the file's rule chose it", sq, Settings{Tone: "srgb"}, []string{"tone-changed"}},
 		{"estimator: ISO 12233", sq, Settings{Method: "iso"}, []string{"method-changed"}},
 		{"tone and estimator", sq, Settings{Tone: "gamma:2.2", Method: "iso"}, []string{"method-changed", "tone-changed"}},
-		{"optical centre of a photo with a star", st, Settings{PitchUM: 5, CenterPx: at(590, 410)}, []string{"centre-moved-stars"}},
+		{"optical centre of a photo with a star", st, Settings{PitchUM: 5, CentrePx: at(590, 410)}, []string{"centre-moved-stars"}},
 		{"unknown estimator", sq, Settings{Method: "best"}, nil},
 		{"field frequency 0", sq, Settings{FreqsLPMM: []float64{0}}, nil},
 		{"no pitch", st, Settings{}, nil},
@@ -234,7 +234,7 @@ func TestResummariseMeasureAgain(t *testing.T) {
 		})
 	}
 	// The same centre, given explicitly, is no move.
-	if _, err := Resummarise(st, Settings{PitchUM: 5, CenterPx: at(600, 400)}); err != nil {
+	if _, err := Resummarise(st, Settings{PitchUM: 5, CentrePx: at(600, 400)}); err != nil {
 		t.Errorf("the image centre given explicitly: %v", err)
 	}
 

@@ -153,7 +153,7 @@ func findPatterns(ctx context.Context, p *plane.Plane, geo field.Geometry, worke
 		}
 		c := cands[i]
 		if c.Kind == sine.KindStar {
-			align := math.Atan2(c.Y-geo.CenterY, c.X-geo.CenterX) * 180 / math.Pi
+			align := math.Atan2(c.Y-geo.CentreY, c.X-geo.CentreX) * 180 / math.Pi
 			res[i].s, res[i].err = measureStar(p, c, align)
 		} else {
 			res[i].g, res[i].err = measureGrating(p, c)
@@ -329,7 +329,7 @@ func (ps *patterns) starRecords(img *Image, geo field.Geometry) []Measurement {
 			info.Warnings = append(info.Warnings, sineFlagText[f])
 		}
 		// The field radius through the star; at the optical centre, +x.
-		radial := math.Atan2(s.Y-geo.CenterY, s.X-geo.CenterX) * 180 / math.Pi
+		radial := math.Atan2(s.Y-geo.CentreY, s.X-geo.CentreX) * 180 / math.Pi
 		for _, dir := range []float64{radial, radial + 90} {
 			c, se := s.Along(dir)
 			dir = math.Mod(dir+360, 180)

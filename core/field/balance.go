@@ -139,7 +139,7 @@ func balance(geo Geometry, pts []Point, fs *fitSet, freqs []float64) Balance {
 				if j < 0 || p.HeightMM < b.FromHeightMM || f.sm.rw[j] == 0 {
 					continue
 				}
-				res[k] = append(res[k], residual{p.X - geo.CenterX, p.Y - geo.CenterY, f.sm.y[j] - f.sm.fit[j]})
+				res[k] = append(res[k], residual{p.X - geo.CentreX, p.Y - geo.CentreY, f.sm.y[j] - f.sm.fit[j]})
 			}
 		}
 	}

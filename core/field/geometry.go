@@ -36,7 +36,7 @@ const ToleranceDeg = 20
 
 // Geometry maps pixel positions onto the sensor.
 type Geometry struct {
-	CenterX, CenterY float64 // optical centre, px (continuous coordinates)
+	CentreX, CentreY float64 // optical centre, px (continuous coordinates)
 	PitchUM          float64 // pixel pitch, micrometres
 	Width, Height    int     // image size, px
 }
@@ -44,13 +44,13 @@ type Geometry struct {
 // NewGeometry returns the geometry of a w x h image with the optical centre
 // at the image centre (w/2, h/2).
 func NewGeometry(w, h int, pitchUM float64) Geometry {
-	return Geometry{CenterX: float64(w) / 2, CenterY: float64(h) / 2, PitchUM: pitchUM, Width: w, Height: h}
+	return Geometry{CentreX: float64(w) / 2, CentreY: float64(h) / 2, PitchUM: pitchUM, Width: w, Height: h}
 }
 
 // HeightMM returns the image height of the point (x, y) px: its distance
 // from the optical centre on the sensor, in millimetres.
 func (g Geometry) HeightMM(x, y float64) float64 {
-	return math.Hypot(x-g.CenterX, y-g.CenterY) * g.PitchUM / 1000
+	return math.Hypot(x-g.CentreX, y-g.CentreY) * g.PitchUM / 1000
 }
 
 // CornerMM returns the largest image height in the frame: the distance from
@@ -70,7 +70,7 @@ func (g Geometry) CornerMM() float64 {
 // between that direction and the radius. At the optical centre itself the
 // radius has no direction and the result is Mixed.
 func (g Geometry) Classify(x, y, dirDeg float64) (Orientation, float64) {
-	rx, ry := x-g.CenterX, y-g.CenterY
+	rx, ry := x-g.CentreX, y-g.CentreY
 	if math.Hypot(rx, ry) < 1e-9 {
 		return Mixed, math.NaN()
 	}

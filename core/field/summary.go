@@ -30,8 +30,8 @@ type Summary struct {
 	FreqsLPMM []float64 `json:"freqs_lp_mm"`
 	// PitchUM is the pixel pitch, micrometres.
 	PitchUM float64 `json:"pitch_um"`
-	// CenterPx is the optical centre, px.
-	CenterPx [2]float64 `json:"center_px"`
+	// CentrePx is the optical centre, px.
+	CentrePx [2]float64 `json:"center_px"`
 	// WidthPx and HeightPx are the photo's size, px.
 	WidthPx  int `json:"width_px"`
 	HeightPx int `json:"height_px"`
@@ -136,7 +136,7 @@ func Summarise(geo Geometry, points []Point, freqsLPMM []float64) (*Summary, err
 	s := &Summary{
 		FreqsLPMM: append([]float64{}, freqsLPMM...),
 		PitchUM:   geo.PitchUM,
-		CenterPx:  [2]float64{geo.CenterX, geo.CenterY},
+		CentrePx:  [2]float64{geo.CentreX, geo.CentreY},
 		WidthPx:   geo.Width, HeightPx: geo.Height,
 		CornerMM:     geo.CornerMM(),
 		Smoother:     smootherName,

@@ -171,7 +171,7 @@ func TestBalanceSynthetic(t *testing.T) {
 		t.Errorf("even frame: %s", s.Balance.Text)
 	}
 	for i := range pts {
-		if pts[i].X < geo.CenterX && pts[i].HeightMM >= OuterFraction*geo.CornerMM() {
+		if pts[i].X < geo.CentreX && pts[i].HeightMM >= OuterFraction*geo.CornerMM() {
 			for k := range pts[i].MTF {
 				pts[i].MTF[k] -= 0.08
 			}

@@ -37,7 +37,7 @@ func testSummary(t testing.TB, w, h int, pitchUM float64, n int, seed uint64, ti
 		if i%10 == 0 {
 			kind = "star"
 		}
-		scale := 1 + tilt*(x-geo.CenterX)*pitchUM/1000
+		scale := 1 + tilt*(x-geo.CentreX)*pitchUM/1000
 		for _, o := range []field.Orientation{field.Tangential, field.Sagittal} {
 			sigma := (0.7 + 0.004*hh*hh) * scale
 			if o == field.Sagittal {

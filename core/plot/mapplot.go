@@ -70,7 +70,7 @@ func Map(s *field.Summary, opt MapOptions) *Figure {
 			pn.Series = append(pn.Series, Series{Name: "Measured " + kind + "s", X: xs, Y: ys, Colour: InkColour, Marker: KindMarker(kind), MarkerSize: 2.4, Open: true})
 		}
 	}
-	pn.Marks = []Mark{{X: s.CenterPx[0] * mm, Y: s.CenterPx[1] * mm, Marker: Cross, Size: 7, Colour: InkColour, Label: "optical centre"}}
+	pn.Marks = []Mark{{X: s.CentrePx[0] * mm, Y: s.CentrePx[1] * mm, Marker: Cross, Size: 7, Colour: InkColour, Label: "optical centre"}}
 
 	f.Legend = []LegendEntry{{Label: "Edge", Colour: InkColour, Marker: EdgeMarker, Open: true}}
 	if stars {

@@ -59,7 +59,7 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 		if err != nil {
 			return fmt.Errorf("%w: --center: %v", errUsage, err)
 		}
-		s.CenterPx = &c
+		s.CentrePx = &c
 	}
 	if *freqs != "" {
 		for _, f := range strings.Split(*freqs, ",") {
