@@ -34,6 +34,11 @@
 //	    the built-in demo photo (core/sim/demo), a JPEG, on a sensor reduced by
 //	    the integer factor reduce (1 = 24 MP; as `sagitta demo -reduce`)
 //
+//	sagittaReference(args string (JSON)) -> string (JSON)
+//	    the reference curve of a measured MTF, a perfect lens (optics.go)
+//	sagittaFunctions: {call name: global name}
+//	    the functions a "call" message can reach (functions.go, the one list)
+//
 // Every function throws an Error whose message is one plain line on
 // failure; a Go panic is recovered and thrown the same way.
 package main
@@ -53,12 +58,7 @@ import (
 )
 
 func main() {
-	register("sagittaAnalyze", analyzeJS)
-	register("sagittaResummarise", resummariseJS)
-	register("sagittaPreview", previewJS)
-	register("sagittaCSV", csvJS)
-	register("sagittaJSON", jsonJS)
-	register("sagittaDemo", demoJS)
+	registerAll() // the list in functions.go
 	js.Global().Set("sagittaReady", true)
 	select {}
 }
