@@ -12,7 +12,7 @@ TESTDIR := site/test
 TESTOUT := $(BIN)/test
 ADDR ?= 127.0.0.1:8080
 
-.PHONY: all build test test-go test-wasm test-browser vet run bench deps tools clean demo wasm dist browser-deps FORCE
+.PHONY: all build test test-go test-wasm test-browser lint-js vet run bench deps tools clean demo wasm dist browser-deps FORCE
 
 all: build
 
@@ -41,9 +41,15 @@ test-go: deps tools
 # build cannot silently diverge from the native one.
 test-wasm: deps
 	GOOS=js GOARCH=wasm $(GO) build -o /dev/null ./wasm
-	GOOS=js GOARCH=wasm $(GO) test -count=1 -short -exec="$(WASM_EXEC)" ./core/...
+	GOOS=js GOARCH=wasm $(GO) test -count=1 -short -exec="$(WASM_EXEC)" ./core/... ./wasm
 
-test: vet test-go test-wasm test-browser
+test: vet lint-js test-go test-wasm test-browser
+
+# The page's JavaScript: every script parses (node --check), and imports and
+# exports between its modules agree, none unused (site/test/lint.mjs; plain
+# Node, no packages).
+lint-js:
+	node $(TESTDIR)/lint.mjs site
 
 # The page's engine: the core compiled to WebAssembly, wasm_exec.js from the
 # same Go toolchain, the core as base64 of its gzip in a script and the
