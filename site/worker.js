@@ -20,7 +20,7 @@ const CALLS = {
   demo: (reduce) => bytesOut(core('demo')(reduce)),
   resummarise: (image, settings) => {
     const r = core('resummarise')(image, settings);
-    return { result: r.image ? { image: JSON.parse(r.image) } : { remeasure: r.remeasure } };
+    return { result: r.image ? { image: JSON.parse(r.image) } : { remeasure: r.remeasure, remeasure_codes: Array.from(r.remeasure_codes || []) } };
   },
   reference: (args) => ({ result: JSON.parse(core('reference')(JSON.stringify(args))) }),
 };

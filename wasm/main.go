@@ -13,11 +13,12 @@
 //	    settings are the JSON of analyze.Settings (with "fallback_sensor_mm",
 //	    the sensor size to assume when the file's Exif gives no pixel pitch)
 //	sagittaResummarise(image string (JSON), settings string (JSON))
-//	    -> {image: string (JSON)} or {remeasure: string}
+//	    -> {image: string (JSON)} or {remeasure: string, remeasure_codes: [string]}
 //	    one photo's analysis (as sagittaAnalyze gave it) with a new pixel
 //	    pitch, optical centre or field frequencies, without the photo
 //	    (analyze.Resummarise); remeasure, one plain line, when the settings
-//	    change what was measured and the photo must be analysed again
+//	    change what was measured and the photo must be analysed again, with
+//	    the code of each cause (analyze.MeasureAgainError)
 //	sagittaPreview(bytes Uint8Array, maxSide number, tone string)
 //	    -> {width, height, factor, pixels Uint8Array}
 //	    an 8-bit grey display image of the decoded photo, reduced by an
@@ -121,7 +122,11 @@ func resummariseJS(args []js.Value) (any, error) {
 	out, err := analyze.Resummarise(&img, s)
 	var again *analyze.MeasureAgainError
 	if errors.As(err, &again) {
-		return js.ValueOf(map[string]any{"remeasure": again.Error()}), nil
+		codes := make([]any, len(again.Codes))
+		for i, c := range again.Codes {
+			codes[i] = c
+		}
+		return js.ValueOf(map[string]any{"remeasure": again.Error(), "remeasure_codes": codes}), nil
 	}
 	if err != nil {
 		return nil, err

@@ -66,22 +66,22 @@ func Resummarise(img *Image, s Settings) (out *Image, err error) {
 	if err != nil {
 		return nil, err
 	}
-	var again []string
+	again := &MeasureAgainError{}
 	if m := chk.method.String(); m != img.Method {
-		again = append(again, fmt.Sprintf("it was measured with the %s estimator, not %s", img.Method, m))
+		again.add(AgainMethod, fmt.Sprintf("it was measured with the %s estimator, not %s", img.Method, m))
 	}
 	if !sameTone(chk.tone, img) {
 		if chk.tone.Kind == decode.ToneAuto {
-			again = append(again, fmt.Sprintf("it was decoded with the tone chosen then (%s), not as the file says", img.Tone))
+			again.add(AgainTone, fmt.Sprintf("it was decoded with the tone chosen then (%s), not as the file says", img.Tone))
 		} else {
-			again = append(again, fmt.Sprintf("it was decoded with tone %s (%s), not with %s as chosen now", img.Tone, img.ToneSource, chk.tone))
+			again.add(AgainTone, fmt.Sprintf("it was decoded with tone %s (%s), not with %s as chosen now", img.Tone, img.ToneSource, chk.tone))
 		}
 	}
 	if out.CenterPx != img.CenterPx && len(img.Stars) > 0 {
-		again = append(again, "the optical centre moved and the photo has sine stars, measured along and across the radius from the old centre")
+		again.add(AgainCentreStars, "the optical centre moved and the photo has sine stars, measured along and across the radius from the old centre")
 	}
-	if len(again) > 0 {
-		return nil, &MeasureAgainError{Reasons: again}
+	if len(again.Reasons) > 0 {
+		return nil, again
 	}
 	if err := summarise(out, geo, base); err != nil {
 		return nil, err
@@ -91,9 +91,24 @@ func Resummarise(img *Image, s Settings) (out *Image, err error) {
 
 // MeasureAgainError is Resummarise's answer when the new settings change
 // what was measured, not only how it is placed and summarised: the photo
-// must be measured again (Run). Reasons say what changed, in words.
+// must be measured again (Run). Reasons say what changed, in words, and
+// Codes the same, aligned, for programs (AgainMethod, AgainTone,
+// AgainCentreStars): the page branches on the codes.
 type MeasureAgainError struct {
 	Reasons []string
+	Codes   []string
+}
+
+// The codes of MeasureAgainError's causes.
+const (
+	AgainMethod      = "method-changed"     // another estimator was chosen
+	AgainTone        = "tone-changed"       // another tone (or the file's own) was chosen
+	AgainCentreStars = "centre-moved-stars" // the optical centre moved and the photo has sine stars
+)
+
+func (e *MeasureAgainError) add(code, reason string) {
+	e.Codes = append(e.Codes, code)
+	e.Reasons = append(e.Reasons, reason)
 }
 
 func (e *MeasureAgainError) Error() string {

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 	"sync"
 	"testing"
 
@@ -205,16 +206,17 @@ func TestResummariseMeasureAgain(t *testing.T) {
 		name    string
 		img     *Image
 		s       Settings
-		reasons int // MeasureAgainError with this many reasons; 0: another error
+		reasons int    // MeasureAgainError with this many reasons; 0: another error
+		codes   string // and these codes, aligned with the reasons
 	}{
-		{"tone: linear", sq, Settings{Tone: "linear"}, 1},
-		{"tone: sRGB chosen where the file's rule chose it", sq, Settings{Tone: "srgb"}, 1},
-		{"estimator: ISO 12233", sq, Settings{Method: "iso"}, 1},
-		{"tone and estimator", sq, Settings{Tone: "gamma:2.2", Method: "iso"}, 2},
-		{"optical centre of a photo with a star", st, Settings{PitchUM: 5, CenterPx: at(590, 410)}, 1},
-		{"unknown estimator", sq, Settings{Method: "best"}, 0},
-		{"field frequency 0", sq, Settings{FreqsLPMM: []float64{0}}, 0},
-		{"no pitch", st, Settings{}, 0},
+		{"tone: linear", sq, Settings{Tone: "linear"}, 1, "tone-changed"},
+		{"tone: sRGB chosen where the file's rule chose it", sq, Settings{Tone: "srgb"}, 1, "tone-changed"},
+		{"estimator: ISO 12233", sq, Settings{Method: "iso"}, 1, "method-changed"},
+		{"tone and estimator", sq, Settings{Tone: "gamma:2.2", Method: "iso"}, 2, "method-changed tone-changed"},
+		{"optical centre of a photo with a star", st, Settings{PitchUM: 5, CenterPx: at(590, 410)}, 1, "centre-moved-stars"},
+		{"unknown estimator", sq, Settings{Method: "best"}, 0, ""},
+		{"field frequency 0", sq, Settings{FreqsLPMM: []float64{0}}, 0, ""},
+		{"no pitch", st, Settings{}, 0, ""},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -225,6 +227,8 @@ func TestResummariseMeasureAgain(t *testing.T) {
 				t.Fatalf("got a result, want an error")
 			case c.reasons > 0 && (!errors.As(err, &again) || len(again.Reasons) != c.reasons):
 				t.Errorf("error %v (%T), want a MeasureAgainError with %d reasons", err, err, c.reasons)
+			case c.reasons > 0 && strings.Join(again.Codes, " ") != c.codes:
+				t.Errorf("codes %q, want %q", again.Codes, c.codes)
 			case c.reasons == 0 && errors.As(err, &again):
 				t.Errorf("error %v, want one that is not a MeasureAgainError", err)
 			}
