@@ -2,7 +2,7 @@
 // list, the settings, exports and the automation hooks
 // (window.sagitta.results, document.body.dataset.status).
 
-import { engine } from './engine.js';
+import { engine, demoEngine } from './engine.js';
 import { AbortError } from './pool.js';
 import { readSettings, settingsKey, watchSettings, settingsSummary } from './settings.js';
 import { renderResult, refreshUnits, outcome } from './results.js';
@@ -137,7 +137,7 @@ async function loadDemo() {
   b.disabled = true;
   b.textContent = 'Making the demo photo…';
   try {
-    const bytes = await state.pool.call('demo', [DEMO_REDUCE]);
+    const bytes = await (await demoEngine()).call('demo', [DEMO_REDUCE]); // the simulator's own WebAssembly, loaded now
     addFiles([new File([bytes], 'demo-chart.jpg', { type: 'image/jpeg' })]);
   } catch (e) {
     announce('The demo photo could not be made: ' + e.message);
@@ -608,7 +608,7 @@ function boot() {
     state.pool = pool;
     state.functions = await pool.warm();
     if (state.functions.has('palette')) setPalette(await pool.call('palette'));
-    $('demo-button').hidden = !state.functions.has('demo');
+    $('demo-button').hidden = false; // the demo photo has its own WebAssembly, loaded on the first click
     $('tab-print').hidden = !state.functions.has('chart');
     if (state.functions.has('chart')) {
       const b = document.createElement('button');

@@ -16,17 +16,17 @@ type function struct {
 	Fn func(args []js.Value) (any, error)
 }
 
-// functions is the one list of the core's functions in this build: main
+// functions is the one list of the measuring engine's functions: main
 // registers each, and exports the call names as sagittaFunctions
 // ({call: global}); TestFunctionsMatchPage checks site/protocol.js and
-// site/worker.js against it.
+// site/worker.js against it and against the demo photo's own build
+// (wasm/demo, which adds the call "demo").
 var functions = []function{
 	{"sagittaAnalyze", "", analyzeJS},
 	{"sagittaPreview", "", previewJS},
 	{"sagittaResummarise", "resummarise", resummariseJS},
 	{"sagittaCSV", "csv", csvJS},
 	{"sagittaJSON", "json", jsonJS},
-	{"sagittaDemo", "demo", demoJS},
 	{"sagittaPlot", "plot", plotJS},
 	{"sagittaPalette", "palette", paletteJS},
 	{"sagittaChart", "chart", chartJS},

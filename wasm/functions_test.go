@@ -11,7 +11,7 @@ import (
 )
 
 // TestFunctionsMatchPage checks the page's side of the protocol against the
-// one list of core functions (functions.go): the names protocol.js declares
+// lists of core functions (functions.go, and wasm/demo's): the names protocol.js declares
 // in CALLS and the adapters worker.js keeps in its CALLS table are exactly
 // the list's call names, and worker.js names no core global of its own.
 func TestFunctionsMatchPage(t *testing.T) {
@@ -25,6 +25,17 @@ func TestFunctionsMatchPage(t *testing.T) {
 		if f.Call != "" {
 			want = append(want, f.Call)
 		}
+	}
+	// The demo photo's build (wasm/demo) has its own list, in the same
+	// shape; its calls reach the same worker.js.
+	for _, m := range regexp.MustCompile(`\{"(sagitta[A-Za-z]+)", "([a-z]+)", [A-Za-z]+\}`).FindAllStringSubmatch(read(t, "demo/main.go"), -1) {
+		if globals[m[1]] {
+			t.Errorf("%s is in both builds", m[1])
+		}
+		want = append(want, m[2])
+	}
+	if !slices.Contains(want, "demo") {
+		t.Error("wasm/demo/main.go lists no call \"demo\"")
 	}
 	slices.Sort(want)
 
