@@ -183,7 +183,7 @@ export function renderCompare(root, state) {
   main.append(table);
   main.append(el('p', { class: 'hint' }, `Each number is the median over the ${view.orient === 'both' ? '' : view.orient + ' '}targets in a third of the distance from the centre to the corner. ` +
     'A positive sagittal − tangential difference means detail across the radius is held better than along it (astigmatism); ± one standard error. ' +
-    'Balance compares the halves of the frame outside the centre. Differences of a few hundredths are within what refocusing and re-shooting change.'));
+    'Balance compares opposite halves of the frame, beyond 0.4 of the way to the corner, at matched distance from the centre. Differences of a few hundredths are within what refocusing and re-shooting change.'));
 }
 
 // gapWords gives the core's largest sagittal - tangential difference at
