@@ -2,9 +2,9 @@
 // list, the settings, exports and the automation hooks
 // (window.sagitta.results, document.body.dataset.status).
 
-import { engine } from './engine.js';
+import { engine, demoEngine } from './engine.js';
 import { AbortError } from './pool.js';
-import { readSettings, settingsKey, watchSettings, settingsSummary, measuredAlike } from './settings.js';
+import { readSettings, settingsKey, watchSettings, settingsSummary } from './settings.js';
 import { renderResult, refreshUnits, outcome } from './results.js';
 import { saveBlob } from './plot.js';
 import { renderCompare } from './compare.js';
@@ -137,7 +137,7 @@ async function loadDemo() {
   b.disabled = true;
   b.textContent = 'Making the demo photo…';
   try {
-    const bytes = await state.pool.call('demo', [DEMO_REDUCE]);
+    const bytes = await (await demoEngine()).call('demo', [DEMO_REDUCE]); // the simulator's own WebAssembly, loaded now
     addFiles([new File([bytes], 'demo-chart.jpg', { type: 'image/jpeg' })]);
   } catch (e) {
     announce('The demo photo could not be made: ' + e.message);
@@ -172,6 +172,7 @@ async function measure(p) {
   p.settingsKey = settingsKey(settings);
   p.update = null; // a pending resummary no longer applies
   p.remeasure = p.remeasureKey = '';
+  p.remeasureCodes = [];
   p.status = 'queued';
   p.stage = 'waiting';
   p.fraction = 0;
@@ -467,16 +468,17 @@ function isStale(p, s = readSettings()) {
   return true;
 }
 
-// applySettings brings the measured photos to the form's settings. Pixel
+// applySettings brings the measured photos to the form's settings. The
+// core decides what applies without the photo (analyze.Resummarise: pixel
 // size, optical centre and field frequencies only place and summarise what
-// was measured: the core applies them to each result without the photo
-// (quick). Tone and estimator, and the optical centre of a photo with sine
-// stars, need the photo measured again: those wait for "Measure all again".
+// was measured) and applies it (quick); what it cannot apply (tone,
+// estimator, the optical centre of a photo with sine stars) it answers with
+// the codes of its causes, and those photos wait for "Measure all again".
 function applySettings() {
   const s = readSettings();
   if (state.functions.has('resummarise')) {
     for (const p of state.photos) {
-      const ok = (p.status === 'done' || p.status === 'updating') && isStale(p, s) && measuredAlike(JSON.parse(p.settingsKey), s);
+      const ok = (p.status === 'done' || p.status === 'updating') && isStale(p, s);
       if (ok && p.remeasureKey !== settingsKey(s)) resummarise(p, s);
     }
   }
@@ -489,6 +491,7 @@ async function resummarise(p, s) {
   const token = {};
   p.update = token;
   p.remeasure = p.remeasureKey = '';
+  p.remeasureCodes = [];
   p.status = 'updating';
   updateRow(p);
   setStatus();
@@ -507,7 +510,7 @@ async function resummarise(p, s) {
     if (state.selected === p.key) showSelected();
     if (!$('place-compare').hidden) renderCompare($('place-compare'), state);
   } else {
-    p.remeasure = r.remeasure; // the core's reason and its codes (core/note); asked again only for other settings
+    p.remeasure = r.remeasure; // the core's reason and its codes; asked again only for other settings
     p.remeasureCodes = r.remeasure_codes || [];
     p.remeasureKey = settingsKey(s);
   }
@@ -526,10 +529,12 @@ function refreshStale() {
   $('stale-bar').hidden = waiting.length === 0;
   if (waiting.length) {
     const why = [];
-    if (waiting.some((p) => !measuredAlike(JSON.parse(p.settingsKey), s))) why.push('the tone and the estimator change how photos are read and measured');
-    const stars = (p) => p.remeasure && p.remeasureCodes.includes('centre-moved-stars');
-    if (waiting.some(stars)) why.push('sine stars are measured along and across the radius from the optical centre');
-    if (waiting.some((p) => p.remeasure && !stars(p))) why.push('the new settings could not be applied without measuring');
+    // The page words the core's codes (analyze.MeasureAgainError).
+    const has = (...codes) => (p) => p.remeasureCodes.some((c) => codes.includes(c));
+    const known = has('method-changed', 'tone-changed', 'centre-moved-stars');
+    if (waiting.some(has('method-changed', 'tone-changed'))) why.push('the tone and the estimator change how photos are read and measured');
+    if (waiting.some(has('centre-moved-stars'))) why.push('sine stars are measured along and across the radius from the optical centre');
+    if (waiting.some((p) => p.remeasure && !known(p))) why.push('the new settings could not be applied without measuring');
     if (!why.length) why.push('these settings differ from the ones the photos were measured with');
     const what = waiting.length === 1 ? `${waiting[0].name} again` : `these ${waiting.length} photos again`;
     $('stale-text').textContent = `${why.join('; ').replace(/^./, (c) => c.toUpperCase())}: measure ${what} to apply them.`;
@@ -603,7 +608,7 @@ function boot() {
     state.pool = pool;
     state.functions = await pool.warm();
     if (state.functions.has('palette')) setPalette(await pool.call('palette'));
-    $('demo-button').hidden = !state.functions.has('demo');
+    $('demo-button').hidden = false; // the demo photo has its own WebAssembly, loaded on the first click
     $('tab-print').hidden = !state.functions.has('chart');
     if (state.functions.has('chart')) {
       const b = document.createElement('button');

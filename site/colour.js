@@ -14,7 +14,7 @@ let STOPS = ['#1d2b5a', '#25548a', '#1f8a99', '#4fb381', '#a7d36a', '#f4ec8c'];
 export const SCALE_MAX_CY_PX = 0.5;
 
 /** scaleColour maps t in [0, 1] to the sharpness scale (linear in sRGB between stops). */
-export function scaleColour(t) {
+function scaleColour(t) {
   if (!Number.isFinite(t)) return '#888888';
   t = Math.min(1, Math.max(0, t)) * (STOPS.length - 1);
   const i = Math.min(STOPS.length - 2, Math.floor(t));

@@ -5,20 +5,13 @@
 import { plot } from './plot.js';
 import { PHOTO } from './colour.js';
 import { fmtFNumber, fmt } from './units.js';
-import { ZONES, zoneMedians, gap, balance, binned } from './zones.js';
-
-const el = (tag, attrs = {}, text) => {
-  const e = document.createElement(tag);
-  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, v);
-  if (text != null) e.textContent = text;
-  return e;
-};
+import { el } from './dom.js';
 
 // Choices kept between visits.
 const view = { fi: 1, orient: 'both', unticked: new Set() };
 
 /** defaultLabel names a photo from its Exif, else by its file name. */
-export function defaultLabel(p) {
+function defaultLabel(p) {
   const ex = (p.result && p.result.exif) || {};
   const parts = [];
   if (ex.f_number) parts.push(fmtFNumber(ex.f_number));
@@ -135,12 +128,11 @@ export function renderCompare(root, state) {
     for (const o of orients) {
       const keep = (m) => m.orientation === o;
       const pts = r.measurements.filter(keep).map((m) => [m.height_mm, m.mtf_at_freqs[fi]]);
-      // The core's smooth field curve when the photo has a summary, else
-      // medians over bands of distance.
-      const curve = r.summary && r.summary.curves.find((k) => k.quantity === 'mtf' && k.orientation === o && k.freq_lp_mm === freqs[fi]);
-      const line = curve ? curve.height_mm.map((h, i) => [h, curve.value[i]]) : binned(r, fi, keep);
-      const mark = curve ? null : o === 'sagittal' ? 'circle' : 'square';
-      series.push({ name: `${labelOf(p)}, ${o}`, points: line, colour: c, width: 2.2, dash: o === 'tangential' ? '7 4' : null, marker: mark, markerSize: 3.4 });
+      // The core's smooth field curve; without one (too few targets of this
+      // orientation) only the targets are drawn.
+      const curve = r.summary.curves.find((k) => k.quantity === 'mtf' && k.orientation === o && k.freq_lp_mm === freqs[fi]);
+      const line = curve ? curve.height_mm.map((h, i) => [h, curve.value[i]]) : [];
+      series.push({ name: `${labelOf(p)}, ${o}`, points: line, colour: c, width: 2.2, dash: o === 'tangential' ? '7 4' : null, marker: curve ? null : o === 'sagittal' ? 'circle' : 'square', markerSize: 3.4 });
       series.push({ name: '', points: pts, colour: c, line: false, marker: o === 'sagittal' ? 'circle' : 'square', markerSize: 1.6, legend: false });
       for (const q of line) rows.push([labelOf(p), o, q[0], q[1]]);
       if (curve) smooth = r.summary.smoother;
@@ -151,7 +143,7 @@ export function renderCompare(root, state) {
     xDomain: [0, xmax], yDomain: [0, 1], series, width: 760, height: 380, fileName: 'compare-field',
     table: { columns: ['photo', 'orientation', 'height (mm)', 'MTF'], rows },
   }));
-  main.append(el('p', { class: 'hint' }, (smooth ? `Lines: the field curves (${smooth}).` : 'Lines join the medians of the targets in six bands of distance.') +
+  main.append(el('p', { class: 'hint' }, (smooth ? `Lines: the field curves (${smooth}).` : 'Too few targets of one orientation for a field curve.') +
     ' Small marks are single targets. Solid: sagittal; dashed: tangential.'));
 
   // The table of key numbers.
@@ -167,7 +159,10 @@ export function renderCompare(root, state) {
   for (const f of freqs) th(h1, `MTF at ${f} lp/mm`, { colspan: 3 });
   th(h1, `Sagittal − tangential at ${freqs[freqs.length - 1]} lp/mm`, { rowspan: 2 });
   th(h1, `Balance at ${freqs[freqs.length - 1]} lp/mm`, { rowspan: 2 });
-  for (const _ of freqs) for (const z of ZONES) th(h2, z.name);
+  // The zones and their medians come from the core (summary.zones).
+  const zoneNames = ticked[0].result.summary.zones.map((z) => z.name);
+  const zoneKey = view.orient === 'both' ? 'all' : view.orient;
+  for (const _ of freqs) for (const z of zoneNames) th(h2, z);
   const tb = table.createTBody();
   const last = freqs.length - 1;
   for (const p of ticked) {
@@ -181,47 +176,35 @@ export function renderCompare(root, state) {
     tr.append(name);
     tr.insertCell().textContent = fmtFNumber(ex.f_number) || '—';
     tr.insertCell().textContent = ex.focal_length_mm ? `${+ex.focal_length_mm.toFixed(1)} mm` : '—';
-    freqs.forEach((_, i) => zoneMedians(r, i).forEach((v) => (tr.insertCell().textContent = fmt(v, 2))));
-    tr.insertCell().textContent = gapWords(r, last);
-    tr.insertCell().textContent = r.summary ? summaryBalanceWords(r.summary, freqs[last]) : balanceWords(balance(r, last));
+    freqs.forEach((_, i) => r.summary.zones.forEach((z) => (tr.insertCell().textContent = fmt(z[zoneKey][i], 2))));
+    tr.insertCell().textContent = gapWords(r.summary, freqs[last]);
+    tr.insertCell().textContent = balanceWords(r.summary, freqs[last]);
   }
   main.append(table);
-  main.append(el('p', { class: 'hint' }, 'Each number is the median over the targets in a third of the distance from the centre to the corner. ' +
+  main.append(el('p', { class: 'hint' }, `Each number is the median over the ${view.orient === 'both' ? '' : view.orient + ' '}targets in a third of the distance from the centre to the corner. ` +
     'A positive sagittal − tangential difference means detail across the radius is held better than along it (astigmatism); ± one standard error. ' +
-    'Balance compares the halves of the frame outside the centre. Differences of a few hundredths are within what refocusing and re-shooting change.'));
+    'Balance compares opposite halves of the frame, beyond 0.4 of the way to the corner, at matched distance from the centre. Differences of a few hundredths are within what refocusing and re-shooting change.'));
 }
 
-// gapWords gives the sagittal - tangential difference: the core's largest
-// gap with its standard error when there is a summary, else the difference
-// of medians outside the centre.
-function gapWords(r, fi) {
-  const a = r.summary && r.summary.astigmatism.find((a) => a.freq_lp_mm === r.freqs_lp_mm[fi]);
-  if (a) return `${a.max_gap >= 0 ? '+' : ''}${a.max_gap.toFixed(2)} ± ${seText(a.max_gap_se)} at ${a.max_gap_height_mm.toFixed(1)} mm`;
-  const g = gap(r, fi);
-  return Number.isFinite(g) ? `${g >= 0 ? '+' : ''}${g.toFixed(2)}` : 'n/a';
+// gapWords gives the core's largest sagittal - tangential difference at
+// frequency f with its standard error (summary.astigmatism).
+function gapWords(s, f) {
+  const a = s.astigmatism.find((a) => a.freq_lp_mm === f);
+  if (!a) return 'n/a';
+  return `${a.max_gap >= 0 ? '+' : ''}${a.max_gap.toFixed(2)} ± ${seText(a.max_gap_se)} at ${a.max_gap_height_mm.toFixed(1)} mm`;
 }
 
-// summaryBalanceWords names the notable differences between opposite halves.
-function summaryBalanceWords(s, f) {
-  if (!s.balance || s.balance.verdict === 'not enough measurements') return 'not enough targets';
+// balanceWords names the notable differences between opposite halves at
+// frequency f (the core's balance check, summary.balance).
+function balanceWords(s, f) {
+  if (s.balance.verdict === 'not enough measurements') return 'not enough targets';
   const parts = [];
-  for (const p of s.balance.pairs || []) {
+  for (const p of s.balance.pairs) {
     if (!['left', 'top'].includes(p.a)) continue; // the halves; quarters are in the Measure place
     const d = p.by_freq.find((d) => d.freq_lp_mm === f);
     if (d && d.notable) parts.push(`${d.diff < 0 ? p.a : p.b} softer by ${Math.abs(d.diff).toFixed(2)} ± ${seText(d.se)}`);
   }
   return parts.length ? parts.join('; ') : 'balanced';
-}
-
-function balanceWords(b) {
-  const parts = [];
-  const side = (d, a, z) => (Math.abs(d) < 0.02 ? null : `${d < 0 ? a : z} softer by ${Math.abs(d).toFixed(2)}`);
-  const lr = side(b.leftRight, 'left', 'right');
-  const tb = side(b.topBottom, 'top', 'bottom');
-  if (lr) parts.push(lr);
-  if (tb) parts.push(tb);
-  if (!Number.isFinite(b.leftRight) && !Number.isFinite(b.topBottom)) return 'n/a';
-  return parts.length ? parts.join('; ') : 'even';
 }
 
 // seText shows a standard error to two decimals, or "<0.01" when it would

@@ -3,13 +3,7 @@
 // download, and the data table behind the picture.
 
 import { saveBlob } from './plot.js';
-
-const el = (tag, attrs = {}, text) => {
-  const e = document.createElement(tag);
-  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, v);
-  if (text != null) e.textContent = text;
-  return e;
-};
+import { el } from './dom.js';
 
 /**
  * coreFigure returns a <figure> at once and fills it when the core has

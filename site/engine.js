@@ -9,11 +9,14 @@
 // worker's source come from two scripts, sagitta-wasm.js and
 // sagitta-worker.js (allowed by script-src 'self'), loaded when the engine
 // starts; in the single-file page both are inline data blocks
-// (<script type="text/plain">).
+// (<script type="text/plain">). The demo photo's simulator is a second,
+// separate WebAssembly (sagitta-demo-wasm.js, or the block demo-wasm-gzip),
+// loaded the same way only when the user asks for the demo.
 
 import { Pool, poolSize } from './pool.js';
 
 let enginePromise = null;
+let demoModule = null;
 
 /** engine returns the shared Pool, starting it on first use. */
 export function engine() {
@@ -22,21 +25,45 @@ export function engine() {
 }
 
 async function start() {
-  const [b64, workerText] = await Promise.all([compressedCore(), workerSource()]);
-  const gz = base64Bytes(b64);
-  const stream = new Blob([gz]).stream().pipeThrough(new DecompressionStream('gzip'));
-  const bytes = await new Response(stream).arrayBuffer();
-  const module = await WebAssembly.compile(bytes);
-  const url = URL.createObjectURL(new Blob([workerText], { type: 'text/javascript' }));
+  const [module, url] = await Promise.all([compile(compressed('core-wasm-gzip', 'sagitta-wasm.js', 'sagittaCoreGzip')), workerURL()]);
   return new Pool({ module, spawn: () => new Worker(url), size: poolSize() });
 }
 
-// compressedCore returns the base64 text of the gzip-compressed core.
-async function compressedCore() {
-  const block = document.getElementById('core-wasm-gzip');
+/**
+ * demoEngine starts a pool of one worker running the demo photo's own
+ * WebAssembly (wasm/demo: the simulator, kept out of the measuring engine),
+ * loaded only now; the worker stops a second after its last job.
+ */
+export async function demoEngine() {
+  if (!demoModule) demoModule = compile(compressed('demo-wasm-gzip', 'sagitta-demo-wasm.js', 'sagittaDemoGzip'));
+  const [module, url] = await Promise.all([demoModule, workerURL()]);
+  return new Pool({ module, spawn: () => new Worker(url), size: 1, idleMs: 1000 });
+}
+
+// compile decompresses and compiles the base64 of a gzip-compressed
+// WebAssembly module.
+async function compile(b64Promise) {
+  const gz = base64Bytes(await b64Promise);
+  const stream = new Blob([gz]).stream().pipeThrough(new DecompressionStream('gzip'));
+  return WebAssembly.compile(await new Response(stream).arrayBuffer());
+}
+
+let urlPromise = null;
+
+// workerURL returns the Blob URL every worker starts from.
+function workerURL() {
+  if (!urlPromise) urlPromise = workerSource().then((text) => URL.createObjectURL(new Blob([text], { type: 'text/javascript' })));
+  return urlPromise;
+}
+
+// compressed returns the base64 text of a gzip-compressed module: the
+// single-file page's data block of that id, else the served page's script
+// that sets self[global].
+async function compressed(blockId, script, global) {
+  const block = document.getElementById(blockId);
   if (block) return block.textContent.trim();
-  if (!self.sagittaCoreGzip) await loadScript('sagitta-wasm.js');
-  return self.sagittaCoreGzip;
+  if (!self[global]) await loadScript(script);
+  return self[global];
 }
 
 // workerSource returns the worker's text (wasm_exec.js, then worker.js).
@@ -52,7 +79,7 @@ function loadScript(src) {
     const s = document.createElement('script');
     s.src = src;
     s.onload = resolve;
-    s.onerror = () => reject(new Error(`the measuring engine (${src}) is missing; run "make wasm"`));
+    s.onerror = () => reject(new Error(`${src} is missing; run "make wasm"`));
     document.head.append(s);
   });
 }

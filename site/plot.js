@@ -15,7 +15,7 @@ export function svgEl(name, attrs = {}, parent = null) {
 }
 
 /** niceTicks returns about n round tick values (steps of 1, 2 or 5 x 10^k) covering [lo, hi]. */
-export function niceTicks(lo, hi, n = 5) {
+function niceTicks(lo, hi, n = 5) {
   if (!(hi > lo)) return [lo];
   const raw = (hi - lo) / n;
   const p = Math.pow(10, Math.floor(Math.log10(raw)));
@@ -205,7 +205,7 @@ export function svgBlob(svg) {
 }
 
 /** svgToPNG renders an SVG element to a PNG at the given scale. */
-export async function svgToPNG(svg, scale = 2) {
+async function svgToPNG(svg, scale = 2) {
   const url = URL.createObjectURL(svgBlob(svg));
   try {
     const img = new Image();

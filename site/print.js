@@ -6,13 +6,7 @@
 
 import { saveBlob } from './plot.js';
 import { fmt } from './units.js';
-
-const el = (tag, attrs = {}, text) => {
-  const e = document.createElement(tag);
-  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, v);
-  if (text != null) e.textContent = text;
-  return e;
-};
+import { el } from './dom.js';
 
 // The form's state, kept between visits.
 const form = {
@@ -34,7 +28,7 @@ export function renderPrint(root, state) {
 }
 
 /** chartOptions are the chart options for the core (chart.Options). */
-export function chartOptions() {
+function chartOptions() {
   const o = { paper: form.paper, orientation: form.orientation, aspect: form.aspect, contrast: form.contrast, dpi: +form.dpi, margin_mm: +form.margin };
   if (form.paper === 'custom') o.paper_mm = [+form.customW, +form.customH];
   const r = parseFloat(form.ruler);

@@ -22,9 +22,9 @@
 //       cannot display).
 //
 //   {type: "call", id, fn, args}
-//       Run one of the core's other functions (fn: "csv", "json", "plot", "palette", "chart",
-//       "plan", "demo", "resummarise"; see CALLS in worker.js); args: an array of strings
-//       or numbers. Quick jobs, queued ahead of photos. "resummarise" takes
+//       Run one of the core's other functions (fn: one of CALLS below, the
+//       core's list in wasm/functions.go); args: an array of strings,
+//       numbers or plain objects. Quick jobs, queued ahead of photos. "resummarise" takes
 //       a photo's analysis and new settings (both JSON strings) and gives
 //       {image} (the analysis for those settings, without measuring again)
 //       or {remeasure: reason} when the settings need the photo measured
@@ -74,8 +74,12 @@ export const FROM_WORKER = Object.freeze({
   error: 'error',
 });
 
-/** Functions a "call" message may name (see CALLS in worker.js). */
-export const CALLS = Object.freeze(['csv', 'json', 'plot', 'palette', 'chart', 'plan', 'demo', 'resummarise']);
+/**
+ * Functions a "call" message may name: the call names of the core's one
+ * list (wasm/functions.go, exported by the core as sagittaFunctions);
+ * TestFunctionsMatchPage in wasm/ checks this list and worker.js against it.
+ */
+export const CALLS = Object.freeze(['csv', 'json', 'plot', 'palette', 'chart', 'plan', 'demo', 'resummarise', 'reference']);
 
 /**
  * analyzeMessage builds an "analyze" message and its transfer list.

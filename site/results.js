@@ -6,10 +6,10 @@ import { PhotoViewer, drawStored } from './viewer.js';
 import { plot, saveBlob, svgBlob } from './plot.js';
 import { mtf50Colour, scaleGradient, SCALE_MAX_CY_PX, ORIENTATION } from './colour.js';
 import { fromCyPx, fmtFreq, fmt, fmtFNumber, fmtExposure, UNITS, NYQUIST_CY_PX, digits } from './units.js';
-import { bestPossible, WAVELENGTH_UM } from './optics.js';
 import { settingsSummary } from './settings.js';
 import { labelOf } from './compare.js';
 import { renderSummary } from './summary.js';
+import { el } from './dom.js';
 
 /** outcome says in one line what came of a photo. */
 export function outcome(r) {
@@ -24,13 +24,6 @@ export function outcome(r) {
 
 // The photo on show, kept between renders so that zoom survives a change of units.
 let current = null;
-
-const el = (tag, attrs = {}, text) => {
-  const e = document.createElement(tag);
-  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, v);
-  if (text != null) e.textContent = text;
-  return e;
-};
 
 /**
  * renderResult fills sec with the result of photo p.
@@ -348,20 +341,16 @@ function renderDetail() {
       series.push({ name: `same star, ${o.orientation}`, points: o.freq_cy_px.map((f, i) => [conv(f), o.mtf[i]]), colour: ORIENTATION[o.orientation] || '#6f767e', width: 1.2, dash: '3 2' });
     }
   }
-  const ref = [];
-  if (current.refF) {
-    for (let i = 0; i <= 200; i++) {
-      const f = (fmax * i) / 200;
-      ref.push([conv(f), bestPossible(f, current.refF, r.pitch_um)]);
-    }
-    series.push({ name: `perfect lens at ${fmtFNumber(current.refF)}: diffraction (${WAVELENGTH_UM * 1000} nm) and pixel area`, points: ref, colour: '#6f767e', width: 1.3, dash: '6 4' });
+  // The reference, a perfect lens, comes from the core (optics.PerfectLens).
+  const ref = current.refF ? reference(m, r, fmax) : null;
+  if (ref) {
+    series.push({ name: `perfect lens at ${fmtFNumber(current.refF)}: diffraction (${ref.wavelength_um * 1000} nm) and pixel area`, points: zip(ref.curve_cy_px.map(conv), ref.curve), colour: '#6f767e', width: 1.3, dash: '6 4' });
   }
   const ymax = Math.max(1.05, ...m.mtf.filter(Number.isFinite));
-  const table = { columns: [`frequency (${UNITS[units].label})`, 'MTF measured'].concat(current.refF ? ['perfect lens'] : []), rows: [] };
+  const table = { columns: [`frequency (${UNITS[units].label})`, 'MTF measured'].concat(ref ? ['perfect lens'] : []), rows: [] };
   for (let i = 0; i < pts.length; i++) {
-    const f = m.freq_cy_px[i];
     const rowv = [pts[i][0], pts[i][1]];
-    if (current.refF) rowv.push(bestPossible(f, current.refF, r.pitch_um));
+    if (ref) rowv.push(ref.at_freqs[i]);
     table.rows.push(rowv);
   }
   const measured = m.measured_cy_px ? [{ x: conv(m.measured_cy_px[0]), label: '', colour: '#8a939d', dash: '1 3', legend: 'measured range of the pattern' }, { x: conv(m.measured_cy_px[1]), label: '', colour: '#8a939d', dash: '1 3' }] : [];
@@ -371,9 +360,28 @@ function renderDetail() {
     series, vlines: [{ x: conv(NYQUIST_CY_PX), label: 'Nyquist', colour: '#1b1f24', legend: 'Nyquist frequency (half the sampling rate)' }, ...measured],
     table, width: 460, height: 260, fileName: `edge-${m.id}-mtf`,
   }));
-  if (current.refF && pts.some((p, i) => p[1] > bestPossible(m.freq_cy_px[i], current.refF, r.pitch_um) + 0.05)) {
+  if (ref && ref.exceeds) {
     detail.append(el('p', { class: 'notes' }, 'This edge responds above what a perfect lens could give at this f-number: the file was sharpened (in the camera or later), or the f-number is wrong. Sharpened files overstate the lens.'));
   }
+}
+
+// reference returns the core's reference curve for target m at the chosen
+// f-number, or null while the core works it out (the detail is drawn again
+// when it arrives).
+function reference(m, r, fmax) {
+  const key = `${r.pitch_um}|${current.refF}|${m.id}|${fmax}`;
+  const cache = current.refs || (current.refs = new Map());
+  if (cache.has(key)) return cache.get(key);
+  cache.set(key, null);
+  const pool = current.state.pool;
+  if (!pool || !current.state.functions.has('reference')) return null;
+  const args = { f_number: current.refF, pitch_um: r.pitch_um, freq_cy_px: m.freq_cy_px, measured: m.mtf, max_cy_px: fmax, curve_points: 200 };
+  const mine = current;
+  pool.call('reference', [args]).then((v) => {
+    cache.set(key, v);
+    if (current === mine && current.selected === m.id && current.refF === args.f_number) renderDetail();
+  }, () => {});
+  return null;
 }
 
 // patternRows describes a star or a set of gratings.

@@ -45,17 +45,6 @@ export function settingsKey(s) {
   return JSON.stringify(s);
 }
 
-// The settings that only place and summarise what was measured (pixel
-// size, optical centre, field frequencies): the core applies them to a
-// result without the photo. Tone and estimator change the measurement.
-const PLACING = ['pitch_um', 'sensor_mm', 'fallback_sensor_mm', 'center_px', 'freqs_lp_mm'];
-
-/** measuredAlike reports whether two settings differ at most in what only places and summarises. */
-export function measuredAlike(a, b) {
-  const rest = (s) => settingsKey(Object.fromEntries(Object.entries(s).filter(([k]) => !PLACING.includes(k))));
-  return rest(a) === rest(b);
-}
-
 /**
  * watchSettings calls hooks.analysis() when a setting that changes the
  * measurement changes, and hooks.units(unit) when the units change.

@@ -8,13 +8,7 @@ import { plot } from './plot.js';
 import { coreFigure } from './corefig.js';
 import { ORIENTATION } from './colour.js';
 import { fromCyPx, UNITS, NYQUIST_CY_PX } from './units.js';
-
-const el = (tag, attrs = {}, text) => {
-  const e = document.createElement(tag);
-  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, v);
-  if (text != null) e.textContent = text;
-  return e;
-};
+import { el } from './dom.js';
 
 const ORIENTS = ['sagittal', 'tangential'];
 

@@ -28,18 +28,6 @@ export function fromCyPx(v, unit, img) {
   }
 }
 
-/** toCyPx is the inverse of fromCyPx. */
-export function toCyPx(v, unit, img) {
-  switch (unit) {
-    case 'lpmm':
-      return v * (img.pitch_um / 1000);
-    case 'lwph':
-      return v / (2 * img.height);
-    default:
-      return v;
-  }
-}
-
 /** digits gives a sensible number of decimals for a value in the unit. */
 export function digits(unit) {
   return unit === 'cypx' ? 3 : unit === 'lpmm' ? 1 : 0;

@@ -13,7 +13,7 @@ const MAX_ZOOM = 16; // screen px per photo px
  * y = b u + d v + f for a shown point (u, v). The core measures the pixels
  * as stored, so the photo is drawn as stored for the targets to sit on it.
  */
-export function storedFromShown(o, W, H) {
+function storedFromShown(o, W, H) {
   switch (o) {
     case 2: return [-1, 0, 0, 1, W, 0]; // shown mirrored left-right
     case 3: return [-1, 0, 0, -1, W, H]; // shown turned 180 degrees
@@ -41,7 +41,7 @@ export function drawStored(ctx, source, W, H, o = 1, factor = 1) {
  * ringArc is the SVG path of arc i of n equal arcs of the ring between radii
  * r0 and r1 around (cx, cy), starting at the top and going clockwise.
  */
-export function ringArc(cx, cy, r0, r1, i, n) {
+function ringArc(cx, cy, r0, r1, i, n) {
   const a0 = -Math.PI / 2 + (2 * Math.PI * i) / n;
   const a1 = -Math.PI / 2 + (2 * Math.PI * (i + 1)) / n - (n > 1 ? 0.04 : 0.0001);
   const pt = (r, a) => `${(cx + r * Math.cos(a)).toFixed(2)},${(cy + r * Math.sin(a)).toFixed(2)}`;

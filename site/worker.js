@@ -8,24 +8,25 @@
 // The core's functions reachable through a "call" message, by name. Each
 // takes the message's args and returns {result, transfer}.
 const CALLS = {
-  csv: (results) => ({ result: core('sagittaCSV')(results) }),
-  json: (results) => ({ result: core('sagittaJSON')(results) }),
+  csv: (results) => ({ result: core('csv')(results) }),
+  json: (results) => ({ result: core('json')(results) }),
   plot: (kind, data, options) => {
-    const r = core('sagittaPlot')(kind, data, options);
+    const r = core('plot')(kind, data, options);
     return { result: r, transfer: r.png ? [r.png.buffer] : [] };
   },
-  palette: () => ({ result: core('sagittaPalette')() }),
-  chart: (options, format) => bytesOut(core('sagittaChart')(options, format)),
-  plan: (options) => ({ result: core('sagittaPlan')(options) }),
-  demo: (reduce) => bytesOut(core('sagittaDemo')(reduce)),
+  palette: () => ({ result: core('palette')() }),
+  chart: (options, format) => bytesOut(core('chart')(options, format)),
+  plan: (options) => ({ result: core('plan')(options) }),
+  demo: (reduce) => bytesOut(core('demo')(reduce)),
   resummarise: (image, settings) => {
-    const r = core('sagittaResummarise')(image, settings);
+    const r = core('resummarise')(image, settings);
     return { result: r.image ? { image: JSON.parse(r.image) } : { remeasure: r.remeasure, remeasure_codes: Array.from(r.remeasure_codes || []) } };
   },
+  reference: (args) => ({ result: JSON.parse(core('reference')(JSON.stringify(args))) }),
 };
-
-// The core's global names behind each call.
-const CORE_NAMES = { csv: 'sagittaCSV', json: 'sagittaJSON', plot: 'sagittaPlot', palette: 'sagittaPalette', chart: 'sagittaChart', plan: 'sagittaPlan', demo: 'sagittaDemo', resummarise: 'sagittaResummarise' };
+// The core's global behind each call comes from the core itself
+// (sagittaFunctions, the one list in wasm/functions.go; a Go test checks
+// this table against it).
 
 let started = null; // promise of the running Go instance
 let go = null;
@@ -36,7 +37,8 @@ self.onmessage = async (ev) => {
     started = start(msg.module);
     try {
       await started;
-      const functions = Object.keys(CALLS).filter((k) => typeof self[CORE_NAMES[k]] === 'function');
+      const names = self.sagittaFunctions || {};
+      const functions = Object.keys(CALLS).filter((k) => typeof self[names[k]] === 'function');
       self.postMessage({ type: 'ready', functions });
     } catch (e) {
       self.postMessage({ type: 'error', id: 0, message: 'the measuring engine did not start: ' + text(e), fatal: true });
@@ -93,11 +95,11 @@ function call(msg) {
   self.postMessage({ type: 'result', id: msg.id, result, preview: null }, transfer);
 }
 
-// core returns the core's function of that name, checking that this build
-// has it (the chart, planner and demo arrive with later parts of the core).
-function core(name) {
-  const f = self[name];
-  if (typeof f !== 'function') throw new Error(`this build of the core has no ${name}`);
+// core returns the core's function behind a call name, checking that this
+// build has it.
+function core(call) {
+  const f = self[(self.sagittaFunctions || {})[call]];
+  if (typeof f !== 'function') throw new Error(`this build of the core has no function "${call}"`);
   return (...args) => check(f(...args));
 }
 

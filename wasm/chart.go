@@ -11,11 +11,6 @@ import (
 	"sagitta/core/plan"
 )
 
-func init() {
-	register("sagittaChart", chartJS)
-	register("sagittaPlan", planJS)
-}
-
 // chartJS draws the printable chart: sagittaChart(options JSON, format) -> Uint8Array.
 func chartJS(args []js.Value) (any, error) {
 	if len(args) < 2 || args[0].Type() != js.TypeString || args[1].Type() != js.TypeString {

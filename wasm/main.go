@@ -31,9 +31,11 @@
 //	    core/plot's figures and colours (plot.go)
 //	sagittaChart(options, format) -> Uint8Array, sagittaPlan(options) -> string
 //	    the printable chart and the shooting planner (chart.go)
-//	sagittaDemo(reduce number) -> Uint8Array
-//	    the built-in demo photo (core/sim/demo), a JPEG, on a sensor reduced by
-//	    the integer factor reduce (1 = 24 MP; as `sagitta demo -reduce`)
+//
+//	sagittaReference(args string (JSON)) -> string (JSON)
+//	    the reference curve of a measured MTF, a perfect lens (optics.go)
+//	sagittaFunctions: {call name: global name}
+//	    the functions a "call" message can reach (functions.go, the one list)
 //
 // Every function throws an Error whose message is one plain line on
 // failure; a Go panic is recovered and thrown the same way.
@@ -50,16 +52,10 @@ import (
 	"sagitta/core/analyze"
 	"sagitta/core/decode"
 	"sagitta/core/preview"
-	"sagitta/core/sim/demo"
 )
 
 func main() {
-	register("sagittaAnalyze", analyzeJS)
-	register("sagittaResummarise", resummariseJS)
-	register("sagittaPreview", previewJS)
-	register("sagittaCSV", csvJS)
-	register("sagittaJSON", jsonJS)
-	register("sagittaDemo", demoJS)
+	registerAll() // the list in functions.go
 	js.Global().Set("sagittaReady", true)
 	select {}
 }
@@ -205,24 +201,6 @@ func jsonJS(args []js.Value) (any, error) {
 	var buf bytes.Buffer
 	err = analyze.WriteJSON(&buf, res)
 	return buf.String(), err
-}
-
-// demoJS renders the demo photo.
-func demoJS(args []js.Value) (any, error) {
-	reduce := 1
-	if len(args) > 0 && args[0].Type() == js.TypeNumber {
-		reduce = args[0].Int()
-	}
-	if reduce < 1 || reduce > 20 {
-		return nil, fmt.Errorf("demo: reduction %d is outside 1..20", reduce)
-	}
-	data, err := demo.PortraitSmall(reduce).Photo()
-	if err != nil {
-		return nil, err
-	}
-	out := js.Global().Get("Uint8Array").New(len(data))
-	js.CopyBytesToJS(out, data)
-	return out, nil
 }
 
 // results reads the results document passed as the first argument.

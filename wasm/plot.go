@@ -13,11 +13,6 @@ import (
 	"sagitta/core/plot"
 )
 
-func init() {
-	register("sagittaPlot", plotJS)
-	register("sagittaPalette", paletteJS)
-}
-
 // plotOptions are the options of sagittaPlot.
 type plotOptions struct {
 	Label     string    `json:"label"`       // names the photo in the title

@@ -57,6 +57,10 @@ type Summary struct {
 	Map *Map `json:"map"`
 	// Balance compares opposite halves and quadrants of the frame.
 	Balance Balance `json:"balance"`
+	// Zones are the centre, mid-field and corner thirds of the image height
+	// with their median MTF at each field frequency (all orientations,
+	// sagittal, tangential): the numbers of the page's Compare table.
+	Zones []Zone `json:"zones"`
 	// Cautions are the set-up cautions to show beside any verdict.
 	Cautions []string `json:"cautions"`
 	// Warnings say what could not be summarised and why; WarningCodes
@@ -164,6 +168,7 @@ func Summarise(geo Geometry, points []Point, freqsLPMM []float64) (*Summary, err
 	s.Astigmatism = astigmatism(fits, freqsLPMM)
 	s.Map = mtf50Map(geo, pts)
 	s.Balance = balance(geo, pts, fits, freqsLPMM)
+	s.Zones = zones(s.CornerMM, pts, len(freqsLPMM))
 
 	for i, p := range pts {
 		sp := SummaryPoint{

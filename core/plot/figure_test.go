@@ -18,6 +18,7 @@ import (
 
 	"sagitta/core/analyze"
 	"sagitta/core/field"
+	"sagitta/core/optics"
 )
 
 // testSummary summarises n synthetic radially oriented targets (a
@@ -267,26 +268,10 @@ func TestCompareCode(t *testing.T) {
 	}
 }
 
-// TestDiffraction checks the diffraction-limited MTF against the values in
-// DOMAIN.md section 6 (Goodman, Introduction to Fourier Optics, ch. 6):
-// lambda = 0.55 um at f/8 gives vc = 227.3 lp/mm and MTF(vc/2) = 0.391.
-func TestDiffraction(t *testing.T) {
-	vc := DiffractionCutoffLPMM(8)
-	for _, tc := range []struct {
-		name      string
-		got, want float64
-		tol       float64
-	}{
-		{"cutoff f/8", vc, 227.3, 0.05},
-		{"half cutoff", DiffractionMTF(vc/2, vc), 0.391, 0.0005},
-		{"zero frequency", DiffractionMTF(0, vc), 1, 1e-12},
-		{"at cutoff", DiffractionMTF(vc, vc), 0, 0},
-		{"beyond cutoff", DiffractionMTF(1.5*vc, vc), 0, 0},
-	} {
-		if math.Abs(tc.got-tc.want) > tc.tol {
-			t.Errorf("%s: %g, want %g", tc.name, tc.got, tc.want)
-		}
-	}
+// TestTargetReference checks that the target plot draws the one reference
+// curve, core/optics's perfect lens, and only when the f-number is known.
+// (optics's own tests check it against Goodman and Boreman.)
+func TestTargetReference(t *testing.T) {
 	// The target plot draws the reference only when the f-number is known.
 	td := testTarget()
 	with := Target(td, TargetOptions{})
@@ -294,6 +279,11 @@ func TestDiffraction(t *testing.T) {
 	without := Target(td, TargetOptions{})
 	if n1, n0 := len(with.Panels[2].Series), len(without.Panels[2].Series); n1 != 2 || n0 != 1 {
 		t.Errorf("MTF panel series: %d with f-number, %d without", n1, n0)
+	}
+	ref, td := with.Panels[2].Series[0], testTarget() // x in cycles/pixel (no lp/mm option)
+	want, err := optics.PerfectLens(td.FNumber, td.PitchUM, optics.WavelengthUM, ref.X)
+	if err != nil || len(want) != len(ref.Y) || math.Abs(want[50]-ref.Y[50]) > 1e-12 {
+		t.Errorf("reference curve is not optics.PerfectLens: %v", err)
 	}
 	// lp/mm axis: Nyquist at 0.5 cy/px / 0.006 mm = 83.3 lp/mm.
 	lp := Target(testTarget(), TargetOptions{LPMM: true})

@@ -6,6 +6,7 @@ import (
 
 	"sagitta/core/analyze"
 	"sagitta/core/field"
+	"sagitta/core/optics"
 )
 
 // TargetData is what the target plot needs of one measurement.
@@ -26,7 +27,7 @@ type TargetData struct {
 	Freq, MTF []float64
 	// MTF50 in cycles/pixel (NaN when not reached).
 	MTF50 float64
-	// PitchUM is the pixel pitch, um (for lp/mm and the diffraction limit).
+	// PitchUM is the pixel pitch, um (for lp/mm and the reference).
 	PitchUM float64
 	// FNumber is the lens's f-number for the diffraction reference; 0
 	// leaves the reference out.
@@ -39,32 +40,6 @@ type TargetOptions struct {
 	// instead of cycles/pixel (needs PitchUM).
 	LPMM bool
 }
-
-// WavelengthUM is the wavelength of the diffraction reference, um: 0.55 um,
-// green light near the peak of the eye's and the sensor's sensitivity
-// (common practice).
-const WavelengthUM = 0.55
-
-// DiffractionMTF is the MTF of a perfect lens with a circular aperture in
-// incoherent light (Goodman, Introduction to Fourier Optics, 3rd ed., ch. 6):
-//
-//	MTF(v) = (2/pi) [acos(v/vc) - (v/vc) sqrt(1 - (v/vc)^2)] for v < vc, else 0,
-//
-// with cutoff vc = 1/(lambda N). v and vc share any unit.
-func DiffractionMTF(v, vc float64) float64 {
-	if !(vc > 0) {
-		return math.NaN()
-	}
-	x := math.Abs(v) / vc
-	if x >= 1 {
-		return 0
-	}
-	return 2 / math.Pi * (math.Acos(x) - x*math.Sqrt(1-x*x))
-}
-
-// DiffractionCutoffLPMM returns vc = 1/(lambda N) in lp/mm for the
-// f-number N at WavelengthUM (f/8: 227.3 lp/mm).
-func DiffractionCutoffLPMM(fNumber float64) float64 { return 1000 / (WavelengthUM * fNumber) }
 
 // TargetFromMeasurement gathers the target plot's data from a measurement
 // of img (its pitch, and its f-number from Exif when known).
@@ -89,10 +64,10 @@ func TargetFromMeasurement(m analyze.Measurement, img *analyze.Image) TargetData
 
 // Target plots one target in three panels: its edge profile (ESF), the
 // profile's derivative (LSF) and its MTF with Nyquist (0.5 cycles/pixel)
-// and MTF50 marked, and, when the f-number is known, the diffraction limit
-// of a perfect lens at that f-number as a reference. The reference is the
-// lens alone: the pixel aperture, the sensor and any processing are not in
-// it, so a measured curve normally lies below it.
+// and MTF50 marked, and, when the f-number is known, a perfect lens at that
+// f-number on this sensor as a reference (optics.PerfectLens: diffraction
+// times the pixel aperture, the system MTF an unsharpened file can reach at
+// best), so a measured curve normally lies below it.
 func Target(t TargetData, opt TargetOptions) *Figure {
 	col := OrientationColour(t.Orientation)
 	desc := fmt.Sprintf("%s, %s, %s mm from the centre", t.Title, lower(orientationName(t.Orientation)), cell(t.HeightMM, 1))
@@ -142,16 +117,18 @@ func Target(t TargetData, opt TargetOptions) *Figure {
 	mtf.Refs = []RefLine{{Vertical: true, At: 0.5 * scale, Label: "Nyquist", Colour: ReferenceColour, Dash: nyquistDash, Width: 1.4}}
 	f.Legend = []LegendEntry{{Label: "Measured, " + lower(orientationName(t.Orientation)), Colour: col, Width: 1.8}}
 	if t.FNumber > 0 && t.PitchUM > 0 {
-		vc := DiffractionCutoffLPMM(t.FNumber) * t.PitchUM / 1000 // cycles/pixel
-		var dx, dy []float64
+		var dx, vs []float64
 		for i := 0; i <= 100; i++ {
 			v := fmax * float64(i) / 100
-			dx, dy = append(dx, v*scale), append(dy, DiffractionMTF(v, vc))
-			f.Data.Rows = append(f.Data.Rows, []string{"Diffraction limit", cell(v*scale, 4), unit, cell(dy[i], 4)})
+			dx, vs = append(dx, v*scale), append(vs, v)
 		}
-		mtf.Series = append(mtf.Series, Series{Name: fmt.Sprintf("Diffraction limit at f/%s", fnum(t.FNumber)), X: dx, Y: dy, Colour: ReferenceColour, Width: 1.4, Dash: referenceDash})
-		f.Legend = append(f.Legend, LegendEntry{Label: fmt.Sprintf("Diffraction limit, f/%s", fnum(t.FNumber)), Colour: ReferenceColour, Width: 1.4, Dash: referenceDash})
-		f.Notes = append(f.Notes, fmt.Sprintf("Diffraction limit: a perfect lens at f/%s in %s µm light, lens alone (no pixel aperture, sensor or processing).", fnum(t.FNumber), fnum(WavelengthUM)))
+		dy, _ := optics.PerfectLens(t.FNumber, t.PitchUM, optics.WavelengthUM, vs) // the one reference curve (core/optics)
+		for i := range dx {
+			f.Data.Rows = append(f.Data.Rows, []string{"Perfect lens", cell(dx[i], 4), unit, cell(dy[i], 4)})
+		}
+		mtf.Series = append(mtf.Series, Series{Name: fmt.Sprintf("Perfect lens at f/%s", fnum(t.FNumber)), X: dx, Y: dy, Colour: ReferenceColour, Width: 1.4, Dash: referenceDash})
+		f.Legend = append(f.Legend, LegendEntry{Label: fmt.Sprintf("Perfect lens, f/%s", fnum(t.FNumber)), Colour: ReferenceColour, Width: 1.4, Dash: referenceDash})
+		f.Notes = append(f.Notes, fmt.Sprintf("Perfect lens: diffraction at f/%s in %s µm light times the pixel's own area; a measured curve above it was sharpened.", fnum(t.FNumber), fnum(optics.WavelengthUM)))
 	}
 	mtf.Series = append(mtf.Series, Series{Name: "Measured MTF", X: xs, Y: t.MTF, Colour: col, Width: 1.8})
 	f.Legend = append(f.Legend, LegendEntry{Label: "Nyquist, 0.5 cycles/pixel", Colour: ReferenceColour, Width: 1.4, Dash: nyquistDash})

@@ -2,7 +2,7 @@
 // page, its styles, its scripts, the worker and the core's WebAssembly in one
 // HTML file that works opened from disk with no network.
 //
-//	pack -site site -wasm bin/sagitta.wasm -wasm-exec bin/web/wasm_exec.js -o dist/sagitta.html
+//	pack -site site -wasm bin/sagitta.wasm -demo-wasm bin/sagitta-demo.wasm -wasm-exec bin/web/wasm_exec.js -o dist/sagitta.html
 //
 // What it does to site/index.html:
 //   - the stylesheet link becomes an inline <style>;
@@ -13,7 +13,10 @@
 //     engine.js: the worker starts from a Blob URL and the core is
 //     decompressed with DecompressionStream, as no fetch is allowed;
 //   - the Content-Security-Policy becomes the single-file policy, allowing
-//     the one inline script by its SHA-256 hash (site/policy).
+//     the one inline script by its SHA-256 hash (site/policy);
+//   - the demo photo's WebAssembly (wasm/demo), base64 of its gzip, becomes
+//     one more data block, decompressed only when the user asks for the
+//     demo (engine.js).
 package main
 
 import (
@@ -35,6 +38,7 @@ import (
 func main() {
 	site := flag.String("site", "site", "directory of the page's sources")
 	wasm := flag.String("wasm", "bin/sagitta.wasm", "the core compiled to WebAssembly")
+	demoWasm := flag.String("demo-wasm", "bin/sagitta-demo.wasm", "the demo photo's simulator compiled to WebAssembly")
 	wasmExec := flag.String("wasm-exec", "bin/web/wasm_exec.js", "wasm_exec.js of the Go toolchain that built the core")
 	out := flag.String("o", "dist/sagitta.html", "output file")
 	workerScript := flag.String("worker-script", "", "instead of the page, write the served page's worker script (sagitta-worker.js) to this file")
@@ -46,7 +50,7 @@ func main() {
 		}
 		return
 	}
-	page, err := build(*site, *wasm, *wasmExec)
+	page, err := build(*site, *wasm, *demoWasm, *wasmExec)
 	if err == nil {
 		err = os.MkdirAll(filepath.Dir(*out), 0o755)
 	}
@@ -69,7 +73,7 @@ const (
 	cspMetaFmt = `<meta http-equiv="Content-Security-Policy" content="%s">`
 )
 
-func build(site, wasmPath, wasmExecPath string) ([]byte, error) {
+func build(site, wasmPath, demoWasmPath, wasmExecPath string) ([]byte, error) {
 	read := func(p string) (string, error) {
 		b, err := os.ReadFile(p)
 		return string(b), err
@@ -90,6 +94,14 @@ func build(site, wasmPath, wasmExecPath string) ([]byte, error) {
 	if err != nil {
 		return nil, err
 	}
+	demoWasm, err := os.ReadFile(demoWasmPath)
+	if err != nil {
+		return nil, err
+	}
+	demoGz, err := gzipBytes(demoWasm)
+	if err != nil {
+		return nil, err
+	}
 	app, err := joinModules(site, "app.js")
 	if err != nil {
 		return nil, err
@@ -107,7 +119,8 @@ func build(site, wasmPath, wasmExecPath string) ([]byte, error) {
 	servedMeta := fmt.Sprintf(cspMetaFmt, html.EscapeString(policy.Served))
 	singleMeta := fmt.Sprintf(cspMetaFmt, html.EscapeString(policy.SingleFile(app)))
 	data := "<script type=\"text/plain\" id=\"worker-source\">\n" + worker + "</script>\n" +
-		"<script type=\"text/plain\" id=\"core-wasm-gzip\">" + base64.StdEncoding.EncodeToString(gz) + "</script>\n"
+		"<script type=\"text/plain\" id=\"core-wasm-gzip\">" + base64.StdEncoding.EncodeToString(gz) + "</script>\n" +
+		"<script type=\"text/plain\" id=\"demo-wasm-gzip\">" + base64.StdEncoding.EncodeToString(demoGz) + "</script>\n"
 	for _, r := range []struct{ old, new string }{
 		{servedMeta, singleMeta},
 		{styleLink, "<style>\n" + css + "</style>"},

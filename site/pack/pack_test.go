@@ -107,8 +107,9 @@ func TestJoinModules(t *testing.T) {
 // exactly its one script, and the core intact.
 func TestBuildRealPage(t *testing.T) {
 	core := []byte("\x00asm stand-in core bytes")
-	tmp := writeFiles(t, map[string]string{"core.wasm": string(core), "wasm_exec.js": "globalThis.Go = class {};\n"})
-	page, err := build("..", filepath.Join(tmp, "core.wasm"), filepath.Join(tmp, "wasm_exec.js"))
+	demo := []byte("\x00asm stand-in demo bytes")
+	tmp := writeFiles(t, map[string]string{"core.wasm": string(core), "demo.wasm": string(demo), "wasm_exec.js": "globalThis.Go = class {};\n"})
+	page, err := build("..", filepath.Join(tmp, "core.wasm"), filepath.Join(tmp, "demo.wasm"), filepath.Join(tmp, "wasm_exec.js"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -123,21 +124,23 @@ func TestBuildRealPage(t *testing.T) {
 	if n := len(regexp.MustCompile(`<script[^>]*\ssrc=|<link[^>]*stylesheet`).FindAllString(html, -1)); n != 0 {
 		t.Errorf("%d external scripts or stylesheets remain", n)
 	}
-	m := regexp.MustCompile(`<script type="text/plain" id="core-wasm-gzip">([^<]*)</script>`).FindStringSubmatch(html)
-	if m == nil {
-		t.Fatal("no core block")
-	}
-	gz, err := base64.StdEncoding.DecodeString(m[1])
-	if err != nil {
-		t.Fatal(err)
-	}
-	zr, err := gzip.NewReader(bytes.NewReader(gz))
-	if err != nil {
-		t.Fatal(err)
-	}
-	got, _ := io.ReadAll(zr)
-	if !bytes.Equal(got, core) {
-		t.Errorf("core round trip: %q", got)
+	for id, want := range map[string][]byte{"core-wasm-gzip": core, "demo-wasm-gzip": demo} {
+		m := regexp.MustCompile(`<script type="text/plain" id="` + id + `">([^<]*)</script>`).FindStringSubmatch(html)
+		if m == nil {
+			t.Fatalf("no %s block", id)
+		}
+		gz, err := base64.StdEncoding.DecodeString(m[1])
+		if err != nil {
+			t.Fatal(err)
+		}
+		zr, err := gzip.NewReader(bytes.NewReader(gz))
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, _ := io.ReadAll(zr)
+		if !bytes.Equal(got, want) {
+			t.Errorf("%s round trip: %q", id, got)
+		}
 	}
 	if !strings.Contains(html, `id="worker-source">`+"\nglobalThis.Go = class {};\n") {
 		t.Errorf("the worker block does not start with wasm_exec.js")

@@ -114,8 +114,25 @@ test('a dropped photo gives the command-line tool\'s JSON and CSV, with no netwo
   await page.waitForSelector('#target-detail svg.plot');
   const plots = await page.$$eval('#target-detail figure', (fs) => fs.map((f) => f.querySelector('caption').textContent));
   assert.deepEqual(plots, ['Edge profile (ESF)', 'Line spread (LSF, the derivative)', 'Response (MTF)']);
+  // The reference comes from the core after the first drawing.
+  await page.waitForFunction(() => [...document.querySelectorAll('#target-detail figure:last-of-type .legend li')].some((l) => /perfect lens/.test(l.textContent)));
   const mtfLegend = await page.$$eval('#target-detail figure:last-of-type .legend li', (ls) => ls.map((l) => l.textContent));
   assert.ok(mtfLegend.some((t) => /perfect lens at f\/2\.8/.test(t)), 'diffraction reference at the Exif f-number: ' + mtfLegend);
+  // Its values: diffraction of a circular pupil, vc = 1/(lambda N) (J. W.
+  // Goodman, Introduction to Fourier Optics, 3rd ed., ch. 6), times a square
+  // pixel's |sinc| (G. D. Boreman, MTF in Optical and Electro-Optical
+  // Systems, ch. 2), 0.55 um light, at the photo's pitch and f-number.
+  const refRows = await page.$$eval('#target-detail figure:last-of-type table tbody tr', (trs) => trs.map((tr) => [...tr.cells].map((c) => c.textContent)));
+  const targetId = +(await page.textContent('#target-detail h3')).match(/\d+/)[0];
+  const shown = got.images[0].measurements.find((m) => m.id === targetId);
+  const vc = got.images[0].pitch_um / (0.55 * got.images[0].exif.f_number);
+  const perfect = (f) => {
+    const x = f / vc;
+    const d = x >= 1 ? 0 : (2 / Math.PI) * (Math.acos(x) - x * Math.sqrt(1 - x * x));
+    return f === 0 ? d : d * Math.abs(Math.sin(Math.PI * f) / (Math.PI * f));
+  };
+  assert.ok(refRows.length > 10 && refRows[0].length === 3, 'the MTF table has a perfect-lens column');
+  refRows.forEach((row, i) => assert.ok(Math.abs(+row[2] - perfect(shown.freq_cy_px[i])) < 1e-4, `perfect lens at ${shown.freq_cy_px[i]} cy/px: ${row[2]}, want ${perfect(shown.freq_cy_px[i])}`));
   assert.ok(mtfLegend.some((t) => /Nyquist/.test(t)));
   await shot(page.locator('#result'), '03-target-detail');
 

@@ -6,7 +6,7 @@ import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import fs from 'node:fs';
 import path from 'node:path';
-import { OUT, testPhoto, dropFiles, waitStatus, waitEngine, shot, run, useServedPage } from './helpers.mjs';
+import { OUT, testPhoto, cli, dropFiles, waitStatus, waitEngine, shot, run, useServedPage } from './helpers.mjs';
 
 const env = useServedPage();
 
@@ -34,6 +34,31 @@ test('an aperture series: compare sorted by f-number, rename, printable report',
   // design, not a fixed value).
   const corner30 = await page.$$eval('#compare-table tbody tr', (trs) => trs.map((tr) => parseFloat(tr.cells[8].textContent)));
   assert.ok(corner30[1] > corner30[0] && corner30[1] > corner30[2], `corner MTF at 30 lp/mm by aperture: ${corner30}`);
+
+  // Every number of the table is the command-line tool's (its JSON's
+  // summary.zones, astigmatism and balance), as shown to two decimals; the
+  // zone numbers follow the orientations shown.
+  const want = new Map(JSON.parse(cli(['--json'], files)).images.map((im) => [path.basename(im.file), im.summary]));
+  const order = ['series-f2.8.jpg', 'series-f5.6.jpg', 'series-f11.jpg'];
+  const near = (cell, v, what, half = 0.005) => assert.ok(v == null ? cell === 'n/a' : Math.abs(parseFloat(cell) - v) <= half + 1e-9, `${what}: page ${cell}, tool ${v}`);
+  for (const [orient, key] of [['both', 'all'], ['sagittal', 'sagittal'], ['tangential', 'tangential']]) {
+    await page.selectOption('#compare-orient', orient);
+    const cells = await page.$$eval('#compare-table tbody tr', (trs) => trs.map((tr) => [...tr.cells].map((c) => c.textContent)));
+    cells.forEach((row, i) => {
+      const s = want.get(order[i]);
+      let c = 3;
+      s.freqs_lp_mm.forEach((f, k) => s.zones.forEach((z) => near(row[c++], z[key][k], `${order[i]}, ${z.name}, ${key}, ${f} lp/mm`)));
+      const last = s.freqs_lp_mm[s.freqs_lp_mm.length - 1];
+      const a = s.astigmatism.find((x) => x.freq_lp_mm === last);
+      const gap = row[c++].match(/^([+-]\d+\.\d+) ± (<?\d+\.\d+) at (\d+\.\d) mm$/);
+      assert.ok(gap, `gap cell ${row[c - 1]}`);
+      near(gap[1], a.max_gap, 'sagittal - tangential');
+      near(gap[3], a.max_gap_height_mm, 'where', 0.05);
+      const halves = s.balance.pairs.filter((p) => ['left', 'top'].includes(p.a)).map((p) => p.by_freq.find((d) => d.freq_lp_mm === last)).filter((d) => d.notable);
+      assert.equal(row[c] === 'balanced', s.balance.verdict !== 'not enough measurements' && halves.length === 0, `balance ${row[c]}`);
+    });
+  }
+  await page.selectOption('#compare-orient', 'both');
 
   const label = page.locator('.pick li:nth-child(1) input[type=text]');
   await label.fill('wide open');

@@ -143,11 +143,15 @@ test('a new optical centre for a photo with sine stars, or a new tone, waits for
   assert.equal(await w.analyses(), 0);
   await shot(page.locator('#settings'), '31-settings-measure-again');
 
-  // A new tone as well: the bar says so.
+  // A new tone as well: the core answers with both causes' codes, and the
+  // bar says so; nothing is measured until asked.
+  const staleText = (re) => page.waitForFunction((src) => new RegExp(src).test(document.getElementById('stale-text').textContent), re.source);
   await page.selectOption('#tone', 'linear');
-  assert.match(await page.textContent('#stale-text'), /^The tone and the estimator change how photos are read and measured; sine stars/);
+  await staleText(/^The tone and the estimator change how photos are read and measured; sine stars/);
   await page.selectOption('#tone', '');
+  await staleText(/^Sine stars are measured along and across the radius from the optical centre: measure/);
   assert.doesNotMatch(await page.textContent('#stale-text'), /tone/);
+  assert.equal(await w.analyses(), 0);
 
   // Measured again, the photo has the tool's numbers for the new centre.
   await page.click('#remeasure');

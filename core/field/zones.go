@@ -1,0 +1,71 @@
+package field
+
+// Zones of image height for the comparison of photos: thirds of the
+// distance from the optical centre to the farthest corner (centre [0, 1/3),
+// mid-field [1/3, 2/3), corner [2/3, 1]).
+var zoneNames = [3]string{"centre", "mid-field", "corner"}
+
+// Zone is one third of the image height with the median MTF of the
+// measurements in it. Medians resist the odd poorly placed edge.
+type Zone struct {
+	// Name is "centre", "mid-field" or "corner".
+	Name string `json:"name"`
+	// FromMM and ToMM bound the zone's image heights, mm (FromMM included,
+	// ToMM excluded except for the corner zone).
+	FromMM float64 `json:"from_mm"`
+	ToMM   float64 `json:"to_mm"`
+	// All, Sagittal and Tangential are the median MTF at each field
+	// frequency (in Summary.FreqsLPMM's order) of every measurement in the
+	// zone, of the sagittal ones and of the tangential ones; null when
+	// there is none.
+	All        []Number `json:"all"`
+	Sagittal   []Number `json:"sagittal"`
+	Tangential []Number `json:"tangential"`
+	// N is the number of measurements behind All at each frequency.
+	N []int `json:"n"`
+}
+
+// zones sorts the points into the three zones of image height and takes
+// medians at each frequency.
+func zones(cornerMM float64, pts []Point, nf int) []Zone {
+	out := make([]Zone, 3)
+	for z := range out {
+		out[z] = Zone{Name: zoneNames[z], FromMM: cornerMM * float64(z) / 3, ToMM: cornerMM * float64(z+1) / 3,
+			All: make([]Number, nf), Sagittal: make([]Number, nf), Tangential: make([]Number, nf), N: make([]int, nf)}
+	}
+	for k := 0; k < nf; k++ {
+		var all, sag, tan [3][]float64
+		for _, p := range pts {
+			v := p.MTF[k]
+			if !finite(v) {
+				continue
+			}
+			z := zoneOf(p.HeightMM, cornerMM)
+			all[z] = append(all[z], v)
+			switch p.Orientation {
+			case Sagittal:
+				sag[z] = append(sag[z], v)
+			case Tangential:
+				tan[z] = append(tan[z], v)
+			}
+		}
+		for z := range out {
+			out[z].All[k], out[z].Sagittal[k], out[z].Tangential[k] = Number(median(all[z])), Number(median(sag[z])), Number(median(tan[z]))
+			out[z].N[k] = len(all[z])
+		}
+	}
+	return out
+}
+
+// zoneOf returns the zone (0 centre, 1 mid-field, 2 corner) of image
+// height h in a frame whose farthest corner is at cornerMM.
+func zoneOf(h, cornerMM float64) int {
+	t := h / cornerMM
+	switch {
+	case t < 1.0/3:
+		return 0
+	case t < 2.0/3:
+		return 1
+	}
+	return 2
+}
