@@ -3,7 +3,7 @@
 // frame, the photo's Exif, the settings used and the cautions.
 
 import { PhotoViewer, drawStored } from './viewer.js';
-import { plot, saveBlob, svgBlob } from './plot.js';
+import { plot, saveBlob, svgBlob, KIND_MARKER } from './plot.js';
 import { mtf50Colour, scaleGradient, SCALE_MAX_CY_PX, ORIENTATION } from './colour.js';
 import { fromCyPx, fmtFreq, fmt, fmtFNumber, fmtExposure, UNITS, NYQUIST_CY_PX, digits } from './units.js';
 import { bestPossible, WAVELENGTH_UM } from './optics.js';
@@ -342,7 +342,7 @@ function renderDetail() {
     series.push({ band: m.freq_cy_px.map((f, i) => [conv(f), m.mtf[i] - 2 * m.mtf_std_err[i], m.mtf[i] + 2 * m.mtf_std_err[i]]), colour: ORIENTATION[m.orientation] || '#1b1f24' });
   }
   const grating = m.kind === 'grating';
-  series.push({ name: `measured (${m.orientation})`, points: pts, colour: ORIENTATION[m.orientation] || '#1b1f24', width: 2, line: !grating, marker: grating ? 'circle' : null, markerSize: 4 });
+  series.push({ name: `measured (${m.orientation})`, points: pts, colour: ORIENTATION[m.orientation] || '#1b1f24', width: 2, line: !grating, marker: grating ? KIND_MARKER.grating : null, markerSize: 4 });
   if (m.kind === 'star') {
     for (const o of r.measurements.filter((x) => x.kind === 'star' && x.pattern_id === m.pattern_id && x.id !== m.id)) {
       series.push({ name: `same star, ${o.orientation}`, points: o.freq_cy_px.map((f, i) => [conv(f), o.mtf[i]]), colour: ORIENTATION[o.orientation] || '#6f767e', width: 1.2, dash: '3 2' });
@@ -354,7 +354,7 @@ function renderDetail() {
       const f = (fmax * i) / 200;
       ref.push([conv(f), bestPossible(f, current.refF, r.pitch_um)]);
     }
-    series.push({ name: `perfect lens at ${fmtFNumber(current.refF)}: diffraction (${WAVELENGTH_UM * 1000} nm) and pixel area`, points: ref, colour: '#6f767e', width: 1.3, dash: '6 4' });
+    series.push({ name: `a perfect lens at ${fmtFNumber(current.refF)}: diffraction (${WAVELENGTH_UM * 1000} nm) × pixel area`, points: ref, colour: '#555555', width: 1.4, dash: '6 4' });
   }
   const ymax = Math.max(1.05, ...m.mtf.filter(Number.isFinite));
   const table = { columns: [`frequency (${UNITS[units].label})`, 'MTF measured'].concat(current.refF ? ['perfect lens'] : []), rows: [] };
@@ -368,7 +368,7 @@ function renderDetail() {
   detail.append(plot({
     title: 'Response (MTF)', xLabel: `spatial frequency (${UNITS[units].label})`, yLabel: 'MTF',
     xDomain: [0, conv(fmax)], yDomain: [0, ymax],
-    series, vlines: [{ x: conv(NYQUIST_CY_PX), label: 'Nyquist', colour: '#1b1f24', legend: 'Nyquist frequency (half the sampling rate)' }, ...measured],
+    series, vlines: [{ x: conv(NYQUIST_CY_PX), label: 'Nyquist', colour: '#1f6f8b', legend: 'Nyquist frequency (half the sampling rate)' }, ...measured],
     table, width: 460, height: 260, fileName: `edge-${m.id}-mtf`,
   }));
   if (current.refF && pts.some((p, i) => p[1] > bestPossible(m.freq_cy_px[i], current.refF, r.pitch_um) + 0.05)) {
@@ -429,39 +429,42 @@ function renderFrame() {
   const grid = el('div', { class: 'frame-grid' });
   frame.append(grid);
 
+  // One small plot per field frequency (the same axes), colour by
+  // orientation, one marker shape per kind of target, as in the core's plots.
   const freqs = r.freqs_lp_mm;
-  const series = [];
-  const table = { columns: ['target', 'kind', 'orientation', 'height (mm)'].concat(freqs.map((f) => `MTF at ${f} lp/mm`)), rows: [] };
-  for (const o of ['sagittal', 'tangential', 'mixed']) {
-    for (const kind of ['edge', 'star', 'grating']) {
-      const sel = ms.filter((m) => m.orientation === o && m.kind === kind);
-      if (!sel.length) continue;
-      freqs.forEach((f, i) => {
-        series.push({
-          name: `${o}, ${f} lp/mm${kind === 'edge' ? '' : ` (${kind}s)`}`,
-          points: sel.map((m) => [m.height_mm, m.mtf_at_freqs[i]]),
-          colour: ORIENTATION[o], line: false, marker: kind === 'edge' ? (i === 0 ? 'circle' : 'square') : kind === 'star' ? 'triangle' : 'diamond',
-          markerSize: i === 0 ? 4 : 2.6,
-        });
-      });
-    }
-  }
+  const table = { columns: ['target', 'kind', 'orientation', 'distance from the optical centre (mm)'].concat(freqs.map((f) => `MTF at ${f} lp/mm`)), rows: [] };
   for (const m of ms) table.rows.push([m.id, m.kind, m.orientation, m.height_mm, ...m.mtf_at_freqs]);
-  grid.append(plot({
-    title: `MTF at ${freqs.join(' and ')} lp/mm`, xLabel: 'distance from the optical centre (mm)', yLabel: 'MTF',
-    xDomain: [0, Math.max(r.corner_mm, 1)], yDomain: [0, Math.max(1, ...ms.flatMap((m) => m.mtf_at_freqs).filter(Number.isFinite))],
-    series, table, width: 560, height: 320, fileName: 'field-mtf',
-  }));
+  const ymax = Math.max(1, ...ms.flatMap((m) => m.mtf_at_freqs).filter(Number.isFinite));
+  freqs.forEach((f, i) => {
+    const series = [];
+    for (const o of ['sagittal', 'tangential', 'mixed']) {
+      for (const kind of ['edge', 'star', 'grating']) {
+        const sel = ms.filter((m) => m.orientation === o && m.kind === kind);
+        if (!sel.length) continue;
+        series.push({
+          name: `${o} ${kind}s`, points: sel.map((m) => [m.height_mm, m.mtf_at_freqs[i]]),
+          colour: ORIENTATION[o], line: false, marker: KIND_MARKER[kind], markerSize: 3.2,
+        });
+      }
+    }
+    grid.append(plot({
+      title: `MTF at ${f} lp/mm`, xLabel: 'distance from the optical centre (mm)', yLabel: 'MTF',
+      xDomain: [0, Math.max(r.corner_mm, 1)], yDomain: [0, ymax],
+      series, table: i === 0 ? table : { columns: table.columns, rows: [] }, width: 460, height: 300, fileName: `field-mtf-${f}lpmm`,
+    }));
+  });
   const s50 = [];
   for (const o of ['sagittal', 'tangential', 'mixed']) {
-    const sel = ms.filter((m) => m.orientation === o && Number.isFinite(m.mtf50_cy_px));
-    if (sel.length) s50.push({ name: `${o}`, points: sel.map((m) => [m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]), colour: ORIENTATION[o], line: false, marker: 'circle', markerSize: 3.4 });
+    for (const kind of ['edge', 'star', 'grating']) {
+      const sel = ms.filter((m) => m.orientation === o && m.kind === kind && Number.isFinite(m.mtf50_cy_px));
+      if (sel.length) s50.push({ name: `${o} ${kind}s`, points: sel.map((m) => [m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]), colour: ORIENTATION[o], line: false, marker: KIND_MARKER[kind], markerSize: 3.2 });
+    }
   }
   const yMax = fromCyPx(NYQUIST_CY_PX, units, r);
   grid.append(plot({
     title: 'MTF50 across the frame', xLabel: 'distance from the optical centre (mm)', yLabel: `MTF50 (${UNITS[units].label})`,
     xDomain: [0, Math.max(r.corner_mm, 1)], yDomain: [0, yMax], series: s50,
-    table: { columns: ['target', 'orientation', 'height (mm)', `MTF50 (${UNITS[units].label})`], rows: ms.map((m) => [m.id, m.orientation, m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]) },
+    table: { columns: ['target', 'orientation', 'distance from the optical centre (mm)', `MTF50 (${UNITS[units].label})`], rows: ms.map((m) => [m.id, m.orientation, m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]) },
     width: 560, height: 320, fileName: 'field-mtf50',
   }));
 }

@@ -4,7 +4,7 @@
 // units shown, and the verdict cards (balance, astigmatism) with their
 // cautions. Words first, numbers second.
 
-import { plot } from './plot.js';
+import { plot, KIND_MARKER } from './plot.js';
 import { coreFigure } from './corefig.js';
 import { ORIENTATION } from './colour.js';
 import { fromCyPx, UNITS, NYQUIST_CY_PX } from './units.js';
@@ -42,7 +42,7 @@ export function renderSummary(box, r, units, pool, label) {
     const colour = ORIENTATION[o];
     for (const kind of ['edge', 'star', 'grating']) {
       const pts = ms.filter((m) => m.orientation === o && m.kind === kind).map((m) => [m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]);
-      if (pts.length) s50.push({ name: `${o} ${kind}s`, points: pts, colour, line: false, marker: { edge: 'circle', star: 'triangle' }[kind] || 'diamond', markerSize: kind === 'edge' ? 2.2 : 3.4, legend: false });
+      if (pts.length) s50.push({ name: `${o} ${kind}s`, points: pts, colour, line: false, marker: KIND_MARKER[kind], markerSize: kind === 'edge' ? 2.2 : 3.4, legend: false });
     }
     const c = s.mtf50_curves.find((c) => c.orientation === o);
     if (!c) continue;
@@ -53,7 +53,7 @@ export function renderSummary(box, r, units, pool, label) {
   grid.append(plot({
     title: 'MTF50 across the frame', xLabel: 'distance from the optical centre (mm)', yLabel: `MTF50 (${UNITS[units].label})`,
     xDomain: [0, xmax], yDomain: [0, fromCyPx(NYQUIST_CY_PX, units, r)], series: s50, width: 560, height: 340, fileName: 'field-mtf50',
-    table: { columns: ['orientation', 'height (mm)', `MTF50 (${UNITS[units].label})`], rows: rows50 },
+    table: { columns: ['orientation', 'distance from the optical centre (mm)', `MTF50 (${UNITS[units].label})`], rows: rows50 },
   }));
 
   // Verdict cards.
