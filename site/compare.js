@@ -144,7 +144,7 @@ export function renderCompare(root, state) {
     tr.insertCell().textContent = r.summary ? summaryBalanceWords(r.summary, freqs[last]) : balanceWords(balance(r, last));
   }
   main.append(table);
-  main.append(el('p', { class: 'hint' }, 'Each number is the median over the targets in a third of the distance from the centre to the corner. ' +
+  main.append(el('p', { class: 'hint' }, 'Each number is the median over the targets in a third of the way from the optical centre to the corner. ' +
     'A positive sagittal − tangential difference means detail across the radius is held better than along it (astigmatism); ± one standard error. ' +
     'Balance compares the halves of the frame outside the centre. Differences of a few hundredths are within what refocusing and re-shooting change.'));
 }

@@ -94,8 +94,8 @@ export function renderResult(sec, p, state, display) {
   left.append(targetTable(r, state.units));
   if (r.rejected.length) left.append(setAsideList(r, viewer));
   const map = mapFigure(r, display);
-  const saveMap = el('button', { type: 'button', class: 'link' }, 'Save the sharpness map (SVG)');
-  saveMap.onclick = () => saveBlob(svgBlob(map.querySelector('svg')), 'sharpness-map.svg');
+  const saveMap = el('button', { type: 'button', class: 'link' }, 'Save the targets on the photo (SVG)');
+  saveMap.onclick = () => saveBlob(svgBlob(map.querySelector('svg')), 'targets-on-the-photo.svg');
   left.append(saveMap, map);
   renderKey(key, r, state.units);
   renderDetail();
@@ -130,7 +130,7 @@ function kindWord(m) {
 }
 
 function targetLabel(m, r, units) {
-  let s = `${kindWord(m)} ${m.id}: ${m.orientation}, ${fmt(m.height_mm, 1)} mm from the centre, MTF50 ${fmtFreq(m.mtf50_cy_px, units, r)}`;
+  let s = `${kindWord(m)} ${m.id}: ${m.orientation}, ${fmt(m.height_mm, 1)} mm from the optical centre, MTF50 ${fmtFreq(m.mtf50_cy_px, units, r)}`;
   if (m.warnings.length) s += ` (${m.warnings.join('; ')})`;
   return s;
 }
@@ -139,7 +139,7 @@ let mapURL = null;
 
 /**
  * mapFigure is a still picture of the photo with its targets filled by
- * MTF50 (the sharpness map), in the photo's own coordinates: shown in the
+ * MTF50 ("targets on the photo"; the interpolated MTF50 map is the core's), in the photo's own coordinates: shown in the
  * printed report, and offered as an SVG file.
  */
 function mapFigure(r, display) {
@@ -151,7 +151,7 @@ function mapFigure(r, display) {
   svg.setAttribute('width', 720);
   svg.setAttribute('height', Math.round((720 * r.height) / r.width));
   svg.setAttribute('role', 'img');
-  svg.setAttribute('aria-label', 'Sharpness map: the photo with each measured target filled by its MTF50');
+  svg.setAttribute('aria-label', 'Targets on the photo: each measured target filled by its MTF50');
   if (mapURL) URL.revokeObjectURL(mapURL);
   mapURL = null;
   const bg = document.createElementNS(NS, 'rect');
@@ -186,7 +186,7 @@ function mapFigure(r, display) {
     svg.append(poly);
   }
   fig.append(svg);
-  fig.append(el('figcaption', { class: 'hint' }, 'Sharpness map: each measured target filled by its MTF50 on the scale above.'));
+  fig.append(el('figcaption', { class: 'hint' }, 'Targets on the photo: each measured target filled by its MTF50 on the scale above.'));
   return fig;
 }
 
@@ -222,9 +222,9 @@ function targetTable(r, units) {
   const det = el('details', { class: 'data-table targets-table' });
   det.append(el('summary', {}, `All ${r.measurements.length} targets as a table`));
   const t = el('table');
-  t.append(el('caption', {}, 'Measured targets, nearest the centre first'));
+  t.append(el('caption', {}, 'Measured targets, nearest the optical centre first'));
   const hr = t.createTHead().insertRow();
-  const cols = ['target', 'x, y (px)', 'from centre (mm)', 'orientation', `MTF50 (${UNITS[units].label})`, ...r.freqs_lp_mm.map((f) => `MTF at ${f} lp/mm`), 'notes'];
+  const cols = ['target', 'x, y (px)', 'distance from the optical centre (mm)', 'orientation', `MTF50 (${UNITS[units].label})`, ...r.freqs_lp_mm.map((f) => `MTF at ${f} lp/mm`), 'notes'];
   for (const c of cols) hr.append(el('th', { scope: 'col' }, c));
   const tb = t.createTBody();
   for (const m of r.measurements) {
@@ -247,6 +247,7 @@ function targetTable(r, units) {
 function setAsideList(r, viewer) {
   const det = el('details', { class: 'setaside' });
   det.append(el('summary', {}, `${r.rejected.length} candidate${r.rejected.length === 1 ? '' : 's'} set aside, and why`));
+  det.append(el('p', { class: 'hint' }, 'Set aside: edges found in the photo but not measured, each with its reason (the JSON calls them "rejected").'));
   const ul = el('ul');
   r.rejected.forEach((c, i) => {
     const li = el('li');
@@ -278,7 +279,7 @@ function renderDetail() {
       : 'No target was measured in this photo.'));
     if (r.measurements.length) {
       const best = [...r.measurements].sort((a, b) => a.height_mm - b.height_mm)[0];
-      const b = el('button', { type: 'button', class: 'button small' }, `Show the target nearest the centre (${kindWord(best).toLowerCase()} ${best.id})`);
+      const b = el('button', { type: 'button', class: 'button small' }, `Show the target nearest the optical centre (${kindWord(best).toLowerCase()} ${best.id})`);
       b.onclick = () => selectTarget(best.id);
       detail.append(b);
     }
@@ -292,11 +293,12 @@ function renderDetail() {
   const dl = el('dl');
   const row = (k, v) => dl.append(el('dt', {}, k), el('dd', {}, v));
   row('Position', `${fmt(m.x_px, 1)}, ${fmt(m.y_px, 1)} px`);
-  row('From the centre', `${fmt(m.height_mm, 2)} mm (${Math.round((100 * m.height_mm) / r.corner_mm)} % of the way to a corner)`);
+  row('Distance from the optical centre', `${fmt(m.height_mm, 2)} mm (${Math.round((100 * m.height_mm) / r.corner_mm)} % of the way to a corner)`);
   row('Orientation', `${m.orientation}: measured ${fmt(m.radius_angle_deg, 0)}° from the radius`);
   row('MTF50', fmtFreq(m.mtf50_cy_px, units, r));
   row('MTF50P', fmtFreq(m.mtf50p_cy_px, units, r));
-  r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, fmt(m.mtf_at_freqs[i], 3)));
+  r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, Number.isFinite(m.mtf_at_freqs[i]) || !m.measured_cy_px ? fmt(m.mtf_at_freqs[i], 3)
+    : `n/a: beyond the frequencies this ${m.kind === 'star' ? 'star' : 'set of gratings'} measured (${fmtFreq(m.measured_cy_px[0], 'lpmm', r, false)}–${fmtFreq(m.measured_cy_px[1], 'lpmm', r)})`));
   row('MTF at Nyquist', fmt(m.mtf_nyquist, 3));
   if (m.kind === 'edge') {
     row('Edge', `${fmt(m.length_px, 0)} px long, slanted ${fmt(m.slant_deg, 1)}°, contrast ${fmt(m.contrast, 1)}:1` + (Number.isFinite(m.snr) ? `, signal/noise ${fmt(m.snr, 0)}` : ''));
@@ -421,7 +423,7 @@ function renderFrame() {
     return;
   }
   frame.append(el('p', { class: 'hint' }, 'Each mark is one measured target, at its distance from the optical centre. ' +
-    'Sagittal targets are measured across the radius from the centre, tangential ones along it.'));
+    'Sagittal targets are measured across the radius from the optical centre, tangential ones along it.'));
   if (r.summary) {
     renderSummary(frame, r, units, state.pool, labelOf(current.p));
     return;

@@ -83,11 +83,11 @@ func testFigures(t testing.TB) map[string]*Figure {
 	s := testSummary(t, 6000, 4000, 6, 60, 1, 0)
 	s2 := testSummary(t, 6000, 4000, 6, 60, 2, 0.02)
 	return map[string]*Figure{
-		"field-curves":  FieldCurves(s, FieldOptions{Label: "sample.png", Band: true}),
-		"compare":       Compare([]Photo{{"f/2.8", s}, {"f/5.6", s2}}, CompareOptions{}),
-		"sharpness-map": Map(s, MapOptions{Label: "sample.png"}),
-		"astigmatism":   Astigmatism(s, FieldOptions{Band: true}),
-		"target":        Target(testTarget(), TargetOptions{}),
+		"field-curves": FieldCurves(s, FieldOptions{Label: "sample.png", Band: true}),
+		"compare":      Compare([]Photo{{"f/2.8", s}, {"f/5.6", s2}}, CompareOptions{}),
+		"mtf50-map":    Map(s, MapOptions{Label: "sample.png"}),
+		"astigmatism":  Astigmatism(s, FieldOptions{Band: true}),
+		"target":       Target(testTarget(), TargetOptions{}),
 	}
 }
 

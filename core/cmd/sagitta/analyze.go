@@ -142,7 +142,8 @@ func writeText(w io.Writer, res analyze.Result) error {
 				a.RMSDiff, a.LoCyPx, a.HiCyPx, a.MeanDiff)
 		}
 		if len(img.Measurements) > 0 {
-			fmt.Fprintf(w, "%4s %-7s %8s %8s %9s %-10s %11s %11s", "id", "kind", "x px", "y px", "height mm", "orient.", "MTF50 cy/px", "MTF50 lp/mm")
+			fmt.Fprintln(w, "columns: dist. mm = distance from the optical centre (mm); orient. = orientation; @F lp/mm = MTF at F lp/mm")
+			fmt.Fprintf(w, "%4s %-7s %8s %8s %9s %-10s %11s %11s", "id", "kind", "x px", "y px", "dist. mm", "orient.", "MTF50 cy/px", "MTF50 lp/mm")
 			for _, f := range img.FreqsLPMM {
 				fmt.Fprintf(w, " %9s", "@"+num(f)+" lp/mm")
 			}
@@ -153,7 +154,7 @@ func writeText(w io.Writer, res analyze.Result) error {
 				for _, v := range m.MTFAtFreqs {
 					fmt.Fprintf(w, " %9s", fix(float64(v), 3))
 				}
-				fmt.Fprintf(w, "  %s\n", strings.Join(m.Warnings, "; "))
+				fmt.Fprintf(w, "  %s\n", strings.Join(append(beyondNotes(m, img), m.Warnings...), "; "))
 			}
 		}
 		for _, warn := range img.Warnings {
@@ -162,6 +163,31 @@ func writeText(w io.Writer, res analyze.Result) error {
 		fmt.Fprintln(w)
 	}
 	return nil
+}
+
+// beyondNotes says why a star's or gratings' MTF at a field frequency is
+// n/a: the frequency lies outside those the pattern measured.
+func beyondNotes(m analyze.Measurement, img *analyze.Image) []string {
+	if m.MeasuredCyPx == nil || !(img.PitchUM > 0) {
+		return nil
+	}
+	var out []string
+	for i, v := range m.MTFAtFreqs {
+		if !math.IsNaN(float64(v)) || i >= len(img.FreqsLPMM) {
+			continue
+		}
+		lo, hi := m.MeasuredCyPx[0]*1000/img.PitchUM, m.MeasuredCyPx[1]*1000/img.PitchUM
+		out = append(out, fmt.Sprintf("n/a at %s lp/mm: beyond the frequencies this %s measured (%.0f-%.0f lp/mm)", num(img.FreqsLPMM[i]), kindNoun(m.Kind), lo, hi))
+	}
+	return out
+}
+
+// kindNoun names a kind of target in a sentence.
+func kindNoun(kind string) string {
+	if kind == "grating" {
+		return "set of gratings"
+	}
+	return kind
 }
 
 func num(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
