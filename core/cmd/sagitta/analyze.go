@@ -14,6 +14,7 @@ import (
 	"strings"
 
 	"sagitta/core/analyze"
+	"sagitta/core/plan"
 )
 
 // errHelp is returned after a command printed its own help.
@@ -24,7 +25,7 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 	fs.SetOutput(stdout)
 	var (
 		s        analyze.Settings
-		sensor   = fs.String("sensor", "", "sensor size in mm, WxH (e.g. 36x24); sets the pitch from the image width")
+		sensor   = fs.String("sensor", "", "sensor size in mm as WxH (e.g. 36x24), or "+plan.SensorNames()+"; sets the pitch from the image width")
 		center   = fs.String("center", "", "optical centre in px, X,Y (default: the image centre)")
 		freqs    = fs.String("freqs", "", "field frequencies in lp/mm, comma separated (default 10,30)")
 		asJSON   = fs.Bool("json", false, "print the results as JSON")
@@ -38,7 +39,7 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 	fs.StringVar(&s.Method, "method", "", "edge estimator: refined (default) or iso (the published ISO 12233 procedure)")
 	fs.Usage = func() {
 		fmt.Fprintln(stdout, "usage: sagitta analyze [options] PHOTO...")
-		fs.PrintDefaults()
+		printOptions(fs, stdout)
 	}
 	if err := parseFlags(fs, args); err != nil {
 		return err
@@ -51,8 +52,8 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 	}
 	var err error
 	if *sensor != "" {
-		if s.SensorMM, err = pair(*sensor, "x"); err != nil {
-			return fmt.Errorf("%w: --sensor: %v", errUsage, err)
+		if s.SensorMM, err = plan.ParseSensor(*sensor); err != nil {
+			return fmt.Errorf("%w: --sensor: %v", errUsage, strings.TrimPrefix(err.Error(), "plan: "))
 		}
 	}
 	if *center != "" {
