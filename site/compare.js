@@ -4,6 +4,7 @@
 // f-number then focal length. Labels come from Exif; the user can rename.
 
 import { coreFigure } from './corefig.js';
+import { explainBox } from './explain.js';
 import { PHOTO } from './colour.js';
 import { fmtFNumber, fmt } from './units.js';
 import { ZONES, zoneMedians, gap, balance } from './zones.js';
@@ -147,6 +148,7 @@ export function renderCompare(root, state) {
   main.append(el('p', { class: 'hint' }, 'Each number is the median over the targets in a third of the way from the optical centre to the corner. ' +
     'A positive sagittal − tangential difference means detail across the radius is held better than along it (astigmatism); ± one standard error. ' +
     'Balance compares the halves of the frame outside the centre. Differences of a few hundredths are within what refocusing and re-shooting change.'));
+  main.append(explainBox(['sagittal', 'tangential', 'standard error']));
 }
 
 // gapWords gives the sagittal - tangential difference: the core's largest

@@ -10,6 +10,7 @@ import { bestPossible, WAVELENGTH_UM } from './optics.js';
 import { settingsSummary } from './settings.js';
 import { labelOf } from './compare.js';
 import { renderSummary } from './summary.js';
+import { explainBox, titled } from './explain.js';
 
 /** outcome says in one line what came of a photo. */
 export function outcome(r) {
@@ -247,7 +248,7 @@ function targetTable(r, units) {
 function setAsideList(r, viewer) {
   const det = el('details', { class: 'setaside' });
   det.append(el('summary', {}, `${r.rejected.length} candidate${r.rejected.length === 1 ? '' : 's'} set aside, and why`));
-  det.append(el('p', { class: 'hint' }, 'Set aside: edges found in the photo but not measured, each with its reason (the JSON calls them "rejected").'));
+  det.append(el('p', { class: 'hint' }, 'Edges found in the photo but not measured are set aside (the JSON calls them "rejected"), each with its reason.'));
   const ul = el('ul');
   r.rejected.forEach((c, i) => {
     const li = el('li');
@@ -291,15 +292,15 @@ function renderDetail() {
   title.append(chip);
   detail.append(title);
   const dl = el('dl');
-  const row = (k, v) => dl.append(el('dt', {}, k), el('dd', {}, v));
+  const row = (k, v, term) => dl.append(titled(el('dt', {}, k), term), el('dd', {}, v));
   row('Position', `${fmt(m.x_px, 1)}, ${fmt(m.y_px, 1)} px`);
   row('Distance from the optical centre', `${fmt(m.height_mm, 2)} mm (${Math.round((100 * m.height_mm) / r.corner_mm)} % of the way to a corner)`);
   row('Orientation', `${m.orientation}: measured ${fmt(m.radius_angle_deg, 0)}° from the radius`);
-  row('MTF50', fmtFreq(m.mtf50_cy_px, units, r));
-  row('MTF50P', fmtFreq(m.mtf50p_cy_px, units, r));
+  row('MTF50', fmtFreq(m.mtf50_cy_px, units, r), 'MTF50');
+  row('MTF50P', fmtFreq(m.mtf50p_cy_px, units, r), 'MTF50P');
   r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, Number.isFinite(m.mtf_at_freqs[i]) || !m.measured_cy_px ? fmt(m.mtf_at_freqs[i], 3)
     : `n/a: beyond the frequencies this ${m.kind === 'star' ? 'star' : 'set of gratings'} measured (${fmtFreq(m.measured_cy_px[0], 'lpmm', r, false)}–${fmtFreq(m.measured_cy_px[1], 'lpmm', r)})`));
-  row('MTF at Nyquist', fmt(m.mtf_nyquist, 3));
+  row('MTF at Nyquist', fmt(m.mtf_nyquist, 3), 'Nyquist');
   if (m.kind === 'edge') {
     row('Edge', `${fmt(m.length_px, 0)} px long, slanted ${fmt(m.slant_deg, 1)}°, contrast ${fmt(m.contrast, 1)}:1` + (Number.isFinite(m.snr) ? `, signal/noise ${fmt(m.snr, 0)}` : ''));
   } else {
@@ -373,6 +374,7 @@ function renderDetail() {
     series, vlines: [{ x: conv(NYQUIST_CY_PX), label: 'Nyquist', colour: '#1f6f8b', legend: 'Nyquist frequency (half the sampling rate)' }, ...measured],
     table, width: 460, height: 260, fileName: `edge-${m.id}-mtf`,
   }));
+  detail.append(explainBox(['MTF', 'MTF50', 'MTF50P', 'Nyquist', units === 'cypx' ? 'cy/px' : 'lp/mm', 'perfect lens']));
   if (current.refF && pts.some((p, i) => p[1] > bestPossible(m.freq_cy_px[i], current.refF, r.pitch_um) + 0.05)) {
     detail.append(el('p', { class: 'notes' }, 'This edge responds above what a perfect lens could give at this f-number: the file was sharpened (in the camera or later), or the f-number is wrong. Sharpened files overstate the lens.'));
   }
