@@ -172,15 +172,21 @@ func beyondNotes(m analyze.Measurement, img *analyze.Image) []string {
 	if m.MeasuredCyPx == nil || !(img.PitchUM > 0) {
 		return nil
 	}
-	var out []string
+	var beyond []float64
 	for i, v := range m.MTFAtFreqs {
-		if !math.IsNaN(float64(v)) || i >= len(img.FreqsLPMM) {
-			continue
+		if math.IsNaN(float64(v)) && i < len(img.FreqsLPMM) {
+			beyond = append(beyond, img.FreqsLPMM[i])
 		}
-		lo, hi := m.MeasuredCyPx[0]*1000/img.PitchUM, m.MeasuredCyPx[1]*1000/img.PitchUM
-		out = append(out, fmt.Sprintf("n/a at %s lp/mm: beyond the frequencies this %s measured (%.0f-%.0f lp/mm)", num(img.FreqsLPMM[i]), kindNoun(m.Kind), lo, hi))
 	}
-	return out
+	if len(beyond) == 0 {
+		return nil
+	}
+	at := make([]string, len(beyond))
+	for i, f := range beyond {
+		at[i] = num(f)
+	}
+	lo, hi := m.MeasuredCyPx[0]*1000/img.PitchUM, m.MeasuredCyPx[1]*1000/img.PitchUM
+	return []string{fmt.Sprintf("n/a at %s lp/mm: beyond the frequencies this %s measured (%.0f-%.0f lp/mm)", strings.Join(at, " and "), kindNoun(m.Kind), lo, hi)}
 }
 
 // kindNoun names a kind of target in a sentence.
