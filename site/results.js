@@ -348,7 +348,7 @@ function renderDetail() {
   series.push({ name: `measured (${m.orientation})`, points: pts, colour: ORIENTATION[m.orientation] || '#1b1f24', width: 2, line: !grating, marker: grating ? KIND_MARKER.grating : null, markerSize: 4 });
   if (m.kind === 'star') {
     for (const o of r.measurements.filter((x) => x.kind === 'star' && x.pattern_id === m.pattern_id && x.id !== m.id)) {
-      series.push({ name: `same star, ${o.orientation}`, points: o.freq_cy_px.map((f, i) => [conv(f), o.mtf[i]]), colour: ORIENTATION[o.orientation] || '#6f767e', width: 1.2, dash: '3 2' });
+      series.push({ name: `same star, ${o.orientation}`, points: o.freq_cy_px.map((f, i) => [conv(f), o.mtf[i]]), colour: ORIENTATION[o.orientation] || '#6f767e', width: 1.4 });
     }
   }
   const ref = [];

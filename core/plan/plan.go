@@ -320,15 +320,25 @@ func nearestAspect(s [2]float64) string {
 	return name
 }
 
+// SensorByName returns the size (mm) of the named format of Sensors, any
+// case, spaces around ignored.
+func SensorByName(name string) ([2]float64, bool) {
+	key := strings.ToLower(strings.TrimSpace(name))
+	for _, f := range Sensors {
+		if key == f.Name {
+			return [2]float64{f.WMM, f.HMM}, true
+		}
+	}
+	return [2]float64{}, false
+}
+
 // ParseSensor reads a sensor size: "WxH" in mm (each side 1 to 200 mm) or
 // a name from Sensors.
 func ParseSensor(s string) ([2]float64, error) {
-	key := strings.ToLower(strings.TrimSpace(s))
-	for _, f := range Sensors {
-		if key == f.Name {
-			return [2]float64{f.WMM, f.HMM}, nil
-		}
+	if v, ok := SensorByName(s); ok {
+		return v, nil
 	}
+	key := strings.ToLower(strings.TrimSpace(s))
 	parts := strings.Split(strings.ReplaceAll(key, " ", ""), "x")
 	if len(parts) == 2 {
 		w, e1 := strconv.ParseFloat(parts[0], 64)

@@ -52,8 +52,11 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 	}
 	var err error
 	if *sensor != "" {
-		if s.SensorMM, err = plan.ParseSensor(*sensor); err != nil {
-			return fmt.Errorf("%w: --sensor: %v", errUsage, strings.TrimPrefix(err.Error(), "plan: "))
+		var ok bool
+		if s.SensorMM, ok = plan.SensorByName(*sensor); !ok {
+			if s.SensorMM, err = pair(*sensor, "x"); err != nil {
+				return fmt.Errorf("%w: --sensor: %v, nor one of %s", errUsage, err, plan.SensorNames())
+			}
 		}
 	}
 	if *center != "" {
