@@ -6,11 +6,16 @@ import (
 	"encoding/json"
 	"encoding/xml"
 	"fmt"
+	"go/ast"
+	"go/parser"
+	"go/token"
 	"io"
+	"io/fs"
 	"math"
 	"os"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -66,8 +71,9 @@ type label struct{ where, text string }
 
 // TestGlossary collects every user-visible label - the CLI's help and text
 // output, the CSV header, the JSON's texts, the titles, axes, legends and
-// notes of the plots written by --plots for simulated photos, the strings
-// of the page (site/*.js string literals and site/index.html) and README -
+// notes of the plots written by --plots for simulated photos, every string
+// literal of the Go code (messages not triggered here), the strings of the
+// page (site/*.js string literals and site/index.html) and README -
 // and fails when one of them uses a variant the glossary forbids.
 func TestGlossary(t *testing.T) {
 	gl := readGlossary(t)
@@ -123,6 +129,14 @@ func TestGlossary(t *testing.T) {
 		}
 		for _, s := range svgTexts(t, b) {
 			add("plot "+filepath.Base(p), s)
+		}
+	}
+
+	// Every string literal of the core and the wasm glue (messages and
+	// warnings the simulated photos did not trigger), struct tags aside.
+	for _, root := range []string{filepath.Join("..", ".."), filepath.Join("..", "..", "..", "wasm")} {
+		for _, l := range goStrings(t, root) {
+			labels = append(labels, l)
 		}
 	}
 
@@ -322,6 +336,42 @@ func jsStrings(src string) []string {
 			}
 			out = append(out, b.String())
 		}
+	}
+	return out
+}
+
+// goStrings returns the string literals of the non-test Go files under
+// root, without struct tags.
+func goStrings(t *testing.T, root string) []label {
+	var out []label
+	err := filepath.WalkDir(root, func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() || !strings.HasSuffix(p, ".go") || strings.HasSuffix(p, "_test.go") {
+			return err
+		}
+		fset := token.NewFileSet()
+		f, err := parser.ParseFile(fset, p, nil, parser.SkipObjectResolution)
+		if err != nil {
+			return err
+		}
+		tags := map[*ast.BasicLit]bool{}
+		ast.Inspect(f, func(n ast.Node) bool {
+			if fd, ok := n.(*ast.Field); ok && fd.Tag != nil {
+				tags[fd.Tag] = true
+			}
+			if bl, ok := n.(*ast.BasicLit); ok && bl.Kind == token.STRING && !tags[bl] {
+				if v, err := strconv.Unquote(bl.Value); err == nil {
+					out = append(out, label{fset.Position(bl.Pos()).String(), v})
+				}
+			}
+			return true
+		})
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(out) < 50 {
+		t.Fatalf("only %d Go strings found under %s", len(out), root)
 	}
 	return out
 }
