@@ -203,7 +203,7 @@ function blankCanvas(w, h) {
 
 function renderKey(key, r, units) {
   key.replaceChildren();
-  key.append(el('span', {}, `MTF50 (${UNITS[units].label})`));
+  key.append(titled(el('span', {}, `MTF50 (${UNITS[units].label})`), 'MTF50'));
   const bar = el('div', { class: 'key-bar' });
   bar.style.background = scaleGradient();
   key.append(bar);
