@@ -1,14 +1,16 @@
-// The Compare place: ticked photos' field curves overlaid (one colour per
-// photo) and a table of key numbers per photo, sorted by f-number then
-// focal length. Labels come from Exif; the user can rename.
+// The Compare place: ticked photos' field curves, drawn by the core
+// (core/plot Compare: one small panel per field frequency and orientation,
+// one colour per photo), and a table of key numbers per photo, sorted by
+// f-number then focal length. Labels come from Exif; the user can rename.
 
-import { plot } from './plot.js';
+import { coreFigure } from './corefig.js';
+import { explainBox } from './explain.js';
 import { PHOTO } from './colour.js';
 import { fmtFNumber, fmt } from './units.js';
 import { el } from './dom.js';
 
 // Choices kept between visits.
-const view = { fi: 1, orient: 'both', unticked: new Set() };
+const view = { unticked: new Set() };
 
 /** defaultLabel names a photo from its Exif, else by its file name. */
 function defaultLabel(p) {
@@ -47,7 +49,8 @@ export function renderCompare(root, state) {
     root.append(el('p', { class: 'empty' }, 'Measure some photos first (in Measure); they can be compared here: an aperture series, two copies of a lens, two zoom settings.'));
     return;
   }
-  const colours = new Map(done.map((p, i) => [p.key, PHOTO[i % PHOTO.length]]));
+  // Colours follow the ticked photos in order, as the core's figure does.
+  const colours = new Map(done.filter((p) => !view.unticked.has(p.key)).map((p, i) => [p.key, PHOTO[i % PHOTO.length]]));
   const grid = el('div', { class: 'compare-grid' });
   root.append(grid);
 
@@ -66,7 +69,7 @@ export function renderCompare(root, state) {
       renderCompare(root, state);
     });
     const sw = el('span', { class: 'swatch', 'aria-hidden': 'true' });
-    sw.style.background = colours.get(p.key);
+    sw.style.background = colours.get(p.key) || 'transparent';
     const name = el('input', { type: 'text', 'aria-label': `Label of ${p.name}` });
     name.value = labelOf(p);
     name.addEventListener('change', () => {
@@ -93,58 +96,15 @@ export function renderCompare(root, state) {
   const freqs = ticked[0].result.freqs_lp_mm;
   const mixedFreqs = ticked.some((p) => p.result.freqs_lp_mm.join() !== freqs.join());
 
-  // Choices: frequency and orientation.
-  const controls = el('div', { class: 'compare-controls' });
-  const fSel = el('select', { id: 'compare-freq', 'aria-label': 'Frequency of the field curves' });
-  freqs.forEach((f, i) => fSel.append(new Option(`${f} lp/mm`, String(i), false, i === view.fi)));
-  fSel.addEventListener('change', () => {
-    view.fi = +fSel.value;
-    renderCompare(root, state);
-  });
-  const oSel = el('select', { id: 'compare-orient', 'aria-label': 'Orientations shown' });
-  for (const [v, t] of [['both', 'sagittal and tangential'], ['sagittal', 'sagittal only'], ['tangential', 'tangential only']]) oSel.append(new Option(t, v, false, v === view.orient));
-  oSel.addEventListener('change', () => {
-    view.orient = oSel.value;
-    renderCompare(root, state);
-  });
-  const l1 = el('label', {}, 'Frequency ');
-  l1.append(fSel);
-  const l2 = el('label', {}, ' Show ');
-  l2.append(oSel);
-  controls.append(l1, l2);
-  main.append(controls);
   if (mixedFreqs) main.append(el('p', { class: 'notes' }, 'These photos have different field frequencies (a photo waiting to be measured again keeps its old ones): measure it again, on the Measure place, to compare them.'));
 
-  const fi = Math.min(view.fi, freqs.length - 1);
-  const series = [];
-  const rows = [];
-  const orients = view.orient === 'both' ? ['sagittal', 'tangential'] : [view.orient];
-  let xmax = 1;
-  let smooth = '';
-  for (const p of ticked) {
-    const r = p.result;
-    xmax = Math.max(xmax, r.corner_mm);
-    const c = colours.get(p.key);
-    for (const o of orients) {
-      const keep = (m) => m.orientation === o;
-      const pts = r.measurements.filter(keep).map((m) => [m.height_mm, m.mtf_at_freqs[fi]]);
-      // The core's smooth field curve; without one (too few targets of this
-      // orientation) only the targets are drawn.
-      const curve = r.summary.curves.find((k) => k.quantity === 'mtf' && k.orientation === o && k.freq_lp_mm === freqs[fi]);
-      const line = curve ? curve.height_mm.map((h, i) => [h, curve.value[i]]) : [];
-      series.push({ name: `${labelOf(p)}, ${o}`, points: line, colour: c, width: 2.2, dash: o === 'tangential' ? '7 4' : null, marker: curve ? null : o === 'sagittal' ? 'circle' : 'square', markerSize: 3.4 });
-      series.push({ name: '', points: pts, colour: c, line: false, marker: o === 'sagittal' ? 'circle' : 'square', markerSize: 1.6, legend: false });
-      for (const q of line) rows.push([labelOf(p), o, q[0], q[1]]);
-      if (curve) smooth = r.summary.smoother;
-    }
-  }
-  main.append(plot({
-    title: `MTF at ${freqs[fi]} lp/mm across the frame`, xLabel: 'distance from the optical centre (mm)', yLabel: 'MTF',
-    xDomain: [0, xmax], yDomain: [0, 1], series, width: 760, height: 380, fileName: 'compare-field',
-    table: { columns: ['photo', 'orientation', 'height (mm)', 'MTF'], rows },
-  }));
-  main.append(el('p', { class: 'hint' }, (smooth ? `Lines: the field curves (${smooth}).` : 'Too few targets of one orientation for a field curve.') +
-    ' Small marks are single targets. Solid: sagittal; dashed: tangential.'));
+  // The core's figure: one small panel per field frequency and orientation,
+  // on the same axes, one colour per photo.
+  const data = JSON.stringify(ticked.map((p) => ({ label: labelOf(p), summary: p.result.summary || null })));
+  main.append(coreFigure(state.pool, 'compare', data, { freqs_lp_mm: freqs }, 'field-curves-compared'));
+  const missing = ticked.filter((p) => !p.result.summary).map(labelOf);
+  if (missing.length) main.append(el('p', { class: 'notes' }, `No field curves for ${missing.join(', ')}: too few targets were measured.`));
+  main.append(el('p', { class: 'hint' }, 'One colour per photo, as in the list of photos.'));
 
   // The table of key numbers.
   const table = el('table', { class: 'numbers', id: 'compare-table' });
@@ -161,7 +121,7 @@ export function renderCompare(root, state) {
   th(h1, `Balance at ${freqs[freqs.length - 1]} lp/mm`, { rowspan: 2 });
   // The zones and their medians come from the core (summary.zones).
   const zoneNames = ticked[0].result.summary.zones.map((z) => z.name);
-  const zoneKey = view.orient === 'both' ? 'all' : view.orient;
+  const zoneKey = 'all';
   for (const _ of freqs) for (const z of zoneNames) th(h2, z);
   const tb = table.createTBody();
   const last = freqs.length - 1;
@@ -181,9 +141,10 @@ export function renderCompare(root, state) {
     tr.insertCell().textContent = balanceWords(r.summary, freqs[last]);
   }
   main.append(table);
-  main.append(el('p', { class: 'hint' }, `Each number is the median over the ${view.orient === 'both' ? '' : view.orient + ' '}targets in a third of the distance from the centre to the corner. ` +
+  main.append(el('p', { class: 'hint' }, 'Each number is the median over the targets in a third of the distance from the optical centre to the corner. ' +
     'A positive sagittal − tangential difference means detail across the radius is held better than along it (astigmatism); ± one standard error. ' +
-    'Balance compares opposite halves of the frame, beyond 0.4 of the way to the corner, at matched distance from the centre. Differences of a few hundredths are within what refocusing and re-shooting change.'));
+    'Balance compares opposite halves of the frame, beyond 0.4 of the way to the corner, at matched distance from the optical centre. Differences of a few hundredths are within what refocusing and re-shooting change.'));
+  main.append(explainBox(['sagittal', 'tangential', 'standard error']));
 }
 
 // gapWords gives the core's largest sagittal - tangential difference at

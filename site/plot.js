@@ -1,9 +1,18 @@
 // Plots drawn in the page as SVG: axes with titles and units, a legend, and
 // the data table behind every plot (for screen readers and export). Used for
-// the interactive views (a target's edge profile and response, the field
-// points); exports as SVG or PNG.
+// the interactive views only (a target's edge profile and response, MTF50
+// across the frame); the field curves and Compare are the core's figures
+// (corefig.js). The visual code is the core's: one marker shape per kind of
+// target, solid data lines, dashes for reference curves only.
 
 const NS = 'http://www.w3.org/2000/svg';
+
+/**
+ * KIND_MARKER is the marker shape of each kind of target, the same as the
+ * core's plots (core/plot KindMarker); a square marks a value read off a
+ * curve (MTF50), never a target.
+ */
+export const KIND_MARKER = { edge: 'circle', star: 'triangle', grating: 'diamond' };
 const FONT = 'system-ui, -apple-system, "Segoe UI", Roboto, sans-serif';
 
 /** svgEl creates an SVG element with attributes. */
@@ -93,7 +102,7 @@ export function plot(spec) {
 
   for (const v of spec.vlines || []) {
     if (v.x < x0 || v.x > x1) continue;
-    svgEl('line', { x1: sx(v.x), x2: sx(v.x), y1: m.t, y2: H - m.b, stroke: v.colour || '#1b1f24', 'stroke-width': 1.2, 'stroke-dasharray': v.dash || '4 3' }, data);
+    svgEl('line', { x1: sx(v.x), x2: sx(v.x), y1: m.t, y2: H - m.b, stroke: v.colour || '#1b1f24', 'stroke-width': 1.2, 'stroke-dasharray': v.dash || null }, data);
     if (v.label) {
       const t = svgEl('text', { x: sx(v.x) - 4, y: m.t + 13, 'text-anchor': 'end', fill: v.colour || '#1b1f24', 'font-size': 11 }, svg);
       t.textContent = v.label;
@@ -124,7 +133,7 @@ export function plot(spec) {
   const legend = document.createElement('ul');
   legend.className = 'legend';
   for (const s of spec.series.filter((s) => s.legend !== false && !s.band)) legend.append(legendItem(s));
-  for (const v of (spec.vlines || []).filter((v) => v.legend)) legend.append(legendItem({ name: v.legend, colour: v.colour || '#1b1f24', dash: v.dash || '4 3', width: 1.2 }));
+  for (const v of (spec.vlines || []).filter((v) => v.legend)) legend.append(legendItem({ name: v.legend, colour: v.colour || '#1b1f24', dash: v.dash || null, width: 1.2 }));
   if (legend.childElementCount) fig.append(legend);
   fig.append(dataTable(spec));
   fig.append(exportButtons(svg, spec.fileName || 'sagitta-plot'));

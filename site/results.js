@@ -3,13 +3,14 @@
 // frame, the photo's Exif, the settings used and the cautions.
 
 import { PhotoViewer, drawStored } from './viewer.js';
-import { plot, saveBlob, svgBlob } from './plot.js';
+import { plot, saveBlob, svgBlob, KIND_MARKER } from './plot.js';
 import { mtf50Colour, scaleGradient, SCALE_MAX_CY_PX, ORIENTATION } from './colour.js';
 import { fromCyPx, fmtFreq, fmt, fmtFNumber, fmtExposure, UNITS, NYQUIST_CY_PX, digits } from './units.js';
 import { settingsSummary } from './settings.js';
 import { labelOf } from './compare.js';
 import { renderSummary } from './summary.js';
 import { el } from './dom.js';
+import { explainBox, titled } from './explain.js';
 
 /** outcome says in one line what came of a photo. */
 export function outcome(r) {
@@ -87,8 +88,8 @@ export function renderResult(sec, p, state, display) {
   left.append(targetTable(r, state.units));
   if (r.rejected.length) left.append(setAsideList(r, viewer));
   const map = mapFigure(r, display);
-  const saveMap = el('button', { type: 'button', class: 'link' }, 'Save the sharpness map (SVG)');
-  saveMap.onclick = () => saveBlob(svgBlob(map.querySelector('svg')), 'sharpness-map.svg');
+  const saveMap = el('button', { type: 'button', class: 'link' }, 'Save the targets on the photo (SVG)');
+  saveMap.onclick = () => saveBlob(svgBlob(map.querySelector('svg')), 'targets-on-the-photo.svg');
   left.append(saveMap, map);
   renderKey(key, r, state.units);
   renderDetail();
@@ -123,7 +124,7 @@ function kindWord(m) {
 }
 
 function targetLabel(m, r, units) {
-  let s = `${kindWord(m)} ${m.id}: ${m.orientation}, ${fmt(m.height_mm, 1)} mm from the centre, MTF50 ${fmtFreq(m.mtf50_cy_px, units, r)}`;
+  let s = `${kindWord(m)} ${m.id}: ${m.orientation}, ${fmt(m.height_mm, 1)} mm from the optical centre, MTF50 ${fmtFreq(m.mtf50_cy_px, units, r)}`;
   if (m.warnings.length) s += ` (${m.warnings.join('; ')})`;
   return s;
 }
@@ -132,7 +133,7 @@ let mapURL = null;
 
 /**
  * mapFigure is a still picture of the photo with its targets filled by
- * MTF50 (the sharpness map), in the photo's own coordinates: shown in the
+ * MTF50 ("targets on the photo"; the interpolated MTF50 map is the core's), in the photo's own coordinates: shown in the
  * printed report, and offered as an SVG file.
  */
 function mapFigure(r, display) {
@@ -144,7 +145,7 @@ function mapFigure(r, display) {
   svg.setAttribute('width', 720);
   svg.setAttribute('height', Math.round((720 * r.height) / r.width));
   svg.setAttribute('role', 'img');
-  svg.setAttribute('aria-label', 'Sharpness map: the photo with each measured target filled by its MTF50');
+  svg.setAttribute('aria-label', 'Targets on the photo: each measured target filled by its MTF50');
   if (mapURL) URL.revokeObjectURL(mapURL);
   mapURL = null;
   const bg = document.createElementNS(NS, 'rect');
@@ -179,7 +180,7 @@ function mapFigure(r, display) {
     svg.append(poly);
   }
   fig.append(svg);
-  fig.append(el('figcaption', { class: 'hint' }, 'Sharpness map: each measured target filled by its MTF50 on the scale above.'));
+  fig.append(el('figcaption', { class: 'hint' }, 'Targets on the photo: each measured target filled by its MTF50 on the scale above.'));
   return fig;
 }
 
@@ -195,7 +196,7 @@ function blankCanvas(w, h) {
 
 function renderKey(key, r, units) {
   key.replaceChildren();
-  key.append(el('span', {}, `MTF50 (${UNITS[units].label})`));
+  key.append(titled(el('span', {}, `MTF50 (${UNITS[units].label})`), 'MTF50'));
   const bar = el('div', { class: 'key-bar' });
   bar.style.background = scaleGradient();
   key.append(bar);
@@ -215,9 +216,9 @@ function targetTable(r, units) {
   const det = el('details', { class: 'data-table targets-table' });
   det.append(el('summary', {}, `All ${r.measurements.length} targets as a table`));
   const t = el('table');
-  t.append(el('caption', {}, 'Measured targets, nearest the centre first'));
+  t.append(el('caption', {}, 'Measured targets, nearest the optical centre first'));
   const hr = t.createTHead().insertRow();
-  const cols = ['target', 'x, y (px)', 'from centre (mm)', 'orientation', `MTF50 (${UNITS[units].label})`, ...r.freqs_lp_mm.map((f) => `MTF at ${f} lp/mm`), 'notes'];
+  const cols = ['target', 'x, y (px)', 'distance from the optical centre (mm)', 'orientation', `MTF50 (${UNITS[units].label})`, ...r.freqs_lp_mm.map((f) => `MTF at ${f} lp/mm`), 'notes'];
   for (const c of cols) hr.append(el('th', { scope: 'col' }, c));
   const tb = t.createTBody();
   for (const m of r.measurements) {
@@ -240,6 +241,7 @@ function targetTable(r, units) {
 function setAsideList(r, viewer) {
   const det = el('details', { class: 'setaside' });
   det.append(el('summary', {}, `${r.rejected.length} candidate${r.rejected.length === 1 ? '' : 's'} set aside, and why`));
+  det.append(el('p', { class: 'hint' }, 'Edges found in the photo but not measured are set aside (the JSON calls them "rejected"), each with its reason.'));
   const ul = el('ul');
   r.rejected.forEach((c, i) => {
     const li = el('li');
@@ -271,7 +273,7 @@ function renderDetail() {
       : 'No target was measured in this photo.'));
     if (r.measurements.length) {
       const best = [...r.measurements].sort((a, b) => a.height_mm - b.height_mm)[0];
-      const b = el('button', { type: 'button', class: 'button small' }, `Show the target nearest the centre (${kindWord(best).toLowerCase()} ${best.id})`);
+      const b = el('button', { type: 'button', class: 'button small' }, `Show the target nearest the optical centre (${kindWord(best).toLowerCase()} ${best.id})`);
       b.onclick = () => selectTarget(best.id);
       detail.append(b);
     }
@@ -283,14 +285,15 @@ function renderDetail() {
   title.append(chip);
   detail.append(title);
   const dl = el('dl');
-  const row = (k, v) => dl.append(el('dt', {}, k), el('dd', {}, v));
+  const row = (k, v, term) => dl.append(titled(el('dt', {}, k), term), el('dd', {}, v));
   row('Position', `${fmt(m.x_px, 1)}, ${fmt(m.y_px, 1)} px`);
-  row('From the centre', `${fmt(m.height_mm, 2)} mm (${Math.round((100 * m.height_mm) / r.corner_mm)} % of the way to a corner)`);
+  row('Distance from the optical centre', `${fmt(m.height_mm, 2)} mm (${Math.round((100 * m.height_mm) / r.corner_mm)} % of the way to a corner)`);
   row('Orientation', `${m.orientation}: measured ${fmt(m.radius_angle_deg, 0)}° from the radius`);
-  row('MTF50', fmtFreq(m.mtf50_cy_px, units, r));
-  row('MTF50P', fmtFreq(m.mtf50p_cy_px, units, r));
-  r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, fmt(m.mtf_at_freqs[i], 3)));
-  row('MTF at Nyquist', fmt(m.mtf_nyquist, 3));
+  row('MTF50', fmtFreq(m.mtf50_cy_px, units, r), 'MTF50');
+  row('MTF50P', fmtFreq(m.mtf50p_cy_px, units, r), 'MTF50P');
+  r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, Number.isFinite(m.mtf_at_freqs[i]) || !m.measured_cy_px ? fmt(m.mtf_at_freqs[i], 3)
+    : `n/a: beyond the frequencies this ${m.kind === 'star' ? 'star' : 'set of gratings'} measured (${fmtFreq(m.measured_cy_px[0], 'lpmm', r, false)}–${fmtFreq(m.measured_cy_px[1], 'lpmm', r)})`));
+  row('MTF at Nyquist', fmt(m.mtf_nyquist, 3), 'Nyquist');
   if (m.kind === 'edge') {
     row('Edge', `${fmt(m.length_px, 0)} px long, slanted ${fmt(m.slant_deg, 1)}°, contrast ${fmt(m.contrast, 1)}:1` + (Number.isFinite(m.snr) ? `, signal/noise ${fmt(m.snr, 0)}` : ''));
   } else {
@@ -335,16 +338,16 @@ function renderDetail() {
     series.push({ band: m.freq_cy_px.map((f, i) => [conv(f), m.mtf[i] - 2 * m.mtf_std_err[i], m.mtf[i] + 2 * m.mtf_std_err[i]]), colour: ORIENTATION[m.orientation] || '#1b1f24' });
   }
   const grating = m.kind === 'grating';
-  series.push({ name: `measured (${m.orientation})`, points: pts, colour: ORIENTATION[m.orientation] || '#1b1f24', width: 2, line: !grating, marker: grating ? 'circle' : null, markerSize: 4 });
+  series.push({ name: `measured (${m.orientation})`, points: pts, colour: ORIENTATION[m.orientation] || '#1b1f24', width: 2, line: !grating, marker: grating ? KIND_MARKER.grating : null, markerSize: 4 });
   if (m.kind === 'star') {
     for (const o of r.measurements.filter((x) => x.kind === 'star' && x.pattern_id === m.pattern_id && x.id !== m.id)) {
-      series.push({ name: `same star, ${o.orientation}`, points: o.freq_cy_px.map((f, i) => [conv(f), o.mtf[i]]), colour: ORIENTATION[o.orientation] || '#6f767e', width: 1.2, dash: '3 2' });
+      series.push({ name: `same star, ${o.orientation}`, points: o.freq_cy_px.map((f, i) => [conv(f), o.mtf[i]]), colour: ORIENTATION[o.orientation] || '#6f767e', width: 1.4 });
     }
   }
   // The reference, a perfect lens, comes from the core (optics.PerfectLens).
   const ref = current.refF ? reference(m, r, fmax) : null;
   if (ref) {
-    series.push({ name: `perfect lens at ${fmtFNumber(current.refF)}: diffraction (${ref.wavelength_um * 1000} nm) and pixel area`, points: zip(ref.curve_cy_px.map(conv), ref.curve), colour: '#6f767e', width: 1.3, dash: '6 4' });
+    series.push({ name: `a perfect lens at ${fmtFNumber(current.refF)}: diffraction (${ref.wavelength_um * 1000} nm) × pixel area`, points: zip(ref.curve_cy_px.map(conv), ref.curve), colour: '#555555', width: 1.4, dash: '6 4' });
   }
   const ymax = Math.max(1.05, ...m.mtf.filter(Number.isFinite));
   const table = { columns: [`frequency (${UNITS[units].label})`, 'MTF measured'].concat(ref ? ['perfect lens'] : []), rows: [] };
@@ -357,9 +360,10 @@ function renderDetail() {
   detail.append(plot({
     title: 'Response (MTF)', xLabel: `spatial frequency (${UNITS[units].label})`, yLabel: 'MTF',
     xDomain: [0, conv(fmax)], yDomain: [0, ymax],
-    series, vlines: [{ x: conv(NYQUIST_CY_PX), label: 'Nyquist', colour: '#1b1f24', legend: 'Nyquist frequency (half the sampling rate)' }, ...measured],
+    series, vlines: [{ x: conv(NYQUIST_CY_PX), label: 'Nyquist', colour: '#1f6f8b', legend: 'Nyquist frequency (half the sampling rate)' }, ...measured],
     table, width: 460, height: 260, fileName: `edge-${m.id}-mtf`,
   }));
+  detail.append(explainBox(['MTF', 'MTF50', 'MTF50P', 'Nyquist', units === 'cypx' ? 'cy/px' : 'lp/mm', 'perfect lens']));
   if (ref && ref.exceeds) {
     detail.append(el('p', { class: 'notes' }, 'This edge responds above what a perfect lens could give at this f-number: the file was sharpened (in the camera or later), or the f-number is wrong. Sharpened files overstate the lens.'));
   }
@@ -429,7 +433,7 @@ function renderFrame() {
     return;
   }
   frame.append(el('p', { class: 'hint' }, 'Each mark is one measured target, at its distance from the optical centre. ' +
-    'Sagittal targets are measured across the radius from the centre, tangential ones along it.'));
+    'Sagittal targets are measured across the radius from the optical centre, tangential ones along it.'));
   if (r.summary) {
     renderSummary(frame, r, units, state.pool, labelOf(current.p));
     return;
@@ -437,39 +441,42 @@ function renderFrame() {
   const grid = el('div', { class: 'frame-grid' });
   frame.append(grid);
 
+  // One small plot per field frequency (the same axes), colour by
+  // orientation, one marker shape per kind of target, as in the core's plots.
   const freqs = r.freqs_lp_mm;
-  const series = [];
-  const table = { columns: ['target', 'kind', 'orientation', 'height (mm)'].concat(freqs.map((f) => `MTF at ${f} lp/mm`)), rows: [] };
-  for (const o of ['sagittal', 'tangential', 'mixed']) {
-    for (const kind of ['edge', 'star', 'grating']) {
-      const sel = ms.filter((m) => m.orientation === o && m.kind === kind);
-      if (!sel.length) continue;
-      freqs.forEach((f, i) => {
-        series.push({
-          name: `${o}, ${f} lp/mm${kind === 'edge' ? '' : ` (${kind}s)`}`,
-          points: sel.map((m) => [m.height_mm, m.mtf_at_freqs[i]]),
-          colour: ORIENTATION[o], line: false, marker: kind === 'edge' ? (i === 0 ? 'circle' : 'square') : kind === 'star' ? 'triangle' : 'diamond',
-          markerSize: i === 0 ? 4 : 2.6,
-        });
-      });
-    }
-  }
+  const table = { columns: ['target', 'kind', 'orientation', 'distance from the optical centre (mm)'].concat(freqs.map((f) => `MTF at ${f} lp/mm`)), rows: [] };
   for (const m of ms) table.rows.push([m.id, m.kind, m.orientation, m.height_mm, ...m.mtf_at_freqs]);
-  grid.append(plot({
-    title: `MTF at ${freqs.join(' and ')} lp/mm`, xLabel: 'distance from the optical centre (mm)', yLabel: 'MTF',
-    xDomain: [0, Math.max(r.corner_mm, 1)], yDomain: [0, Math.max(1, ...ms.flatMap((m) => m.mtf_at_freqs).filter(Number.isFinite))],
-    series, table, width: 560, height: 320, fileName: 'field-mtf',
-  }));
+  const ymax = Math.max(1, ...ms.flatMap((m) => m.mtf_at_freqs).filter(Number.isFinite));
+  freqs.forEach((f, i) => {
+    const series = [];
+    for (const o of ['sagittal', 'tangential', 'mixed']) {
+      for (const kind of ['edge', 'star', 'grating']) {
+        const sel = ms.filter((m) => m.orientation === o && m.kind === kind);
+        if (!sel.length) continue;
+        series.push({
+          name: `${o} ${kind}s`, points: sel.map((m) => [m.height_mm, m.mtf_at_freqs[i]]),
+          colour: ORIENTATION[o], line: false, marker: KIND_MARKER[kind], markerSize: 3.2,
+        });
+      }
+    }
+    grid.append(plot({
+      title: `MTF at ${f} lp/mm`, xLabel: 'distance from the optical centre (mm)', yLabel: 'MTF',
+      xDomain: [0, Math.max(r.corner_mm, 1)], yDomain: [0, ymax],
+      series, table: i === 0 ? table : { columns: table.columns, rows: [] }, width: 460, height: 300, fileName: `field-mtf-${f}lpmm`,
+    }));
+  });
   const s50 = [];
   for (const o of ['sagittal', 'tangential', 'mixed']) {
-    const sel = ms.filter((m) => m.orientation === o && Number.isFinite(m.mtf50_cy_px));
-    if (sel.length) s50.push({ name: `${o}`, points: sel.map((m) => [m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]), colour: ORIENTATION[o], line: false, marker: 'circle', markerSize: 3.4 });
+    for (const kind of ['edge', 'star', 'grating']) {
+      const sel = ms.filter((m) => m.orientation === o && m.kind === kind && Number.isFinite(m.mtf50_cy_px));
+      if (sel.length) s50.push({ name: `${o} ${kind}s`, points: sel.map((m) => [m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]), colour: ORIENTATION[o], line: false, marker: KIND_MARKER[kind], markerSize: 3.2 });
+    }
   }
   const yMax = fromCyPx(NYQUIST_CY_PX, units, r);
   grid.append(plot({
     title: 'MTF50 across the frame', xLabel: 'distance from the optical centre (mm)', yLabel: `MTF50 (${UNITS[units].label})`,
     xDomain: [0, Math.max(r.corner_mm, 1)], yDomain: [0, yMax], series: s50,
-    table: { columns: ['target', 'orientation', 'height (mm)', `MTF50 (${UNITS[units].label})`], rows: ms.map((m) => [m.id, m.orientation, m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]) },
+    table: { columns: ['target', 'orientation', 'distance from the optical centre (mm)', `MTF50 (${UNITS[units].label})`], rows: ms.map((m) => [m.id, m.orientation, m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]) },
     width: 560, height: 320, fileName: 'field-mtf50',
   }));
 }

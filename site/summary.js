@@ -4,8 +4,9 @@
 // units shown, and the verdict cards (balance, astigmatism) with their
 // cautions. Words first, numbers second.
 
-import { plot } from './plot.js';
+import { plot, KIND_MARKER } from './plot.js';
 import { coreFigure } from './corefig.js';
+import { explainBox, howComputed } from './explain.js';
 import { ORIENTATION } from './colour.js';
 import { fromCyPx, UNITS, NYQUIST_CY_PX } from './units.js';
 import { el } from './dom.js';
@@ -36,7 +37,7 @@ export function renderSummary(box, r, units, pool, label) {
     const colour = ORIENTATION[o];
     for (const kind of ['edge', 'star', 'grating']) {
       const pts = ms.filter((m) => m.orientation === o && m.kind === kind).map((m) => [m.height_mm, fromCyPx(m.mtf50_cy_px, units, r)]);
-      if (pts.length) s50.push({ name: `${o} ${kind}s`, points: pts, colour, line: false, marker: { edge: 'circle', star: 'triangle' }[kind] || 'diamond', markerSize: kind === 'edge' ? 2.2 : 3.4, legend: false });
+      if (pts.length) s50.push({ name: `${o} ${kind}s`, points: pts, colour, line: false, marker: KIND_MARKER[kind], markerSize: kind === 'edge' ? 2.2 : 3.4, legend: false });
     }
     const c = s.mtf50_curves.find((c) => c.orientation === o);
     if (!c) continue;
@@ -47,7 +48,7 @@ export function renderSummary(box, r, units, pool, label) {
   grid.append(plot({
     title: 'MTF50 across the frame', xLabel: 'distance from the optical centre (mm)', yLabel: `MTF50 (${UNITS[units].label})`,
     xDomain: [0, xmax], yDomain: [0, fromCyPx(NYQUIST_CY_PX, units, r)], series: s50, width: 560, height: 340, fileName: 'field-mtf50',
-    table: { columns: ['orientation', 'height (mm)', `MTF50 (${UNITS[units].label})`], rows: rows50 },
+    table: { columns: ['orientation', 'distance from the optical centre (mm)', `MTF50 (${UNITS[units].label})`], rows: rows50 },
   }));
 
   // Verdict cards.
@@ -61,7 +62,8 @@ export function renderSummary(box, r, units, pool, label) {
     for (const t of s.warnings) w.append(el('p', {}, t));
     box.append(w);
   }
-  box.append(el('p', { class: 'hint' }, `Curves: ${s.smoother}.`));
+  box.append(explainBox(['sagittal', 'tangential', 'MTF50', '± 2 standard errors', 'smoothing']));
+  box.append(howComputed([`Field curves: ${s.smoother}.`, s.map ? `MTF50 map: ${s.map.method}; the mean of sagittal and tangential.` : '']));
 }
 
 function card(title, text, caution) {

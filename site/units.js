@@ -5,7 +5,7 @@
 
 export const UNITS = Object.freeze({
   lpmm: { label: 'lp/mm', long: 'line pairs per millimetre on the sensor' },
-  cypx: { label: 'cycles/pixel', long: 'cycles per pixel' },
+  cypx: { label: 'cy/px', long: 'cycles per pixel' },
   lwph: { label: 'LW/PH', long: 'line widths per picture height' },
 });
 

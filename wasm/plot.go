@@ -66,11 +66,11 @@ func plotJS(args []js.Value) (any, error) {
 		if err := json.Unmarshal(data, &in); err != nil {
 			return nil, fmt.Errorf("plot compare: %v", err)
 		}
+		// A photo without a summary keeps its place (and so its colour)
+		// in the legend; it draws no curve.
 		photos := make([]plot.Photo, 0, len(in))
 		for _, p := range in {
-			if p.Summary != nil {
-				photos = append(photos, plot.Photo{Label: p.Label, Summary: p.Summary})
-			}
+			photos = append(photos, plot.Photo{Label: p.Label, Summary: p.Summary})
 		}
 		fig = plot.Compare(photos, plot.CompareOptions{FreqsLPMM: opt.FreqsLPMM, Band: opt.Band})
 	case "target":

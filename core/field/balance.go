@@ -209,10 +209,10 @@ func balance(geo Geometry, pts []Point, fs *fitSet, freqs []float64) Balance {
 		}
 	case anyOK:
 		b.Verdict = VerdictBalanced
-		b.Text = "Opposite sides of the frame are equally sharp at matched image heights. " + b.Text
+		b.Text = "Opposite sides of the frame are equally sharp at matched distances from the optical centre. " + b.Text
 	default:
 		b.Verdict = VerdictTooFew
-		b.Text = fmt.Sprintf("Not enough measurements beyond %.1f mm from the centre to compare opposite sides of the frame (at least %d per side are needed).", b.FromHeightMM, MinSidePoints)
+		b.Text = fmt.Sprintf("Not enough measurements beyond %.1f mm from the optical centre to compare opposite sides of the frame (at least %d per side are needed).", b.FromHeightMM, MinSidePoints)
 	}
 	return b
 }

@@ -221,14 +221,14 @@ func astigmatismText(a Astigmatism) string {
 	}
 	nums := fmt.Sprintf("%.3f +/- %.3f, one standard error", math.Abs(a.MaxGap), a.MaxGapSE)
 	if a.Notable {
-		return fmt.Sprintf("Sagittal and tangential detail differ at %s lp/mm: %s detail is softer, most at %.1f mm from the centre, by %.2f (%s). A gap like this is astigmatism, or the chart or the focus not being flat across the frame.",
+		return fmt.Sprintf("Sagittal and tangential detail differ at %s lp/mm: %s detail is softer, most at %.1f mm from the optical centre, by %.2f (%s). A gap like this is astigmatism, or the chart or the focus not being flat across the frame.",
 			fmtNum(a.FreqLPMM), lower, a.MaxGapHeightMM, math.Abs(a.MaxGap), nums)
 	}
 	why := "within the measurement uncertainty"
 	if math.Abs(a.MaxGap) > NotableSE*a.MaxGapSE {
 		why = fmt.Sprintf("below %.2f, too small to matter", NotableGap)
 	}
-	return fmt.Sprintf("Sagittal and tangential detail agree at %s lp/mm: the largest gap, %.2f at %.1f mm from the centre, is %s (%s).",
+	return fmt.Sprintf("Sagittal and tangential detail agree at %s lp/mm: the largest gap, %.2f at %.1f mm from the optical centre, is %s (%s).",
 		fmtNum(a.FreqLPMM), math.Abs(a.MaxGap), a.MaxGapHeightMM, why, nums)
 }
 

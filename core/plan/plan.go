@@ -137,13 +137,36 @@ func (e Error) Error() string { return "plan: " + string(e) }
 
 func errf(format string, a ...any) error { return Error(fmt.Sprintf(format, a...)) }
 
-// Sensor formats by name, mm. Full frame 36 x 24 mm is common practice;
-// the others are from memory (APS-C varies by maker).
-var formats = map[string][2]float64{
-	"full-frame":  {36, 24},
-	"aps-c":       {23.5, 15.6},
-	"four-thirds": {17.3, 13.0},
-	"1-inch":      {13.2, 8.8},
+// SensorFormat is a named sensor size: the one table of sensor names used
+// by "sagitta plan --sensor", "sagitta analyze --sensor" and the page's
+// sensor presets (site/index.html; sensor_test.go checks they agree).
+type SensorFormat struct {
+	// Name is the name accepted on the command line, e.g. "full-frame".
+	Name string
+	// Label is the page's word for it, e.g. "Full frame".
+	Label string
+	// WMM, HMM are the size, mm.
+	WMM, HMM float64
+	// Typical marks a size that varies by maker ("about").
+	Typical bool
+}
+
+// Sensors lists the sensor formats by name. Full frame 36 x 24 mm is common
+// practice; the others are from memory (APS-C varies by maker).
+var Sensors = []SensorFormat{
+	{"full-frame", "Full frame", 36, 24, false},
+	{"aps-c", "APS-C", 23.5, 15.6, true},
+	{"four-thirds", "Four Thirds", 17.3, 13.0, false},
+	{"1-inch", "1-inch type", 13.2, 8.8, false},
+}
+
+// SensorNames lists the names of Sensors, comma separated.
+func SensorNames() string {
+	names := make([]string, len(Sensors))
+	for i, f := range Sensors {
+		names[i] = f.Name
+	}
+	return strings.Join(names, ", ")
 }
 
 // Ink spread (standard deviation on paper, um) by paper surface, from
@@ -157,7 +180,7 @@ func Compute(opt Options) (Plan, error) {
 	if !(opt.FocalMM > 0 && opt.FocalMM <= 5000) {
 		return p, errf("focal length %g mm is not between 0 and 5000 mm", opt.FocalMM)
 	}
-	sensor, err := parseSensor(opt.Sensor)
+	sensor, err := ParseSensor(opt.Sensor)
 	if err != nil {
 		return p, err
 	}
@@ -298,12 +321,25 @@ func nearestAspect(s [2]float64) string {
 	return name
 }
 
-// parseSensor reads "WxH" in mm or a format name.
-func parseSensor(s string) ([2]float64, error) {
-	key := strings.ToLower(strings.TrimSpace(s))
-	if v, ok := formats[key]; ok {
+// SensorByName returns the size (mm) of the named format of Sensors, any
+// case, spaces around ignored.
+func SensorByName(name string) ([2]float64, bool) {
+	key := strings.ToLower(strings.TrimSpace(name))
+	for _, f := range Sensors {
+		if key == f.Name {
+			return [2]float64{f.WMM, f.HMM}, true
+		}
+	}
+	return [2]float64{}, false
+}
+
+// ParseSensor reads a sensor size: "WxH" in mm (each side 1 to 200 mm) or
+// a name from Sensors.
+func ParseSensor(s string) ([2]float64, error) {
+	if v, ok := SensorByName(s); ok {
 		return v, nil
 	}
+	key := strings.ToLower(strings.TrimSpace(s))
 	parts := strings.Split(strings.ReplaceAll(key, " ", ""), "x")
 	if len(parts) == 2 {
 		w, e1 := strconv.ParseFloat(parts[0], 64)
@@ -312,5 +348,5 @@ func parseSensor(s string) ([2]float64, error) {
 			return [2]float64{w, h}, nil
 		}
 	}
-	return [2]float64{}, errf("sensor %q is not a size in mm like 36x24 (each side 1 to 200 mm) or one of full-frame, aps-c, four-thirds, 1-inch", s)
+	return [2]float64{}, errf("sensor %q is not a size in mm like 36x24 (each side 1 to 200 mm) or one of %s", s, SensorNames())
 }

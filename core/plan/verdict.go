@@ -37,13 +37,13 @@ func (p *Plan) verdict(opt Options, co chart.Options, pr printer) {
 	case p.Nyquist != nil && p.Nyquist.PrintMTF < MinPrintMTF:
 		p.Verdict = VerdictBorderline
 		crit = *p.Nyquist
-		p.Summary = fmt.Sprintf("The print is sharp enough for the field frequencies (it keeps %s or more of its contrast up to %g lp/mm), but not up to the sensor's Nyquist frequency, %.0f lp/mm (%.2g lp/mm on paper), where it keeps %s: MTF50 and values near Nyquist will read low.",
+		p.Summary = fmt.Sprintf("The print is sharp enough for the field frequencies (it keeps %s or more of its contrast up to %g lp/mm on the sensor), but not up to the sensor's Nyquist frequency, %.0f lp/mm on the sensor (%.2g lp/mm on paper), where it keeps %s: MTF50 and values near Nyquist will read low.",
 			pct(worst.PrintMTF), top.SensorLPMM, p.Nyquist.SensorLPMM, p.Nyquist.PaperLPMM, pct(p.Nyquist.PrintMTF))
 	default:
 		p.Verdict = VerdictFine
 		upTo := fmt.Sprintf("%g lp/mm on the sensor", top.SensorLPMM)
 		if p.Nyquist != nil {
-			upTo = fmt.Sprintf("the sensor's Nyquist frequency, %.0f lp/mm", p.Nyquist.SensorLPMM)
+			upTo = fmt.Sprintf("the sensor's Nyquist frequency, %.0f lp/mm on the sensor", p.Nyquist.SensorLPMM)
 		}
 		p.Summary = fmt.Sprintf("The print is sharp enough: up to %s it keeps at least %s of its contrast.", upTo, pct(math.Min(worst.PrintMTF, nyq(p))))
 	}
@@ -104,9 +104,9 @@ func (p *Plan) advise(opt Options, co chart.Options, pr printer, crit Freq) {
 	if fine != pr {
 		v := fine.mtf(crit.PaperLPMM)
 		if v >= MinPrintMTF {
-			p.Advice = append(p.Advice, fmt.Sprintf("Or print finer: at %.0f dpi on photo paper the print keeps %.0f %% at %.0f lp/mm.", dpi, 100*v, crit.SensorLPMM))
+			p.Advice = append(p.Advice, fmt.Sprintf("Or print finer: at %.0f dpi on photo paper the print keeps %.0f %% of its contrast at %.0f lp/mm on the sensor (%.2g lp/mm on paper).", dpi, 100*v, crit.SensorLPMM, crit.PaperLPMM))
 		} else {
-			p.Advice = append(p.Advice, fmt.Sprintf("A finer print alone is not enough: at %.0f dpi on photo paper it keeps %.0f %% at %.0f lp/mm.", dpi, 100*v, crit.SensorLPMM))
+			p.Advice = append(p.Advice, fmt.Sprintf("A finer print alone is not enough: at %.0f dpi on photo paper it keeps %.0f %% of its contrast at %.0f lp/mm on the sensor (%.2g lp/mm on paper).", dpi, 100*v, crit.SensorLPMM, crit.PaperLPMM))
 		}
 	}
 }

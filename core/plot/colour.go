@@ -8,9 +8,12 @@ import (
 	"sagitta/core/field"
 )
 
-// The visual code (UX.md, the project's own): orientation by hue,
-// frequency by line weight, target kind by marker shape, photos by a
-// categorical palette, MTF50 maps by a sequential scale. The colours were
+// The visual code (the project's own): field frequencies and orientations
+// in panels of their own (a grid, one row per frequency, one column per
+// orientation), orientation also by hue in a single photo's plots, photos
+// by a categorical palette, target kind by marker shape, MTF50 maps by a
+// sequential scale. Every data line is solid and of one weight; only
+// reference curves are dashed. The colours were
 // chosen for this project in OKLab (below); colour_test.go checks their
 // contrast on white and their separation under simulated colour-vision
 // deficiencies.
@@ -26,7 +29,8 @@ var (
 	InkColour        = color.NRGBA{0x22, 0x22, 0x22, 0xff} // text, axes, single-quantity lines
 	GridColour       = color.NRGBA{0xdd, 0xdd, 0xdd, 0xff} // light grid lines
 	MaskColour       = color.NRGBA{0xe4, 0xe4, 0xe4, 0xff} // map cells with no measurement nearby
-	ReferenceColour  = color.NRGBA{0x55, 0x55, 0x55, 0xff} // reference curves and lines
+	ReferenceColour  = color.NRGBA{0x55, 0x55, 0x55, 0xff} // reference curves (dashed) and zero lines
+	NyquistColour    = color.NRGBA{0x1f, 0x6f, 0x8b, 0xff} // the Nyquist line: solid, teal
 )
 
 // OrientationColour returns the hue of an orientation.
@@ -53,21 +57,9 @@ var PhotoColours = []color.NRGBA{
 	{0x6a, 0x91, 0xd4, 0xff}, // light steel blue
 }
 
-// Line weights, px: the coarsest field frequency gets CoarseWidth, the
-// finest FineWidth, those between are spaced evenly by rank.
-const (
-	CoarseWidth = 3.0
-	FineWidth   = 1.25
-)
-
-// FreqWidth returns the line weight of the k-th of n field frequencies
-// sorted from coarse (k = 0) to fine.
-func FreqWidth(k, n int) float64 {
-	if n <= 1 {
-		return CoarseWidth
-	}
-	return CoarseWidth + (FineWidth-CoarseWidth)*float64(k)/float64(n-1)
-}
+// LineWidth is the weight of every data line, px: neither frequency nor
+// orientation is coded by weight (they have panels of their own).
+const LineWidth = 2.0
 
 // Scale is a sequential colour scale: At(0) is the darkest colour, At(1)
 // the lightest, with lightness rising monotonically in between.

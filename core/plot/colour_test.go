@@ -3,6 +3,7 @@ package plot
 import (
 	"image/color"
 	"math"
+	"strings"
 	"testing"
 
 	"sagitta/core/decode"
@@ -178,13 +179,39 @@ func TestColourCode(t *testing.T) {
 	}
 }
 
-// TestFreqWidth: the coarsest frequency is drawn thickest, the finest
-// thinnest.
-func TestFreqWidth(t *testing.T) {
-	if FreqWidth(0, 2) != CoarseWidth || FreqWidth(1, 2) != FineWidth || FreqWidth(0, 1) != CoarseWidth {
-		t.Errorf("widths %g %g %g", FreqWidth(0, 2), FreqWidth(1, 2), FreqWidth(0, 1))
+// TestOneLineCode: in the field plots every data line is solid and of one
+// weight (frequency and orientation have panels of their own); only the
+// reference curve is dashed; each marker shape keeps one meaning.
+func TestOneLineCode(t *testing.T) {
+	for name, f := range testFigures(t) {
+		for _, pn := range f.Panels {
+			for _, se := range pn.Series {
+				if se.Dash != nil && !strings.HasPrefix(se.Name, "Reference") {
+					t.Errorf("%s: %q is dashed", name, se.Name)
+				}
+				if se.Width > 0 && se.Dash == nil && se.Width != LineWidth {
+					t.Errorf("%s: %q drawn %g px, want %g", name, se.Name, se.Width, LineWidth)
+				}
+				if se.Marker != NoMarker {
+					kind := ""
+					for _, k := range TargetKinds {
+						if strings.Contains(strings.ToLower(se.Name), k) {
+							kind = k
+						}
+					}
+					if kind == "" || se.Marker != KindMarker(kind) {
+						t.Errorf("%s: %q has marker %d, not its kind's", name, se.Name, se.Marker)
+					}
+				}
+			}
+			for _, mk := range pn.Marks {
+				if mk.Marker != ReadingMarker && mk.Marker != CentreMarker {
+					t.Errorf("%s: mark %q uses marker %d, which belongs to a kind of target", name, mk.Label, mk.Marker)
+				}
+			}
+		}
 	}
-	if w := FreqWidth(1, 3); !(w < CoarseWidth && w > FineWidth) {
-		t.Errorf("middle width %g", w)
+	if ReadingMarker == EdgeMarker || ReadingMarker == StarMarker || ReadingMarker == GratingMarker {
+		t.Error("the reading marker is a target kind's")
 	}
 }

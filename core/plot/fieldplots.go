@@ -20,36 +20,14 @@ type FieldOptions struct {
 	HidePoints bool
 }
 
-// Dash patterns, px.
-var (
-	tangentialDash = []float64{7, 4}
-	referenceDash  = []float64{5, 3}
-	nyquistDash    = []float64{2, 3}
-)
+// referenceDash is the dash pattern of reference curves, px: the only
+// dashed lines of the plots.
+var referenceDash = []float64{6, 4}
 
 // bandAlpha is the opacity of uncertainty bands.
 const bandAlpha = 0x38
 
 func translucent(c color.NRGBA, a uint8) color.NRGBA { c.A = a; return c }
-
-// freqOrder returns the indices of freqs from coarse (lowest lp/mm) to fine.
-func freqOrder(freqs []float64) []int {
-	idx := make([]int, len(freqs))
-	for i := range idx {
-		idx[i] = i
-	}
-	sort.SliceStable(idx, func(a, b int) bool { return freqs[idx[a]] < freqs[idx[b]] })
-	return idx
-}
-
-// rankOf returns, for each frequency index, its rank from coarse to fine.
-func rankOf(freqs []float64) []int {
-	r := make([]int, len(freqs))
-	for rank, i := range freqOrder(freqs) {
-		r[i] = rank
-	}
-	return r
-}
 
 func titled(base, label string) string {
 	if label == "" {
@@ -90,58 +68,107 @@ func floats(ns []field.Number) []float64 {
 	return out
 }
 
-// FieldCurves plots MTF at the field frequencies against image height, from
-// the centre (0 mm) to the frame corner (s.CornerMM): for each orientation
-// and frequency the measured points and the smooth curve through them,
-// optionally with its uncertainty band. Sagittal and tangential differ by
-// hue, frequencies by line weight (coarse thick, fine thin; points filled at
-// the coarsest frequency, open at the others), edges and stars by marker
-// shape; mixed-orientation points are grey.
+// HeightAxisTitle is the one name of the x axis of every field plot.
+const HeightAxisTitle = "distance from the optical centre (mm)"
+
+// fieldOrients are the columns of a field-plot grid, left to right.
+var fieldOrients = []field.Orientation{field.Sagittal, field.Tangential}
+
+// fieldGrid returns the panels of a field plot: one row per frequency
+// (coarse at the top), one column per orientation (sagittal left), each
+// titled "10 lp/mm · sagittal", all on the same axes (0 to cornerMM, MTF
+// from 0); the figure is sized for the rows.
+func fieldGrid(f *Figure, freqs []float64, cornerMM float64) [][]*Panel {
+	grid := make([][]*Panel, len(freqs))
+	for r, fr := range freqs {
+		for _, o := range fieldOrients {
+			pn := &Panel{
+				Title: fmt.Sprintf("%s lp/mm · %s", fnum(fr), lower(orientationName(o))),
+				X:     Axis{Title: HeightAxisTitle, Min: 0, Max: cornerMM},
+				Y:     Axis{Title: "MTF", Min: 0},
+			}
+			grid[r] = append(grid[r], pn)
+			f.Panels = append(f.Panels, pn)
+		}
+	}
+	f.Columns = len(fieldOrients)
+	f.Height = math.Max(DefaultHeight, titleBand+float64(max(1, len(freqs)))*panelRowHeight+3*noteLine)
+	return grid
+}
+
+// panelRowHeight is the height of one row of a field-plot grid, px.
+const panelRowHeight = 250
+
+// setTop puts the same MTF axis top on every panel.
+func setTop(grid [][]*Panel, top float64) {
+	for _, row := range grid {
+		for _, pn := range row {
+			pn.Y.Max = top
+		}
+	}
+}
+
+// column returns the grid column of an orientation (-1 for mixed).
+func column(o field.Orientation) int {
+	for i, x := range fieldOrients {
+		if x == o {
+			return i
+		}
+	}
+	return -1
+}
+
+// FieldCurves plots MTF at the field frequencies against the distance from
+// the optical centre, from the centre (0 mm) to the frame corner
+// (s.CornerMM), as a grid of small panels on the same axes: one row per
+// field frequency (coarse at the top), one column per orientation
+// (sagittal left, tangential right). Each panel holds the measured points,
+// the smooth curve through them and, optionally, its uncertainty band.
+// Lines are all of one weight and solid; the orientation hue repeats what
+// the column says; each kind of target has its marker shape (KindMarker);
+// points measured in no particular orientation are grey, in both columns.
 func FieldCurves(s *field.Summary, opt FieldOptions) *Figure {
 	f := &Figure{Title: titled("Field curves", opt.Label)}
-	pn := &Panel{
-		X: Axis{Title: "Image height (mm)", Min: 0, Max: s.CornerMM},
-		Y: Axis{Title: "MTF", Min: 0},
-	}
-	f.Panels = []*Panel{pn}
-	rank := rankOf(s.FreqsLPMM)
-	nf := len(s.FreqsLPMM)
+	freqs := sortedCopy(s.FreqsLPMM)
+	grid := fieldGrid(f, freqs, s.CornerMM)
 	var all [][]float64
-	stars, gratings, mixed := false, false, false
+	kinds := map[string]bool{}
+	mixed := false
 
 	f.Data = Table{
 		Caption: "Field curves: smooth-curve samples and measured points",
-		Columns: []string{"Row", "Orientation", "Frequency (lp/mm)", "Target id", "Image height (mm)", "MTF", "Band low", "Band high"},
+		Columns: []string{"Row", "Orientation", "Frequency (lp/mm)", "Target id", HeightColumn, "MTF", "Band low", "Band high"},
 	}
-	for _, k := range freqOrder(s.FreqsLPMM) {
-		fr := s.FreqsLPMM[k]
-		w := FreqWidth(rank[k], nf)
+	for r, fr := range freqs {
 		for _, c := range s.Curves {
-			if c.FreqLPMM != fr {
+			col := column(c.Orientation)
+			if c.FreqLPMM != fr || col < 0 {
 				continue
 			}
-			col := OrientationColour(c.Orientation)
+			pn := grid[r][col]
+			hue := OrientationColour(c.Orientation)
 			v := floats(c.Value)
 			all = append(all, v)
 			name := fmt.Sprintf("%s curve, %s lp/mm", orientationName(c.Orientation), fnum(fr))
 			if opt.Band {
-				pn.Bands = append(pn.Bands, Band{Name: name + ", uncertainty band", X: c.HeightMM, Lo: floats(c.BandLo), Hi: floats(c.BandHi), Colour: translucent(col, bandAlpha)})
+				pn.Bands = append(pn.Bands, Band{Name: name + ", uncertainty band", X: c.HeightMM, Lo: floats(c.BandLo), Hi: floats(c.BandHi), Colour: translucent(hue, bandAlpha)})
 			}
-			pn.Series = append(pn.Series, Series{Name: name, X: c.HeightMM, Y: v, Colour: col, Width: w})
+			pn.Series = append(pn.Series, Series{Name: name, X: c.HeightMM, Y: v, Colour: hue, Width: LineWidth})
 			for i, h := range c.HeightMM {
 				f.Data.Rows = append(f.Data.Rows, []string{"smooth curve", string(c.Orientation), fnum(fr), "", cell(h, 3), cell(v[i], 4), cell(float64(c.BandLo[i]), 4), cell(float64(c.BandHi[i]), 4)})
 			}
 		}
 	}
 	if !opt.HidePoints {
-		// Points: one series per orientation, kind and frequency; mixed
-		// first so the curves' own points sit on top.
+		// Points: one series per orientation and kind in each panel; mixed
+		// first so the panel's own points sit on top.
 		for _, or := range []field.Orientation{field.Mixed, field.Sagittal, field.Tangential} {
 			for _, kind := range TargetKinds {
-				for _, k := range freqOrder(s.FreqsLPMM) {
+				for r, fr := range freqs {
+					k := indexOf(s.FreqsLPMM, fr)
 					var xs, ys []float64
 					for _, p := range s.Points {
-						if p.Orientation != or || p.Kind != kind {
+						if p.Orientation != or || p.Kind != kind || k >= len(p.MTF) {
 							continue
 						}
 						v := float64(p.MTF[k])
@@ -149,58 +176,86 @@ func FieldCurves(s *field.Summary, opt FieldOptions) *Figure {
 							continue
 						}
 						xs, ys = append(xs, p.HeightMM), append(ys, v)
-						f.Data.Rows = append(f.Data.Rows, []string{kind, string(or), fnum(s.FreqsLPMM[k]), strconv.Itoa(p.ID), cell(p.HeightMM, 3), cell(v, 4), "", ""})
+						f.Data.Rows = append(f.Data.Rows, []string{kind, string(or), fnum(fr), strconv.Itoa(p.ID), cell(p.HeightMM, 3), cell(v, 4), "", ""})
 					}
 					if len(xs) == 0 {
 						continue
 					}
-					stars = stars || kind == "star"
-					gratings = gratings || kind == "grating"
+					kinds[kind] = true
 					mixed = mixed || or == field.Mixed
 					all = append(all, ys)
-					pn.Series = append(pn.Series, Series{
-						Name: fmt.Sprintf("%s %ss, %s lp/mm", orientationName(or), kind, fnum(s.FreqsLPMM[k])),
-						X:    xs, Y: ys, Colour: OrientationColour(or),
-						Marker: KindMarker(kind), MarkerSize: 3.2, Open: rank[k] > 0,
-					})
+					cols := []int{column(or)}
+					if or == field.Mixed {
+						cols = []int{0, 1}
+					}
+					for _, col := range cols {
+						grid[r][col].Series = append(grid[r][col].Series, Series{
+							Name: fmt.Sprintf("%s %ss, %s lp/mm", orientationName(or), kind, fnum(fr)),
+							X:    xs, Y: ys, Colour: OrientationColour(or),
+							Marker: KindMarker(kind), MarkerSize: 3,
+						})
+					}
 				}
 			}
 		}
 	}
-	pn.Y.Max = mtfTop(all...)
+	setTop(grid, mtfTop(all...))
 
-	for _, or := range []field.Orientation{field.Sagittal, field.Tangential} {
-		for _, k := range freqOrder(s.FreqsLPMM) {
-			e := LegendEntry{Label: fmt.Sprintf("%s, %s lp/mm", orientationName(or), fnum(s.FreqsLPMM[k])),
-				Colour: OrientationColour(or), Width: FreqWidth(rank[k], nf)}
-			if !opt.HidePoints {
-				e.Marker, e.Open = EdgeMarker, rank[k] > 0
-			}
-			f.Legend = append(f.Legend, e)
-		}
-	}
-	if mixed {
-		f.Legend = append(f.Legend, LegendEntry{Label: "Mixed orientation (points only)", Colour: MixedColour, Marker: EdgeMarker})
+	f.Legend = append(f.Legend,
+		LegendEntry{Label: "Smooth curve", Heading: true},
+		LegendEntry{Label: "Sagittal", Colour: SagittalColour, Width: LineWidth},
+		LegendEntry{Label: "Tangential", Colour: TangentialColour, Width: LineWidth})
+	if opt.Band {
+		f.Legend = append(f.Legend, LegendEntry{Label: "curve ± 2 standard errors", Colour: translucent(InkColour, bandAlpha), Swatch: true})
 	}
 	if !opt.HidePoints {
-		f.Legend = append(f.Legend, LegendEntry{Label: "Targets", Heading: true},
-			LegendEntry{Label: "Edge", Colour: InkColour, Marker: EdgeMarker})
-		if stars {
-			f.Legend = append(f.Legend, LegendEntry{Label: "Star", Colour: InkColour, Marker: StarMarker})
-		}
-		if gratings {
-			f.Legend = append(f.Legend, LegendEntry{Label: "Grating", Colour: InkColour, Marker: GratingMarker})
-		}
+		f.Legend = append(f.Legend, kindLegend(kinds)...)
 	}
-	if opt.Band {
-		f.Legend = append(f.Legend, LegendEntry{Label: "Band: curve +/- 2 SE", Colour: translucent(InkColour, bandAlpha), Swatch: true})
+	if mixed {
+		f.Legend = append(f.Legend, LegendEntry{Label: "No single orientation", Colour: MixedColour, Marker: EdgeMarker})
 	}
 	f.Notes = []string{
-		fmt.Sprintf("Height runs from the optical centre (0 mm) to the frame corner (%s mm). Curves are smoothed (LOWESS) and drawn only where measured.", cell(s.CornerMM, 2)),
+		fmt.Sprintf("Rows: field frequencies; columns: orientations; every panel has the same axes, from the optical centre (0 mm) to the frame corner (%s mm). Curves are smoothed and drawn only where measured.", cell(s.CornerMM, 2)),
 	}
-	f.Description = fmt.Sprintf("MTF at %s lp/mm against image height from 0 to %s mm, sagittal and tangential, from %d measurements",
-		joinNums(s.FreqsLPMM), cell(s.CornerMM, 2), len(s.Points))
+	f.Description = fmt.Sprintf("MTF at %s lp/mm against the distance from the optical centre, 0 to %s mm, one panel per frequency and orientation, from %d measurements",
+		joinNums(freqs), cell(s.CornerMM, 2), len(s.Points))
 	return f
+}
+
+// HeightColumn is the data-table (and CSV) column of the distance from the
+// optical centre.
+const HeightColumn = "Distance from the optical centre (mm)"
+
+// kindLegend returns the legend's marker entries for the kinds of target
+// present, in TargetKinds order.
+func kindLegend(present map[string]bool) []LegendEntry {
+	out := []LegendEntry{{Label: "Measured targets", Heading: true}}
+	for _, k := range TargetKinds {
+		if present[k] {
+			out = append(out, LegendEntry{Label: KindName(k), Colour: InkColour, Marker: KindMarker(k)})
+		}
+	}
+	if len(out) == 1 {
+		return nil
+	}
+	return out
+}
+
+// KindName is the legend word for a kind of target.
+func KindName(kind string) string {
+	switch kind {
+	case "star":
+		return "Star"
+	case "grating":
+		return "Grating"
+	}
+	return "Edge"
+}
+
+func sortedCopy(v []float64) []float64 {
+	out := append([]float64(nil), v...)
+	sort.Float64s(out)
+	return out
 }
 
 // joinNums lists numbers as "10 and 30" or "5, 10 and 20".
@@ -235,36 +290,25 @@ type CompareOptions struct {
 	Band bool
 }
 
-// Compare overlays the field curves of several photos (an aperture series,
-// two copies of a lens): one colour per photo (PhotoColours, in order),
-// orientation by line style (sagittal solid, tangential dashed) and
-// frequency by line weight. Points are left out to keep it readable.
+// Compare draws the field curves of several photos (an aperture series,
+// two copies of a lens) in the same grid as FieldCurves: one row per field
+// frequency, one column per orientation, the same axes in every panel, and
+// one colour per photo (PhotoColours, in order). Every line is solid and of
+// one weight. Points are left out to keep it readable.
 func Compare(photos []Photo, opt CompareOptions) *Figure {
 	f := &Figure{Title: "Field curves compared"}
-	pn := &Panel{X: Axis{Title: "Image height (mm)", Min: 0}, Y: Axis{Title: "MTF", Min: 0}}
-	f.Panels = []*Panel{pn}
 	f.Data = Table{
 		Caption: "Field curves of several photos: smooth-curve samples",
-		Columns: []string{"Photo", "Orientation", "Frequency (lp/mm)", "Image height (mm)", "MTF", "Band low", "Band high"},
+		Columns: []string{"Photo", "Orientation", "Frequency (lp/mm)", HeightColumn, "MTF", "Band low", "Band high"},
 	}
-	// The frequencies in play, coarse to fine, for the weights.
 	var freqs []float64
-	want := func(fr float64) bool {
-		if opt.FreqsLPMM == nil {
-			return true
-		}
-		for _, w := range opt.FreqsLPMM {
-			if w == fr {
-				return true
-			}
-		}
-		return false
-	}
+	want := func(fr float64) bool { return opt.FreqsLPMM == nil || contains(opt.FreqsLPMM, fr) }
+	corner := 0.0
 	for _, ph := range photos {
 		if ph.Summary == nil {
 			continue
 		}
-		pn.X.Max = math.Max(pn.X.Max, ph.Summary.CornerMM)
+		corner = math.Max(corner, ph.Summary.CornerMM)
 		for _, fr := range ph.Summary.FreqsLPMM {
 			if want(fr) && !contains(freqs, fr) {
 				freqs = append(freqs, fr)
@@ -272,47 +316,42 @@ func Compare(photos []Photo, opt CompareOptions) *Figure {
 		}
 	}
 	sort.Float64s(freqs)
-	if pn.X.Max == 0 {
-		pn.X.Max = 1
+	if corner == 0 {
+		corner = 1
 	}
+	grid := fieldGrid(f, freqs, corner)
 	var all [][]float64
 	f.Legend = append(f.Legend, LegendEntry{Label: "Photos", Heading: true})
 	for i, ph := range photos {
 		col := PhotoColours[i%len(PhotoColours)]
-		f.Legend = append(f.Legend, LegendEntry{Label: ph.Label, Colour: col, Width: CoarseWidth})
+		f.Legend = append(f.Legend, LegendEntry{Label: ph.Label, Colour: col, Width: LineWidth})
 		if ph.Summary == nil {
 			continue
 		}
 		for _, c := range ph.Summary.Curves {
-			r := indexOf(freqs, c.FreqLPMM)
-			if r < 0 {
+			r, k := indexOf(freqs, c.FreqLPMM), column(c.Orientation)
+			if r < 0 || k < 0 {
 				continue
 			}
-			var dash []float64
-			if c.Orientation == field.Tangential {
-				dash = tangentialDash
-			}
+			pn := grid[r][k]
 			v := floats(c.Value)
 			all = append(all, v)
 			name := fmt.Sprintf("%s: %s, %s lp/mm", ph.Label, orientationName(c.Orientation), fnum(c.FreqLPMM))
 			if opt.Band {
 				pn.Bands = append(pn.Bands, Band{Name: name + ", uncertainty band", X: c.HeightMM, Lo: floats(c.BandLo), Hi: floats(c.BandHi), Colour: translucent(col, bandAlpha/2)})
 			}
-			pn.Series = append(pn.Series, Series{Name: name, X: c.HeightMM, Y: v, Colour: col, Width: FreqWidth(r, len(freqs)), Dash: dash})
+			pn.Series = append(pn.Series, Series{Name: name, X: c.HeightMM, Y: v, Colour: col, Width: LineWidth})
 			for j, h := range c.HeightMM {
 				f.Data.Rows = append(f.Data.Rows, []string{ph.Label, string(c.Orientation), fnum(c.FreqLPMM), cell(h, 3), cell(v[j], 4), cell(float64(c.BandLo[j]), 4), cell(float64(c.BandHi[j]), 4)})
 			}
 		}
 	}
-	pn.Y.Max = mtfTop(all...)
-	f.Legend = append(f.Legend, LegendEntry{Label: "Line style", Heading: true},
-		LegendEntry{Label: "Sagittal", Colour: InkColour, Width: 1.8},
-		LegendEntry{Label: "Tangential", Colour: InkColour, Width: 1.8, Dash: tangentialDash})
-	for r, fr := range freqs {
-		f.Legend = append(f.Legend, LegendEntry{Label: fnum(fr) + " lp/mm", Colour: InkColour, Width: FreqWidth(r, len(freqs))})
+	setTop(grid, mtfTop(all...))
+	if opt.Band {
+		f.Legend = append(f.Legend, LegendEntry{Label: "curve ± 2 standard errors", Colour: translucent(InkColour, bandAlpha), Swatch: true})
 	}
-	f.Notes = []string{"Curves are smoothed (LOWESS) and drawn only where measured; height runs to the largest frame corner."}
-	f.Description = fmt.Sprintf("Field curves of %d photos at %s lp/mm against image height, sagittal and tangential", len(photos), joinNums(freqs))
+	f.Notes = []string{"Rows: field frequencies; columns: orientations; every panel has the same axes, out to the largest frame corner. Curves are smoothed and drawn only where measured."}
+	f.Description = fmt.Sprintf("Field curves of %d photos at %s lp/mm against the distance from the optical centre, one panel per frequency and orientation, one colour per photo", len(photos), joinNums(freqs))
 	return f
 }
 
@@ -327,24 +366,26 @@ func indexOf(v []float64, x float64) int {
 	return -1
 }
 
-// Astigmatism plots sagittal minus tangential MTF against image height at
-// each field frequency (weight by frequency), with its uncertainty band
-// when opt.Band is set and the largest notable gap marked.
+// Astigmatism plots sagittal minus tangential MTF against the distance
+// from the optical centre, one small panel per field frequency side by side
+// on the same axes, with its uncertainty band when opt.Band is set and the
+// largest notable gap marked with the ReadingMarker.
 func Astigmatism(s *field.Summary, opt FieldOptions) *Figure {
 	f := &Figure{Title: titled("Astigmatism (sagittal minus tangential)", opt.Label)}
-	pn := &Panel{
-		X: Axis{Title: "Image height (mm)", Min: 0, Max: s.CornerMM},
-		Y: Axis{Title: "Sagittal - tangential MTF"},
-	}
-	f.Panels = []*Panel{pn}
 	f.Data = Table{
-		Caption: "Sagittal minus tangential MTF against image height",
-		Columns: []string{"Frequency (lp/mm)", "Image height (mm)", "Gap (S - T)", "Band low", "Band high"},
+		Caption: "Sagittal minus tangential MTF against the distance from the optical centre",
+		Columns: []string{"Frequency (lp/mm)", HeightColumn, "Gap (S - T)", "Band low", "Band high"},
 	}
-	rank := rankOf(s.FreqsLPMM)
 	top := 0.2
+	marked := false
 	for _, a := range s.Astigmatism {
-		r := rank[indexOf(s.FreqsLPMM, a.FreqLPMM)]
+		pn := &Panel{
+			Title: fnum(a.FreqLPMM) + " lp/mm",
+			X:     Axis{Title: HeightAxisTitle, Min: 0, Max: s.CornerMM},
+			Y:     Axis{Title: "Sagittal - tangential MTF"},
+			Refs:  []RefLine{{At: 0, Colour: ReferenceColour, Width: 1}},
+		}
+		f.Panels = append(f.Panels, pn)
 		g := floats(a.Gap)
 		lo, hi := floats(a.BandLo), floats(a.BandHi)
 		for i := range g {
@@ -357,26 +398,31 @@ func Astigmatism(s *field.Summary, opt FieldOptions) *Figure {
 		if opt.Band {
 			pn.Bands = append(pn.Bands, Band{Name: name + ", uncertainty band", X: a.HeightMM, Lo: lo, Hi: hi, Colour: translucent(InkColour, bandAlpha/2)})
 		}
-		pn.Series = append(pn.Series, Series{Name: name, X: a.HeightMM, Y: g, Colour: InkColour, Width: FreqWidth(r, len(s.FreqsLPMM))})
+		pn.Series = append(pn.Series, Series{Name: name, X: a.HeightMM, Y: g, Colour: InkColour, Width: LineWidth})
 		if a.Notable {
-			pn.Marks = append(pn.Marks, Mark{X: a.MaxGapHeightMM, Y: a.MaxGap, Marker: Diamond, Size: 4.5, Colour: InkColour,
-				Label: fmt.Sprintf("%+.2f at %s lp/mm", a.MaxGap, fnum(a.FreqLPMM))})
+			marked = true
+			pn.Marks = append(pn.Marks, Mark{X: a.MaxGapHeightMM, Y: a.MaxGap, Marker: ReadingMarker, Size: 4, Colour: InkColour,
+				Label: fmt.Sprintf("%+.2f", a.MaxGap)})
 		}
 		for i, h := range a.HeightMM {
 			f.Data.Rows = append(f.Data.Rows, []string{fnum(a.FreqLPMM), cell(h, 3), cell(g[i], 4), cell(lo[i], 4), cell(hi[i], 4)})
 		}
-		f.Legend = append(f.Legend, LegendEntry{Label: fnum(a.FreqLPMM) + " lp/mm", Colour: InkColour, Width: FreqWidth(r, len(s.FreqsLPMM))})
 	}
 	top = math.Min(1, math.Ceil(top*10-1e-9)/10)
-	pn.Y.Min, pn.Y.Max = -top, top
-	pn.Refs = []RefLine{{At: 0, Colour: ReferenceColour, Width: 1}}
-	if len(pn.Marks) > 0 {
-		f.Legend = append(f.Legend, LegendEntry{Label: "Largest notable gap", Colour: InkColour, Marker: Diamond})
+	for _, pn := range f.Panels {
+		pn.Y.Min, pn.Y.Max = -top, top
+	}
+	if len(f.Panels) == 0 {
+		f.Panels = []*Panel{{X: Axis{Title: HeightAxisTitle, Min: 0, Max: math.Max(1, s.CornerMM)}, Y: Axis{Title: "Sagittal - tangential MTF", Min: -top, Max: top}}}
+	}
+	f.Legend = append(f.Legend, LegendEntry{Label: "Sagittal - tangential", Colour: InkColour, Width: LineWidth})
+	if marked {
+		f.Legend = append(f.Legend, LegendEntry{Label: "Largest notable gap", Colour: InkColour, Marker: ReadingMarker})
 	}
 	if opt.Band {
-		f.Legend = append(f.Legend, LegendEntry{Label: "Band: gap +/- 2 SE", Colour: translucent(InkColour, bandAlpha), Swatch: true})
+		f.Legend = append(f.Legend, LegendEntry{Label: "gap ± 2 standard errors", Colour: translucent(InkColour, bandAlpha), Swatch: true})
 	}
-	f.Notes = []string{"Above zero: sagittal detail is sharper; below zero: tangential detail is sharper. Drawn where both curves exist."}
-	f.Description = fmt.Sprintf("Sagittal minus tangential MTF against image height from 0 to %s mm", cell(s.CornerMM, 2))
+	f.Notes = []string{"One panel per field frequency, same axes. Above zero: sagittal detail is sharper; below zero: tangential detail is sharper. Drawn where both curves exist."}
+	f.Description = fmt.Sprintf("Sagittal minus tangential MTF against the distance from the optical centre, 0 to %s mm, one panel per field frequency", cell(s.CornerMM, 2))
 	return f
 }

@@ -5,14 +5,17 @@
 // for screen readers and CSV export.
 //
 // Builders make the plots of the project: FieldCurves (MTF at the field
-// frequencies against image height), Compare (several photos' field curves
-// overlaid), Map (MTF50 over the frame), Astigmatism (sagittal minus
-// tangential) and Target (one target's ESF, LSF and MTF, with Nyquist and the
-// diffraction limit).
+// frequencies against the distance from the optical centre), Compare
+// (several photos' field curves, one colour per photo), Map (the MTF50 map:
+// MTF50 interpolated over the frame), Astigmatism (sagittal minus
+// tangential) and Target (one target's ESF, LSF and MTF, with Nyquist and
+// the perfect-lens reference).
 //
-// The visual code is the project's own (UX.md; see colour.go): orientation
-// by hue, field frequency by line weight, edges and stars by marker shape,
-// and a sequential colour scale designed in OKLab (B. Ottosson, 2020,
+// The visual code is the project's own (see colour.go): field frequencies
+// and orientations in small panels on the same axes (one row per
+// frequency, one column per orientation), one colour per photo when photos
+// are compared, one marker shape per kind of target in every plot, one line
+// weight, dashes only for reference curves, and a sequential colour scale designed in OKLab (B. Ottosson, 2020,
 // https://bottosson.github.io/posts/oklab/) for maps. Axis ticks use the
 // "nice numbers" rule of P. S. Heckbert, "Nice numbers for graph labels",
 // Graphics Gems (1990) 61-63.
@@ -39,8 +42,10 @@ type Figure struct {
 	// Width and Height are the size in px (CSS px in the SVG, pixels at
 	// scale 1 in the PNG); zero means DefaultWidth x DefaultHeight.
 	Width, Height float64
-	// Panels are drawn left to right, sharing the width equally.
-	Panels []*Panel
+	// Panels are drawn left to right, sharing the width equally, in rows
+	// of Columns panels (0: all in one row) sharing the height equally.
+	Panels  []*Panel
+	Columns int
 	// Legend lists the visual code of the figure, top to bottom in a
 	// column at the right, or left to right under the panels when
 	// LegendBelow is set (for wide panels such as maps).
@@ -79,7 +84,8 @@ type Panel struct {
 	Marks []Mark
 }
 
-// Axis is a linear axis. Its title carries the unit, e.g. "Image height (mm)".
+// Axis is a linear axis. Its title carries the unit, e.g. "distance from
+// the optical centre (mm)".
 type Axis struct {
 	Title    string
 	Min, Max float64
@@ -94,7 +100,9 @@ type Axis struct {
 // Marker is the shape drawn at a data point.
 type Marker uint8
 
-// Marker shapes: edges and stars get different shapes (UX.md).
+// Marker shapes. Each keeps one meaning in every plot: a kind of target
+// (circle edge, triangle star, diamond grating), a value read off a curve
+// (square: MTF50, the largest gap) or the optical centre (cross).
 const (
 	NoMarker Marker = iota
 	Circle
@@ -105,11 +113,14 @@ const (
 )
 
 // EdgeMarker, StarMarker and GratingMarker are the shapes of the kinds of
-// target.
+// target; ReadingMarker marks a value read off a curve; CentreMarker marks
+// the optical centre.
 const (
 	EdgeMarker    = Circle
 	StarMarker    = Triangle
 	GratingMarker = Diamond
+	ReadingMarker = Square
+	CentreMarker  = Cross
 )
 
 // TargetKinds lists the kinds of target in drawing order.

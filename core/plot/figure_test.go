@@ -84,11 +84,11 @@ func testFigures(t testing.TB) map[string]*Figure {
 	s := testSummary(t, 6000, 4000, 6, 60, 1, 0)
 	s2 := testSummary(t, 6000, 4000, 6, 60, 2, 0.02)
 	return map[string]*Figure{
-		"field-curves":  FieldCurves(s, FieldOptions{Label: "sample.png", Band: true}),
-		"compare":       Compare([]Photo{{"f/2.8", s}, {"f/5.6", s2}}, CompareOptions{}),
-		"sharpness-map": Map(s, MapOptions{Label: "sample.png"}),
-		"astigmatism":   Astigmatism(s, FieldOptions{Band: true}),
-		"target":        Target(testTarget(), TargetOptions{}),
+		"field-curves": FieldCurves(s, FieldOptions{Label: "sample.png", Band: true}),
+		"compare":      Compare([]Photo{{"f/2.8", s}, {"f/5.6", s2}}, CompareOptions{}),
+		"mtf50-map":    Map(s, MapOptions{Label: "sample.png"}),
+		"astigmatism":  Astigmatism(s, FieldOptions{Band: true}),
+		"target":       Target(testTarget(), TargetOptions{}),
 	}
 }
 
@@ -98,9 +98,23 @@ func testFigures(t testing.TB) map[string]*Figure {
 func TestFieldCurvesAxis(t *testing.T) {
 	s := testSummary(t, 6000, 4000, 6, 80, 3, 0)
 	f := FieldCurves(s, FieldOptions{})
+	// A 2 x 2 grid: rows 10 then 30 lp/mm, columns sagittal then
+	// tangential, the same axes in every panel.
+	wantTitles := []string{"10 lp/mm · sagittal", "10 lp/mm · tangential", "30 lp/mm · sagittal", "30 lp/mm · tangential"}
+	if len(f.Panels) != 4 || f.Columns != 2 {
+		t.Fatalf("%d panels in %d columns, want 4 in 2", len(f.Panels), f.Columns)
+	}
+	for i, pn := range f.Panels {
+		if pn.Title != wantTitles[i] {
+			t.Errorf("panel %d titled %q, want %q", i, pn.Title, wantTitles[i])
+		}
+		if a, b := pn.X, f.Panels[0].X; a.Min != b.Min || a.Max != b.Max || a.Title != b.Title || pn.Y.Min != f.Panels[0].Y.Min || pn.Y.Max != f.Panels[0].Y.Max {
+			t.Errorf("panel %q has axes %+v %+v, not those of the first", pn.Title, pn.X, pn.Y)
+		}
+	}
 	x := f.Panels[0].X
-	if x.Min != 0 || math.Abs(x.Max-21.63) > 0.005 {
-		t.Errorf("height axis %g..%g mm, want 0..21.63", x.Min, x.Max)
+	if x.Min != 0 || math.Abs(x.Max-21.63) > 0.005 || x.Title != HeightAxisTitle {
+		t.Errorf("height axis %q %g..%g mm, want 0..21.63", x.Title, x.Min, x.Max)
 	}
 	if !strings.Contains(f.Description, "21.63") {
 		t.Errorf("description does not give the corner: %q", f.Description)
@@ -112,20 +126,25 @@ func TestFieldCurvesAxis(t *testing.T) {
 			t.Errorf("table row at height %g outside the axis: %v", h, r)
 		}
 	}
-	// Orientation by hue, frequency by weight, kinds by marker.
+	// Each panel holds its own frequency and orientation; kinds by marker.
 	var sawStar, sawEdge bool
-	for _, se := range f.Panels[0].Series {
-		if se.Marker == StarMarker {
-			sawStar = true
-		}
-		if se.Marker == EdgeMarker {
-			sawEdge = true
-		}
-		if se.Width > 0 && strings.Contains(se.Name, "10 lp/mm") && se.Width != CoarseWidth {
-			t.Errorf("%s drawn %g px, want the coarse weight %g", se.Name, se.Width, CoarseWidth)
-		}
-		if se.Width > 0 && strings.Contains(se.Name, "Sagittal") && se.Colour != SagittalColour {
-			t.Errorf("%s not in the sagittal hue", se.Name)
+	for i, pn := range f.Panels {
+		fr := strings.Split(wantTitles[i], " ")[0] + " lp/mm"
+		or := strings.Fields(wantTitles[i])[3]
+		for _, se := range pn.Series {
+			if se.Marker == StarMarker {
+				sawStar = true
+			}
+			if se.Marker == EdgeMarker {
+				sawEdge = true
+			}
+			name := strings.ToLower(se.Name)
+			if !strings.Contains(name, fr) || !(strings.Contains(name, or) || strings.HasPrefix(name, "mixed")) {
+				t.Errorf("panel %q holds %q", pn.Title, se.Name)
+			}
+			if se.Width > 0 && strings.Contains(se.Name, "Sagittal") && se.Colour != SagittalColour {
+				t.Errorf("%s not in the sagittal hue", se.Name)
+			}
 		}
 	}
 	if !sawStar || !sawEdge {
@@ -251,20 +270,42 @@ func TestTables(t *testing.T) {
 	}
 }
 
-// TestCompareCode: one colour per photo; tangential dashed, sagittal solid.
+// TestCompareCode: one colour per photo, in the panel of the curve's
+// frequency and orientation; every line solid.
 func TestCompareCode(t *testing.T) {
 	f := testFigures(t)["compare"]
-	for _, se := range f.Panels[0].Series {
-		photo := 0
-		if strings.HasPrefix(se.Name, "f/5.6") {
-			photo = 1
+	if len(f.Panels) != 4 || f.Columns != 2 {
+		t.Fatalf("%d panels in %d columns", len(f.Panels), f.Columns)
+	}
+	n := 0
+	for _, pn := range f.Panels {
+		for _, se := range pn.Series {
+			n++
+			photo := 0
+			if strings.HasPrefix(se.Name, "f/5.6") {
+				photo = 1
+			}
+			if se.Colour != PhotoColours[photo] {
+				t.Errorf("%s in %v, want photo colour %d", se.Name, se.Colour, photo)
+			}
+			if se.Dash != nil || se.Width != LineWidth {
+				t.Errorf("%s: dash %v width %g", se.Name, se.Dash, se.Width)
+			}
+			title := strings.ReplaceAll(pn.Title, " · ", ", ")
+			if !strings.Contains(strings.ToLower(se.Name), strings.ToLower(strings.SplitN(title, ", ", 2)[1])) || !strings.Contains(se.Name, strings.SplitN(title, ", ", 2)[0]) {
+				t.Errorf("panel %q holds %q", pn.Title, se.Name)
+			}
 		}
-		if se.Colour != PhotoColours[photo] {
-			t.Errorf("%s in %v, want photo colour %d", se.Name, se.Colour, photo)
-		}
-		if strings.Contains(se.Name, "Tangential") != (se.Dash != nil) {
-			t.Errorf("%s: dash %v", se.Name, se.Dash)
-		}
+	}
+	if n != 8 {
+		t.Errorf("%d curves, want 2 photos x 2 frequencies x 2 orientations", n)
+	}
+}
+
+// TestReferenceWording: one wording for the reference curve everywhere.
+func TestReferenceWording(t *testing.T) {
+	if w := ReferenceWording(2.8); w != "a perfect lens at f/2.8: diffraction (550 nm) × pixel area" {
+		t.Errorf("wording %q", w)
 	}
 }
 

@@ -14,7 +14,7 @@ type MapOptions struct {
 	Label string
 }
 
-// Map plots MTF50 over the frame: the interpolated grid of s.Map on the
+// Map plots the MTF50 map, MTF50 interpolated over the frame: the interpolated grid of s.Map on the
 // SharpnessScale (dark = soft, light = sharp) with its colour key, grey
 // cells where nothing was measured nearby, every measurement marked by its
 // kind's shape, and the optical centre marked with a cross. Axes are mm on
@@ -23,7 +23,7 @@ type MapOptions struct {
 func Map(s *field.Summary, opt MapOptions) *Figure {
 	mm := s.PitchUM / 1000
 	wmm, hmm := float64(s.WidthPx)*mm, float64(s.HeightPx)*mm
-	f := &Figure{Title: titled("Sharpness map (MTF50)", opt.Label), LegendBelow: true}
+	f := &Figure{Title: titled("MTF50 map", opt.Label), LegendBelow: true}
 	// Height for the frame's aspect at the default width: the plot area is
 	// the width less the margins and the colour key, plus title, axis,
 	// legend and note bands; at most 900 px (portrait frames then narrow).
@@ -70,7 +70,7 @@ func Map(s *field.Summary, opt MapOptions) *Figure {
 			pn.Series = append(pn.Series, Series{Name: "Measured " + kind + "s", X: xs, Y: ys, Colour: InkColour, Marker: KindMarker(kind), MarkerSize: 2.4, Open: true})
 		}
 	}
-	pn.Marks = []Mark{{X: s.CentrePx[0] * mm, Y: s.CentrePx[1] * mm, Marker: Cross, Size: 7, Colour: InkColour, Label: "optical centre"}}
+	pn.Marks = []Mark{{X: s.CentrePx[0] * mm, Y: s.CentrePx[1] * mm, Marker: CentreMarker, Size: 7, Colour: InkColour, Label: "optical centre"}}
 
 	f.Legend = []LegendEntry{{Label: "Edge", Colour: InkColour, Marker: EdgeMarker, Open: true}}
 	if stars {
@@ -80,7 +80,7 @@ func Map(s *field.Summary, opt MapOptions) *Figure {
 		f.Legend = append(f.Legend, LegendEntry{Label: "Grating", Colour: InkColour, Marker: GratingMarker, Open: true})
 	}
 	f.Legend = append(f.Legend,
-		LegendEntry{Label: "Optical centre", Colour: InkColour, Marker: Cross},
+		LegendEntry{Label: "Optical centre", Colour: InkColour, Marker: CentreMarker},
 		LegendEntry{Label: "Nothing measured near", Colour: MaskColour, Swatch: true})
 	lo, hi := math.NaN(), math.NaN()
 	if s.Map != nil {
@@ -89,7 +89,7 @@ func Map(s *field.Summary, opt MapOptions) *Figure {
 			LegendEntry{Label: "Soft: " + cell(lo, 0) + " lp/mm", Colour: SharpnessScale.At(0), Swatch: true},
 			LegendEntry{Label: "Sharp: " + cell(hi, 0) + " lp/mm", Colour: SharpnessScale.At(1), Swatch: true})
 	}
-	f.Notes = []string{"Mean of sagittal and tangential MTF50, each interpolated between measurements (modified Shepard): between targets the values are not measured."}
+	f.Notes = []string{"Mean of sagittal and tangential MTF50, each interpolated between measurements: between targets the values are not measured, only estimated."}
 	f.Description = fmt.Sprintf("MTF50 over the %s x %s mm frame from %d measurements, from %s to %s lp/mm",
 		cell(wmm, 1), cell(hmm, 1), len(s.Points), cell(lo, 0), cell(hi, 0))
 	return f

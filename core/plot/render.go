@@ -58,10 +58,16 @@ func (f *Figure) render(c draw.Canvas) {
 	}
 	area := box{0, titleBand, w - lw, h - nh - lh}
 	if n := len(f.Panels); n > 0 {
-		pw := area.w() / float64(n)
+		cols := f.Columns
+		if cols <= 0 || cols > n {
+			cols = n
+		}
+		rows := (n + cols - 1) / cols
+		pw, ph := area.w()/float64(cols), area.h()/float64(rows)
 		for i, pn := range f.Panels {
+			x0, y0 := area.x0+float64(i%cols)*pw, area.y0+float64(i/cols)*ph
 			draw.BeginGroup(c, "", panelName(pn, i))
-			pn.render(c, box{area.x0 + float64(i)*pw, area.y0, area.x0 + float64(i+1)*pw, area.y1})
+			pn.render(c, box{x0, y0, x0 + pw, y0 + ph})
 			draw.EndGroup(c)
 		}
 	}

@@ -23,13 +23,13 @@ type TargetData struct {
 	ESFX, ESFV []float64
 	// LSFX, LSFV: the line spread function, px, peak 1.
 	LSFX, LSFV []float64
-	// Freq and MTF: the response, frequency in cycles/pixel.
+	// Freq and MTF: the response, frequency in cy/px.
 	Freq, MTF []float64
-	// MTF50 in cycles/pixel (NaN when not reached).
+	// MTF50 in cy/px (NaN when not reached).
 	MTF50 float64
-	// PitchUM is the pixel pitch, um (for lp/mm and the reference).
+	// PitchUM is the pixel pitch, um (for lp/mm and the reference curve).
 	PitchUM float64
-	// FNumber is the lens's f-number for the diffraction reference; 0
+	// FNumber is the lens's f-number for the reference curve; 0
 	// leaves the reference out.
 	FNumber float64
 }
@@ -37,8 +37,15 @@ type TargetData struct {
 // TargetOptions tune Target.
 type TargetOptions struct {
 	// LPMM puts the MTF panel's frequency axis in lp/mm on the sensor
-	// instead of cycles/pixel (needs PitchUM).
+	// instead of cy/px (needs PitchUM).
 	LPMM bool
+}
+
+// ReferenceWording names the reference curve in every plot and on the
+// page: "a perfect lens at f/N: diffraction (550 nm) × pixel area" (the
+// curve itself is core/optics's PerfectLens).
+func ReferenceWording(fNumber float64) string {
+	return fmt.Sprintf("a perfect lens at f/%s: diffraction (%s nm) × pixel area", fnum(fNumber), fnum(optics.WavelengthUM*1000))
 }
 
 // TargetFromMeasurement gathers the target plot's data from a measurement
@@ -63,14 +70,14 @@ func TargetFromMeasurement(m analyze.Measurement, img *analyze.Image) TargetData
 }
 
 // Target plots one target in three panels: its edge profile (ESF), the
-// profile's derivative (LSF) and its MTF with Nyquist (0.5 cycles/pixel)
-// and MTF50 marked, and, when the f-number is known, a perfect lens at that
-// f-number on this sensor as a reference (optics.PerfectLens: diffraction
-// times the pixel aperture, the system MTF an unsharpened file can reach at
-// best), so a measured curve normally lies below it.
+// profile's derivative (LSF) and its MTF with Nyquist (0.5 cy/px, a solid
+// vertical line) and MTF50 marked, and, when the f-number is known, the
+// reference curve (dashed): a perfect lens at that f-number, diffraction
+// times the pixel area (core/optics). Processing is not in it, so a
+// measured curve normally lies below it.
 func Target(t TargetData, opt TargetOptions) *Figure {
 	col := OrientationColour(t.Orientation)
-	desc := fmt.Sprintf("%s, %s, %s mm from the centre", t.Title, lower(orientationName(t.Orientation)), cell(t.HeightMM, 1))
+	desc := fmt.Sprintf("%s, %s, %s mm from the optical centre", t.Title, lower(orientationName(t.Orientation)), cell(t.HeightMM, 1))
 	f := &Figure{Title: "Target detail: " + desc, Width: 980, Height: 420}
 	f.Data = Table{
 		Caption: "Edge profile, its derivative and the MTF of " + t.Title,
@@ -88,17 +95,17 @@ func Target(t TargetData, opt TargetOptions) *Figure {
 		X: Axis{Title: "Distance from the edge (px)", Min: xlo, Max: xhi},
 		Y: Axis{Title: "Level (dark 0, light 1)", Min: math.Min(-0.1, elo), Max: math.Max(1.1, ehi)},
 	}
-	esf.Series = []Series{{Name: "Edge profile", X: t.ESFX, Y: t.ESFV, Colour: col, Width: 1.8}}
+	esf.Series = []Series{{Name: "Edge profile", X: t.ESFX, Y: t.ESFV, Colour: col, Width: LineWidth}}
 	llo, _ := rangeOf(t.LSFV)
 	lsf := &Panel{Title: "Line spread (LSF)",
 		X: Axis{Title: "Distance from the edge (px)", Min: xlo, Max: xhi},
 		Y: Axis{Title: "Derivative (peak 1)", Min: math.Min(-0.2, llo), Max: 1.1},
 	}
-	lsf.Series = []Series{{Name: "Line spread", X: t.LSFX, Y: t.LSFV, Colour: col, Width: 1.8}}
+	lsf.Series = []Series{{Name: "Line spread", X: t.LSFX, Y: t.LSFV, Colour: col, Width: LineWidth}}
 	lsf.Refs = []RefLine{{At: 0, Colour: GridColour, Width: 1}}
 
 	// MTF panel.
-	unit, scale := "cycles/pixel", 1.0
+	unit, scale := "cy/px", 1.0
 	if opt.LPMM && t.PitchUM > 0 {
 		unit, scale = "lp/mm", 1000/t.PitchUM
 	}
@@ -114,8 +121,8 @@ func Target(t TargetData, opt TargetOptions) *Figure {
 		X: Axis{Title: "Frequency (" + unit + ")", Min: 0, Max: fmax * scale},
 		Y: Axis{Title: "MTF", Min: 0, Max: mtfTop(t.MTF)},
 	}
-	mtf.Refs = []RefLine{{Vertical: true, At: 0.5 * scale, Label: "Nyquist", Colour: ReferenceColour, Dash: nyquistDash, Width: 1.4}}
-	f.Legend = []LegendEntry{{Label: "Measured, " + lower(orientationName(t.Orientation)), Colour: col, Width: 1.8}}
+	mtf.Refs = []RefLine{{Vertical: true, At: 0.5 * scale, Label: "Nyquist", Colour: NyquistColour, Width: 1.2}}
+	f.Legend = []LegendEntry{{Label: "Measured, " + lower(orientationName(t.Orientation)), Colour: col, Width: LineWidth}}
 	if t.FNumber > 0 && t.PitchUM > 0 {
 		var dx, vs []float64
 		for i := 0; i <= 100; i++ {
@@ -126,16 +133,16 @@ func Target(t TargetData, opt TargetOptions) *Figure {
 		for i := range dx {
 			f.Data.Rows = append(f.Data.Rows, []string{"Perfect lens", cell(dx[i], 4), unit, cell(dy[i], 4)})
 		}
-		mtf.Series = append(mtf.Series, Series{Name: fmt.Sprintf("Perfect lens at f/%s", fnum(t.FNumber)), X: dx, Y: dy, Colour: ReferenceColour, Width: 1.4, Dash: referenceDash})
-		f.Legend = append(f.Legend, LegendEntry{Label: fmt.Sprintf("Perfect lens, f/%s", fnum(t.FNumber)), Colour: ReferenceColour, Width: 1.4, Dash: referenceDash})
-		f.Notes = append(f.Notes, fmt.Sprintf("Perfect lens: diffraction at f/%s in %s µm light times the pixel's own area; a measured curve above it was sharpened.", fnum(t.FNumber), fnum(optics.WavelengthUM)))
+		mtf.Series = append(mtf.Series, Series{Name: "Reference: " + ReferenceWording(t.FNumber), X: dx, Y: dy, Colour: ReferenceColour, Width: 1.4, Dash: referenceDash})
+		f.Legend = append(f.Legend, LegendEntry{Label: fmt.Sprintf("Perfect lens at f/%s", fnum(t.FNumber)), Colour: ReferenceColour, Width: 1.4, Dash: referenceDash})
+		f.Notes = append(f.Notes, "Reference: "+ReferenceWording(t.FNumber)+"; processing is not in it, so a measured curve above it was sharpened.")
 	}
-	mtf.Series = append(mtf.Series, Series{Name: "Measured MTF", X: xs, Y: t.MTF, Colour: col, Width: 1.8})
-	f.Legend = append(f.Legend, LegendEntry{Label: "Nyquist, 0.5 cycles/pixel", Colour: ReferenceColour, Width: 1.4, Dash: nyquistDash})
+	mtf.Series = append(mtf.Series, Series{Name: "Measured MTF", X: xs, Y: t.MTF, Colour: col, Width: LineWidth})
+	f.Legend = append(f.Legend, LegendEntry{Label: "Nyquist, 0.5 cy/px", Colour: NyquistColour, Width: 1.2})
 	if !math.IsNaN(t.MTF50) && t.MTF50 > 0 {
-		mtf.Marks = []Mark{{X: t.MTF50 * scale, Y: 0.5, Marker: Circle, Size: 4, Colour: InkColour,
+		mtf.Marks = []Mark{{X: t.MTF50 * scale, Y: 0.5, Marker: ReadingMarker, Size: 4, Colour: InkColour,
 			Label: "MTF50 " + cell(t.MTF50*scale, unitDecimals(unit)) + " " + shortUnit(unit)}}
-		f.Legend = append(f.Legend, LegendEntry{Label: "MTF50", Colour: InkColour, Marker: Circle})
+		f.Legend = append(f.Legend, LegendEntry{Label: "MTF50", Colour: InkColour, Marker: ReadingMarker})
 	}
 	f.Panels = []*Panel{esf, lsf, mtf}
 	for i := range t.ESFX {
@@ -159,12 +166,7 @@ func unitDecimals(unit string) int {
 	return 3
 }
 
-func shortUnit(unit string) string {
-	if unit == "cycles/pixel" {
-		return "cy/px"
-	}
-	return unit
-}
+func shortUnit(unit string) string { return unit }
 
 func lower(s string) string {
 	if s == "" {

@@ -63,7 +63,11 @@ test('an aperture series: compare sorted by f-number, rename, printable report',
   const label = page.locator('.pick li:nth-child(1) input[type=text]');
   await label.fill('wide open');
   await label.press('Enter');
-  await page.waitForFunction(() => [...document.querySelectorAll('#place-compare .legend li')].some((l) => l.textContent.startsWith('wide open')));
+  // The core's figure (core/plot Compare) names the photos in its legend:
+  // a grid of one panel per field frequency and orientation.
+  await page.waitForFunction(() => [...document.querySelectorAll('#place-compare .core-figure svg text')].some((t) => t.textContent === 'wide open'));
+  const panels = await page.$$eval('#place-compare .core-figure svg text', (ts) => ts.map((t) => t.textContent).filter((t) => / lp\/mm · (sagittal|tangential)$/.test(t)));
+  assert.deepEqual(panels, ['10 lp/mm · sagittal', '10 lp/mm · tangential', '30 lp/mm · sagittal', '30 lp/mm · tangential']);
   await shot(page, '22-compare', { fullPage: true });
 
   // The printable report of the selected photo, as the browser prints it.

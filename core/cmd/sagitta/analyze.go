@@ -13,6 +13,7 @@ import (
 	"strings"
 
 	"sagitta/core/analyze"
+	"sagitta/core/plan"
 )
 
 // errHelp is returned after a command printed its own help.
@@ -23,7 +24,7 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 	fs.SetOutput(stdout)
 	var (
 		s        analyze.Settings
-		sensor   = fs.String("sensor", "", "sensor size in mm, WxH (e.g. 36x24); sets the pitch from the image width")
+		sensor   = fs.String("sensor", "", "sensor size in mm as WxH (e.g. 36x24), or "+plan.SensorNames()+"; sets the pitch from the image width")
 		center   = fs.String("center", "", "optical centre in px, X,Y (default: the image centre)")
 		freqs    = fs.String("freqs", "", "field frequencies in lp/mm, comma separated (default 10,30)")
 		asJSON   = fs.Bool("json", false, "print the results as JSON")
@@ -37,7 +38,7 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 	fs.StringVar(&s.Method, "method", "", "edge estimator: refined (default) or iso (the published ISO 12233 procedure)")
 	fs.Usage = func() {
 		fmt.Fprintln(stdout, "usage: sagitta analyze [options] PHOTO...")
-		fs.PrintDefaults()
+		printOptions(fs, stdout)
 	}
 	if err := parseFlags(fs, args); err != nil {
 		return err
@@ -50,8 +51,11 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 	}
 	var err error
 	if *sensor != "" {
-		if s.SensorMM, err = pair(*sensor, "x"); err != nil {
-			return fmt.Errorf("%w: --sensor: %v", errUsage, err)
+		var ok bool
+		if s.SensorMM, ok = plan.SensorByName(*sensor); !ok {
+			if s.SensorMM, err = pair(*sensor, "x"); err != nil {
+				return fmt.Errorf("%w: --sensor: %v, nor one of %s", errUsage, err, plan.SensorNames())
+			}
 		}
 	}
 	if *center != "" {
@@ -139,7 +143,8 @@ func writeText(w io.Writer, res analyze.Result) error {
 				a.RMSDiff, a.LoCyPx, a.HiCyPx, a.MeanDiff)
 		}
 		if len(img.Measurements) > 0 {
-			fmt.Fprintf(w, "%4s %-7s %8s %8s %9s %-10s %11s %11s", "id", "kind", "x px", "y px", "height mm", "orient.", "MTF50 cy/px", "MTF50 lp/mm")
+			fmt.Fprintln(w, "columns: dist. mm = distance from the optical centre (mm); orient. = orientation; @F lp/mm = MTF at F lp/mm")
+			fmt.Fprintf(w, "%4s %-7s %8s %8s %9s %-10s %11s %11s", "id", "kind", "x px", "y px", "dist. mm", "orient.", "MTF50 cy/px", "MTF50 lp/mm")
 			for _, f := range img.FreqsLPMM {
 				fmt.Fprintf(w, " %9s", "@"+num(f)+" lp/mm")
 			}
@@ -150,7 +155,7 @@ func writeText(w io.Writer, res analyze.Result) error {
 				for _, v := range m.MTFAtFreqs {
 					fmt.Fprintf(w, " %9s", fix(float64(v), 3))
 				}
-				fmt.Fprintf(w, "  %s\n", strings.Join(m.Warnings, "; "))
+				fmt.Fprintf(w, "  %s\n", strings.Join(append(beyondNotes(m, img), m.Warnings...), "; "))
 			}
 		}
 		for _, warn := range img.Warnings {
@@ -159,6 +164,37 @@ func writeText(w io.Writer, res analyze.Result) error {
 		fmt.Fprintln(w)
 	}
 	return nil
+}
+
+// beyondNotes says why a star's or gratings' MTF at a field frequency is
+// n/a: the frequency lies outside those the pattern measured.
+func beyondNotes(m analyze.Measurement, img *analyze.Image) []string {
+	if m.MeasuredCyPx == nil || !(img.PitchUM > 0) {
+		return nil
+	}
+	var beyond []float64
+	for i, v := range m.MTFAtFreqs {
+		if math.IsNaN(float64(v)) && i < len(img.FreqsLPMM) {
+			beyond = append(beyond, img.FreqsLPMM[i])
+		}
+	}
+	if len(beyond) == 0 {
+		return nil
+	}
+	at := make([]string, len(beyond))
+	for i, f := range beyond {
+		at[i] = num(f)
+	}
+	lo, hi := m.MeasuredCyPx[0]*1000/img.PitchUM, m.MeasuredCyPx[1]*1000/img.PitchUM
+	return []string{fmt.Sprintf("n/a at %s lp/mm: beyond the frequencies this %s measured (%.0f-%.0f lp/mm)", strings.Join(at, " and "), kindNoun(m.Kind), lo, hi)}
+}
+
+// kindNoun names a kind of target in a sentence.
+func kindNoun(kind string) string {
+	if kind == "grating" {
+		return "set of gratings"
+	}
+	return kind
 }
 
 func num(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }

@@ -46,7 +46,7 @@ func cmdChart(args []string, stdout io.Writer) error {
 		fmt.Fprintln(stdout, "usage: sagitta chart [options] -o chart.pdf|chart.svg|chart.png")
 		fmt.Fprintln(stdout, "Draws the printable test chart for your sheet and printer. Print it at 100 % (no fit to page),")
 		fmt.Fprintln(stdout, "measure the 100 mm ruler, and if it is off, draw again with --ruler-measured-mm.")
-		fs.PrintDefaults()
+		printOptions(fs, stdout)
 	}
 	if err := parseFlags(fs, args); err != nil {
 		return err

@@ -17,8 +17,8 @@ func cmdDemo(args []string, stdout io.Writer) error {
 	out := fs.String("o", "demo.jpg", "output file (JPEG)")
 	reduce := fs.Int("reduce", 1, "shrink the sensor by this factor (same field of view; 1 = 24 MP)")
 	fs.Usage = func() {
-		fmt.Fprintln(stdout, "usage: sagitta demo [-o FILE] [-reduce N]")
-		fs.PrintDefaults()
+		fmt.Fprintln(stdout, "usage: sagitta demo [-o FILE] [--reduce N]")
+		printOptions(fs, stdout)
 	}
 	if err := parseFlags(fs, args); err != nil {
 		return err

@@ -95,3 +95,25 @@ func oneLine(s string) string {
 	}
 	return string(b)
 }
+
+// printOptions lists a command's options as the help text and README write
+// them, "--name value" and, for one-letter options, "-o value" (the flag
+// package accepts one dash or two; its own list shows one), each with its
+// meaning and default.
+func printOptions(fs *flag.FlagSet, w io.Writer) {
+	fs.VisitAll(func(f *flag.Flag) {
+		name, usage := flag.UnquoteUsage(f)
+		line := "  --" + f.Name
+		if len(f.Name) == 1 {
+			line = "  -" + f.Name
+		}
+		if name != "" {
+			line += " " + name
+		}
+		line += "\n    \t" + usage
+		if f.DefValue != "" && f.DefValue != "0" && f.DefValue != "false" {
+			line += fmt.Sprintf(" (default %s)", f.DefValue)
+		}
+		fmt.Fprintln(w, line)
+	})
+}

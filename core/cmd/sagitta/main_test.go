@@ -3,11 +3,14 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
+	"sagitta/core/plan"
 	"sagitta/core/sim/simcam"
 )
 
@@ -150,5 +153,49 @@ func TestBadInput(t *testing.T) {
 				t.Errorf("stdout %q, want nothing", out)
 			}
 		})
+	}
+}
+
+// TestHelpDashes: every command's help writes long options with two dashes,
+// as its usage line and README do; one-letter options keep one.
+func TestHelpDashes(t *testing.T) {
+	long := regexp.MustCompile(`(?m)^  -[a-z][a-z0-9-]+`)
+	for _, cmd := range []string{"analyze", "chart", "plan", "demo"} {
+		out, _, _ := runCLI(cmd, "-h")
+		if m := long.FindAllString(out, -1); len(m) > 0 {
+			t.Errorf("%s -h lists %v with one dash", cmd, m)
+		}
+		if !strings.Contains(out, "\n  --") {
+			t.Errorf("%s -h lists no --option:\n%s", cmd, out)
+		}
+	}
+}
+
+// TestAnalyzeSensorNames: analyze accepts every sensor name plan accepts
+// (one table, core/plan Sensors) and sets the pitch to the width over the
+// image width (320 px here; full frame, 36 mm wide by common practice,
+// would give 112.5 um, beyond the 100 um the field accepts, so the small
+// formats are used).
+func TestAnalyzeSensorNames(t *testing.T) {
+	path := edgePhoto(t, t.TempDir())
+	for _, f := range plan.Sensors {
+		if f.WMM/320*1000 > 100 {
+			continue
+		}
+		out, errOut, code := runCLI("analyze", "--json", "--sensor", f.Name, path)
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", f.Name, code, errOut)
+		}
+		var res struct {
+			Images []struct {
+				PitchUM float64 `json:"pitch_um"`
+			} `json:"images"`
+		}
+		if err := json.Unmarshal([]byte(out), &res); err != nil || len(res.Images) != 1 || math.Abs(res.Images[0].PitchUM-f.WMM/320*1000) > 1e-9 {
+			t.Errorf("%s: pitch %+v, %v; want %g um", f.Name, res, err, f.WMM/320*1000)
+		}
+	}
+	if _, errOut, code := runCLI("analyze", "--sensor", "medium", path); code != 2 || !strings.Contains(errOut, "full-frame, aps-c") {
+		t.Errorf("bad sensor name: exit %d, %q", code, errOut)
 	}
 }

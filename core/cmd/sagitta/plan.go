@@ -23,14 +23,14 @@ func cmdPlan(args []string, stdout io.Writer) error {
 		asJSON  = fs.Bool("json", false, "print the plan as JSON")
 	)
 	fs.Float64Var(&opt.FocalMM, "focal-mm", 0, "focal length of the lens, mm (required)")
-	fs.StringVar(&opt.Sensor, "sensor", "", "sensor size in mm as WxH (e.g. 36x24), or full-frame, aps-c, four-thirds, 1-inch (required)")
+	fs.StringVar(&opt.Sensor, "sensor", "", "sensor size in mm as WxH (e.g. 36x24), or "+plan.SensorNames()+" (required)")
 	fs.Float64Var(&opt.PitchUM, "pitch-um", 0, "pixel pitch in micrometres (or give --pixels)")
 	fs.StringVar(&opt.Surface, "surface", "photo", "paper surface: photo (coated) or plain; sets how far ink spreads")
 	fs.Float64Var(&opt.InkSpreadUM, "ink-spread-um", 0, "ink spread on paper in micrometres (standard deviation), instead of the surface's typical value")
 	fs.Usage = func() {
 		fmt.Fprintln(stdout, "usage: sagitta plan --focal-mm F --sensor WxH [options]")
 		fmt.Fprintln(stdout, "Tells how far to stand so the chart fills the frame, and whether the print is sharp enough.")
-		fs.PrintDefaults()
+		printOptions(fs, stdout)
 	}
 	if err := parseFlags(fs, args); err != nil {
 		return err

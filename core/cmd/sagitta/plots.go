@@ -15,7 +15,7 @@ import (
 const plotScale = 2
 
 // writePlots writes the SVG and PNG of each plot of each photo into dir,
-// creating it if needed: <name>-field-curves, <name>-sharpness-map,
+// creating it if needed: <name>-field-curves, <name>-mtf50-map,
 // <name>-astigmatism, <name>-target-centre and <name>-target-corner (the
 // measured targets nearest to and farthest from the optical centre), and,
 // for two or more photos, field-curves-compared.
@@ -33,7 +33,7 @@ func writePlots(dir string, res analyze.Result) error {
 		photos = append(photos, plot.Photo{Label: img.File, Summary: img.Summary})
 		figs := []namedFigure{
 			{"field-curves", plot.FieldCurves(img.Summary, plot.FieldOptions{Label: img.File, Band: true})},
-			{"sharpness-map", plot.Map(img.Summary, plot.MapOptions{Label: img.File})},
+			{"mtf50-map", plot.Map(img.Summary, plot.MapOptions{Label: img.File})},
 			{"astigmatism", plot.Astigmatism(img.Summary, plot.FieldOptions{Label: img.File, Band: true})},
 		}
 		// Measurements come sorted by image height: the first is the

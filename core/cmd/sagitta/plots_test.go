@@ -60,7 +60,7 @@ func TestPlotsFlag(t *testing.T) {
 	}
 	var want []string
 	for _, base := range []string{"wide_open", "stopped-down"} {
-		for _, s := range []string{"field-curves", "sharpness-map", "astigmatism", "target-centre", "target-corner"} {
+		for _, s := range []string{"field-curves", "mtf50-map", "astigmatism", "target-centre", "target-corner"} {
 			want = append(want, base+"-"+s)
 		}
 	}
