@@ -4,7 +4,7 @@
 // main text stays free of citations.
 
 /** EXPLAIN holds one short explanation per term, for a hobbyist without a textbook. */
-export const EXPLAIN = Object.freeze({
+const EXPLAIN = Object.freeze({
   MTF: 'How much of the contrast of fine detail the lens and camera keep: 1 is all of it, 0 none. Finer detail (more lines per mm) always keeps less.',
   MTF50: 'The fineness of detail at which half of the contrast is left. A higher MTF50 means a sharper picture; it is the single number most often quoted.',
   MTF50P: 'Like MTF50, but half of the highest point of the curve rather than half of full contrast. It reads less high on photos sharpened in the camera, whose curve rises above 1.',
