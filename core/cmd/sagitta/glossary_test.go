@@ -15,6 +15,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"runtime"
 	"strconv"
 	"strings"
 	"testing"
@@ -91,45 +92,12 @@ func TestGlossary(t *testing.T) {
 	}
 	add("sagitta plan", out)
 
-	// Two simulated photos, analysed once: JSON and plots; the text report
-	// and the CSV are written from the same result.
-	dir := t.TempDir()
-	files := simulatedPair(t, dir)
-	plots := filepath.Join(dir, "plots")
-	out, errOut, code = runCLI(append([]string{"analyze", "--pitch-um", "8", "--json", "--plots", plots}, files...)...)
-	if code != 0 {
-		t.Fatalf("analyze: %s", errOut)
-	}
-	var js any
-	if err := json.Unmarshal([]byte(out), &js); err != nil {
-		t.Fatal(err)
-	}
-	jsonStrings(js, func(s string) { add("JSON text", s) })
-	var res analyze.Result
-	if err := json.Unmarshal([]byte(out), &res); err != nil {
-		t.Fatal(err)
-	}
-	var text, csv bytes.Buffer
-	if err := writeText(&text, res); err != nil {
-		t.Fatal(err)
-	}
-	add("sagitta analyze (text)", text.String())
-	if err := analyze.WriteCSV(&csv, res); err != nil {
-		t.Fatal(err)
-	}
-	add("CSV header", strings.SplitN(csv.String(), "\n", 2)[0])
-	svgs, _ := filepath.Glob(filepath.Join(plots, "*.svg"))
-	if len(svgs) < 8 {
-		t.Fatalf("%d plots written", len(svgs))
-	}
-	for _, p := range svgs {
-		b, err := os.ReadFile(p)
-		if err != nil {
-			t.Fatal(err)
-		}
-		for _, s := range svgTexts(t, b) {
-			add("plot "+filepath.Base(p), s)
-		}
+	// Two simulated photos, analysed once (natively; under WebAssembly
+	// with -short, where this takes minutes, the other sources suffice).
+	if runtime.GOOS == "js" && testing.Short() {
+		t.Log("under WebAssembly with -short: the simulated photos are left out")
+	} else {
+		labels = append(labels, analysedLabels(t)...)
 	}
 
 	// Every string literal of the core and the wasm glue (messages and
@@ -374,4 +342,54 @@ func goStrings(t *testing.T, root string) []label {
 		t.Fatalf("only %d Go strings found under %s", len(out), root)
 	}
 	return out
+}
+
+// analysedLabels returns the labels of two simulated photos' analysis: the
+// JSON's texts and plots (from --json --plots), and the text report and CSV
+// header written from the same result.
+func analysedLabels(t *testing.T) []label {
+	var labels []label
+	add := func(where, text string) { labels = append(labels, label{where, text}) }
+	var out, errOut string
+	var code int
+	dir := t.TempDir()
+	files := simulatedPair(t, dir)
+	plots := filepath.Join(dir, "plots")
+	out, errOut, code = runCLI(append([]string{"analyze", "--pitch-um", "8", "--json", "--plots", plots}, files...)...)
+	if code != 0 {
+		t.Fatalf("analyze: %s", errOut)
+	}
+	var js any
+	if err := json.Unmarshal([]byte(out), &js); err != nil {
+		t.Fatal(err)
+	}
+	jsonStrings(js, func(s string) { add("JSON text", s) })
+	var res analyze.Result
+	if err := json.Unmarshal([]byte(out), &res); err != nil {
+		t.Fatal(err)
+	}
+	var text, csv bytes.Buffer
+	if err := writeText(&text, res); err != nil {
+		t.Fatal(err)
+	}
+	add("sagitta analyze (text)", text.String())
+	if err := analyze.WriteCSV(&csv, res); err != nil {
+		t.Fatal(err)
+	}
+	add("CSV header", strings.SplitN(csv.String(), "\n", 2)[0])
+	svgs, _ := filepath.Glob(filepath.Join(plots, "*.svg"))
+	if len(svgs) < 8 {
+		t.Fatalf("%d plots written", len(svgs))
+	}
+	for _, p := range svgs {
+		b, err := os.ReadFile(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, s := range svgTexts(t, b) {
+			add("plot "+filepath.Base(p), s)
+		}
+	}
+
+	return labels
 }
