@@ -10,7 +10,7 @@ import { fmtFNumber, fmt } from './units.js';
 import { el } from './dom.js';
 
 // Choices kept between visits.
-const view = { unticked: new Set() };
+const view = { orient: 'both', unticked: new Set() };
 
 /** defaultLabel names a photo from its Exif, else by its file name. */
 function defaultLabel(p) {
@@ -106,7 +106,16 @@ export function renderCompare(root, state) {
   if (missing.length) main.append(el('p', { class: 'notes' }, `No field curves for ${missing.join(', ')}: too few targets were measured.`));
   main.append(el('p', { class: 'hint' }, 'One colour per photo, as in the list of photos.'));
 
-  // The table of key numbers.
+  // The table of key numbers, for all targets or one orientation.
+  const oSel = el('select', { id: 'compare-orient', 'aria-label': 'Orientations in the table' });
+  for (const [v, t] of [['both', 'all targets'], ['sagittal', 'sagittal targets'], ['tangential', 'tangential targets']]) oSel.append(new Option(t, v, false, v === view.orient));
+  oSel.addEventListener('change', () => {
+    view.orient = oSel.value;
+    renderCompare(root, state);
+  });
+  const oLab = el('label', { class: 'compare-controls' }, 'Numbers for ');
+  oLab.append(oSel);
+  main.append(oLab);
   const table = el('table', { class: 'numbers', id: 'compare-table' });
   table.append(el('caption', { class: 'visually-hidden' }, 'Key numbers per photo'));
   const head = table.createTHead();
@@ -121,7 +130,7 @@ export function renderCompare(root, state) {
   th(h1, `Balance at ${freqs[freqs.length - 1]} lp/mm`, { rowspan: 2 });
   // The zones and their medians come from the core (summary.zones).
   const zoneNames = ticked[0].result.summary.zones.map((z) => z.name);
-  const zoneKey = 'all';
+  const zoneKey = view.orient === 'both' ? 'all' : view.orient;
   for (const _ of freqs) for (const z of zoneNames) th(h2, z);
   const tb = table.createTBody();
   const last = freqs.length - 1;
@@ -141,10 +150,77 @@ export function renderCompare(root, state) {
     tr.insertCell().textContent = balanceWords(r.summary, freqs[last]);
   }
   main.append(table);
-  main.append(el('p', { class: 'hint' }, 'Each number is the median over the targets in a third of the distance from the optical centre to the corner. ' +
+  main.append(el('p', { class: 'hint' }, `Each number is the median over the ${view.orient === 'both' ? '' : view.orient + ' '}targets in a third of the distance from the optical centre to the corner. ` +
     'A positive sagittal − tangential difference means detail across the radius is held better than along it (astigmatism); ± one standard error. ' +
     'Balance compares opposite halves of the frame, beyond 0.4 of the way to the corner, at matched distance from the optical centre. Differences of a few hundredths are within what refocusing and re-shooting change.'));
   main.append(explainBox(['sagittal', 'tangential', 'standard error']));
+  if (ticked.length >= 2 && !mixedFreqs) main.append(seriesSection(state, ticked));
+}
+
+// Choices of the series section kept between visits: the turn of a turned
+// pair ("" = not a turned pair, "chart" = read it from the chart).
+const seriesView = { turn: '' };
+
+/**
+ * seriesSection answers what a series is shot for, from the core
+ * (core/series through the worker's "series" call): the sharpest stop of an
+ * aperture series, and, for two photos, lens or set-up when the camera was
+ * turned between them.
+ */
+function seriesSection(state, ticked) {
+  const sec = el('section', { class: 'series', id: 'compare-series' });
+  sec.append(el('h3', {}, 'Sharpest aperture'));
+  const images = JSON.stringify(ticked.map((p) => p.result));
+  const stops = new Set(ticked.map((p) => (p.result.exif || {}).f_number).filter(Boolean));
+  const aperture = el('div', { id: 'series-aperture', 'aria-live': 'polite' });
+  sec.append(aperture);
+  if (stops.size < 2) {
+    aperture.append(el('p', { class: 'hint' }, 'Tick photos of one lens at different f-numbers (the f-number comes from Exif) to find the stop where it is sharpest.'));
+  } else {
+    aperture.append(el('p', { class: 'hint' }, 'Working out the series…'));
+    state.pool.call('series', ['aperture', images, '{}']).then(
+      (a) => {
+        aperture.replaceChildren(el('p', { class: 'verdict' }, a.text));
+        aperture.append(coreFigure(state.pool, 'series', JSON.stringify(a), {}, 'aperture-series'));
+        aperture.append(el('p', { class: 'notes' }, a.caution));
+      },
+      (e) => aperture.replaceChildren(el('p', { class: 'notes' }, `Not an aperture series: ${plain(e.message)}`)),
+    );
+  }
+  if (ticked.length !== 2) return sec;
+
+  sec.append(el('h3', {}, 'Lens or set-up?'));
+  const pair = el('div', { id: 'series-turned', 'aria-live': 'polite' });
+  const label = el('label', {}, 'Between these two photos the camera was turned about the lens axis by ');
+  const sel = el('select', { id: 'series-turn' });
+  for (const [v, t] of [['', 'not turned'], ['180', '180°'], ['90', '90° (the chart turned clockwise on screen)'], ['270', '90° the other way'], ['chart', 'as the chart shows']]) {
+    sel.append(new Option(t, v, false, v === seriesView.turn));
+  }
+  label.append(sel);
+  const answer = el('div');
+  const show = () => {
+    seriesView.turn = sel.value;
+    if (!sel.value) {
+      answer.replaceChildren(el('p', { class: 'hint' }, 'Shoot the same set-up again with the camera turned by 180° (or 90°) about the lens axis: a softer side that stays put belongs to the lens, one that turns belongs to the set-up.'));
+      return;
+    }
+    answer.replaceChildren(el('p', { class: 'hint' }, 'Working out the pair…'));
+    const turn = sel.value === 'chart' ? 0 : +sel.value;
+    state.pool.call('series', ['turned', images, JSON.stringify({ turn_deg: turn })]).then(
+      (t) => answer.replaceChildren(el('p', { class: 'verdict' }, t.text), el('p', { class: 'notes' }, t.caution)),
+      (e) => answer.replaceChildren(el('p', { class: 'notes' }, `Not a turned pair: ${plain(e.message)}`)),
+    );
+  };
+  sel.addEventListener('change', show);
+  pair.append(label, answer);
+  sec.append(pair);
+  show();
+  return sec;
+}
+
+// plain drops the core's package prefix from a message.
+function plain(m) {
+  return String(m).replace(/^series: /, '');
 }
 
 // gapWords gives the core's largest sagittal - tangential difference at

@@ -79,7 +79,7 @@ export const FROM_WORKER = Object.freeze({
  * list (wasm/functions.go, exported by the core as sagittaFunctions);
  * TestFunctionsMatchPage in wasm/ checks this list and worker.js against it.
  */
-export const CALLS = Object.freeze(['csv', 'json', 'plot', 'palette', 'chart', 'plan', 'demo', 'resummarise', 'reference']);
+export const CALLS = Object.freeze(['csv', 'json', 'plot', 'palette', 'chart', 'plan', 'demo', 'resummarise', 'reference', 'series']);
 
 /**
  * analyzeMessage builds an "analyze" message and its transfer list.

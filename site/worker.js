@@ -23,6 +23,7 @@ const CALLS = {
     return { result: r.image ? { image: JSON.parse(r.image) } : { remeasure: r.remeasure, remeasure_codes: Array.from(r.remeasure_codes || []) } };
   },
   reference: (args) => ({ result: JSON.parse(core('reference')(JSON.stringify(args))) }),
+  series: (kind, images, options) => ({ result: JSON.parse(core('series')(kind, images, options)) }),
 };
 // The core's global behind each call comes from the core itself
 // (sagittaFunctions, the one list in wasm/functions.go; a Go test checks

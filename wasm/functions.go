@@ -32,6 +32,7 @@ var functions = []function{
 	{"sagittaChart", "chart", chartJS},
 	{"sagittaPlan", "plan", planJS},
 	{"sagittaReference", "reference", referenceJS},
+	{"sagittaSeries", "series", seriesJS},
 }
 
 // registerAll registers every function of the list and sagittaFunctions.

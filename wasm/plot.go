@@ -11,6 +11,7 @@ import (
 	"sagitta/core/analyze"
 	"sagitta/core/field"
 	"sagitta/core/plot"
+	"sagitta/core/series"
 )
 
 // plotOptions are the options of sagittaPlot.
@@ -30,7 +31,8 @@ type plotOptions struct {
 //
 // kind and data (JSON): "field", "astigmatism", "map": a photo's summary
 // (field.Summary); "compare": [{label, summary}, ...]; "target": {image
-// (analyze.Image), id (a measurement id)}.
+// (analyze.Image), id (a measurement id)}; "series": an aperture series
+// (series.Aperture, from sagittaSeries).
 func plotJS(args []js.Value) (any, error) {
 	if len(args) < 2 || args[0].Type() != js.TypeString || args[1].Type() != js.TypeString {
 		return nil, fmt.Errorf("sagittaPlot(kind, data, options): wrong arguments")
@@ -73,6 +75,12 @@ func plotJS(args []js.Value) (any, error) {
 			photos = append(photos, plot.Photo{Label: p.Label, Summary: p.Summary})
 		}
 		fig = plot.Compare(photos, plot.CompareOptions{FreqsLPMM: opt.FreqsLPMM, Band: opt.Band})
+	case "series":
+		var a series.Aperture
+		if err := json.Unmarshal(data, &a); err != nil {
+			return nil, fmt.Errorf("plot series: %v", err)
+		}
+		fig = plot.ApertureSeries(&a)
 	case "target":
 		var in struct {
 			Image *analyze.Image `json:"image"`
@@ -96,7 +104,7 @@ func plotJS(args []js.Value) (any, error) {
 		}
 		fig = plot.Target(*t, plot.TargetOptions{LPMM: opt.LPMM})
 	default:
-		return nil, fmt.Errorf("plot: unknown kind %q (field, astigmatism, map, compare or target)", kind)
+		return nil, fmt.Errorf("plot: unknown kind %q (field, astigmatism, map, compare, series or target)", kind)
 	}
 	tab := fig.Table()
 	rows := make([]any, len(tab.Rows))

@@ -5,11 +5,13 @@ import (
 	"io"
 )
 
-// WriteJSON writes res as the JSON contract (README, "The JSON contract"),
+// WriteJSON writes res (a Result, or the command-line tool's Result with
+// the answer of a series beside it) as the JSON contract (README, "The JSON
+// contract"),
 // indented by one space, with a final newline. The command-line tool
 // (`sagitta analyze --json`) and the web page both call it, so their files
 // are identical.
-func WriteJSON(w io.Writer, res Result) error {
+func WriteJSON(w io.Writer, res any) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", " ")
 	return enc.Encode(res)

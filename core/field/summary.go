@@ -168,7 +168,7 @@ func Summarise(geo Geometry, points []Point, freqsLPMM []float64) (*Summary, err
 	s.Astigmatism = astigmatism(fits, freqsLPMM)
 	s.Map = mtf50Map(geo, pts)
 	s.Balance = balance(geo, pts, fits, freqsLPMM)
-	s.Zones = zones(s.CornerMM, pts, len(freqsLPMM))
+	s.Zones = zones(s.CornerMM, geo.PitchUM, pts, len(freqsLPMM))
 
 	for i, p := range pts {
 		sp := SummaryPoint{

@@ -79,6 +79,26 @@ func PerfectLens(fNumber, pitchUM, wavelengthUM float64, freqsCyPx []float64) ([
 	return out, nil
 }
 
+// PerfectLensMTF50 returns the frequency (cycles/pixel) where PerfectLens
+// falls to 0.5, by bisection: diffraction and the pixel aperture both fall
+// over [0, min(cut-off, 1 cy/px)], so their product crosses 0.5 once.
+func PerfectLensMTF50(fNumber, pitchUM, wavelengthUM float64) (float64, error) {
+	if _, err := PerfectLens(fNumber, pitchUM, wavelengthUM, nil); err != nil {
+		return math.NaN(), err
+	}
+	vc := CutoffLPMM(fNumber, wavelengthUM) * pitchUM / 1000
+	lo, hi := 0.0, math.Min(vc, 1)
+	for i := 0; i < 60; i++ {
+		mid := (lo + hi) / 2
+		if DiffractionMTF(mid, vc)*PixelMTF(mid) > 0.5 {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	return (lo + hi) / 2, nil
+}
+
 // Exceeds reports whether a measured curve rises above its reference
 // (same frequencies) by more than SharpenedMargin anywhere both are known.
 func Exceeds(measured, reference []float64) bool {

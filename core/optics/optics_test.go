@@ -75,3 +75,26 @@ func TestExceeds(t *testing.T) {
 		t.Error("0.06 above not counted as sharpened")
 	}
 }
+
+// TestPerfectLensMTF50: the diffraction MTF alone falls to one half at
+// 0.4040 of the cut-off (Goodman ch. 6's formula, solved numerically:
+// (2/pi)(acos 0.404 - 0.404 sqrt(1 - 0.404^2)) = 0.49997; the root is 0.40397), so with a pixel
+// so small that its aperture passes everything, f/8 at 0.55 um gives
+// 0.404 x 227.27 lp/mm; with a real pitch the product crosses 0.5 where
+// PerfectLens says 0.5.
+func TestPerfectLensMTF50(t *testing.T) {
+	f50, err := PerfectLensMTF50(8, 0.001, 0.55)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if lpmm := f50 / (0.001 / 1000); math.Abs(lpmm-0.40397*227.2727) > 0.05 {
+		t.Errorf("MTF50 of diffraction alone at f/8: %.2f lp/mm, want %.2f", lpmm, 0.40397*227.2727)
+	}
+	f50, _ = PerfectLensMTF50(8, 4, 0.55)
+	if v, _ := PerfectLens(8, 4, 0.55, []float64{f50}); math.Abs(v[0]-0.5) > 1e-9 {
+		t.Errorf("PerfectLens at its MTF50: %.6f", v[0])
+	}
+	if _, err := PerfectLensMTF50(0, 4, 0.55); err == nil {
+		t.Error("f/0 accepted")
+	}
+}

@@ -70,6 +70,21 @@ test('an aperture series: compare sorted by f-number, rename, printable report',
   assert.deepEqual(panels, ['10 lp/mm · sagittal', '10 lp/mm · tangential', '30 lp/mm · sagittal', '30 lp/mm · tangential']);
   await shot(page, '22-compare', { fullPage: true });
 
+  // The sharpest stop, from the core (core/series): the same words as the
+  // command-line tool's --series answer; the lens of site/testphoto is
+  // made sharpest at f/5.6 in the corners.
+  const seriesText = JSON.parse(cli(['--json', '--series'], files)).series.text;
+  assert.match(seriesText, /In the corners the lens is sharpest at f\/5\.6/);
+  await page.waitForFunction(() => document.querySelector('#series-aperture .verdict'));
+  assert.equal(await page.textContent('#series-aperture .verdict'), seriesText);
+  await page.waitForFunction(() => [...document.querySelectorAll('#series-aperture .core-figure svg text')].some((t) => t.textContent === 'Sharpness at each f-number'));
+  await shot(page.locator('#compare-series'), '22b-compare-series');
+  // Two photos at different stops are not a turned pair: the page says why.
+  await page.uncheck('.pick li:nth-child(3) input[type=checkbox]');
+  await page.selectOption('#series-turn', '180');
+  await page.waitForFunction(() => /Not a turned pair: .*one stop/.test(document.querySelector('#series-turned')?.textContent || ''));
+  await page.check('.pick li:nth-child(3) input[type=checkbox]');
+
   // The printable report of the selected photo, as the browser prints it.
   await page.click('#tab-measure');
   await page.click('.photo:nth-child(2) .open');

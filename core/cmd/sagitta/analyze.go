@@ -14,6 +14,8 @@ import (
 
 	"sagitta/core/analyze"
 	"sagitta/core/plan"
+	"sagitta/core/plot"
+	"sagitta/core/series"
 )
 
 // errHelp is returned after a command printed its own help.
@@ -32,6 +34,9 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 		workers  = fs.Int("workers", 0, "measurements in parallel (default: one per CPU)")
 		maxPixel = fs.Int("max-pixels", 0, "refuse photos larger than this many pixels (default 120000000)")
 		plots    = fs.String("plots", "", "also write the plots of each photo as SVG and PNG into this folder")
+		asSeries = fs.Bool("series", false, "the photos are one lens at several f-numbers: name the sharpest stop in the centre, middle and corners")
+		fNumbers = fs.String("f-numbers", "", "with --series: the photos' f-numbers, comma separated (default: from Exif)")
+		turned   = fs.Float64("turned", 0, "two photos of one set-up, the camera turned about the lens axis between them by this many degrees (90, 180, 270; or -1: read the turn from the chart): split a softer side into lens and set-up")
 	)
 	fs.Float64Var(&s.PitchUM, "pitch-um", 0, "pixel pitch in micrometres (else from --sensor or the photo's Exif)")
 	fs.StringVar(&s.Tone, "tone", "", "tone curve of the files: srgb, linear or gamma:G (default: sRGB unless the file says linear)")
@@ -66,15 +71,26 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 		s.CentrePx = &c
 	}
 	if *freqs != "" {
-		for _, f := range strings.Split(*freqs, ",") {
-			v, err := strconv.ParseFloat(strings.TrimSpace(f), 64)
-			if err != nil {
-				return fmt.Errorf("%w: --freqs: %q is not a number", errUsage, f)
-			}
-			s.FreqsLPMM = append(s.FreqsLPMM, v)
+		if s.FreqsLPMM, err = numbers(*freqs); err != nil {
+			return fmt.Errorf("%w: --freqs: %v", errUsage, err)
 		}
 	}
 	s.Workers, s.MaxPixels = *workers, *maxPixel
+	var fnums []float64
+	if *fNumbers != "" {
+		if fnums, err = numbers(*fNumbers); err != nil {
+			return fmt.Errorf("%w: --f-numbers: %v", errUsage, err)
+		}
+		if len(fnums) != fs.NArg() {
+			return fmt.Errorf("%w: --f-numbers gives %d values for %d photos", errUsage, len(fnums), fs.NArg())
+		}
+	}
+	if *asSeries && *turned != 0 {
+		return fmt.Errorf("%w: choose one of --series and --turned", errUsage)
+	}
+	if *turned != 0 && fs.NArg() != 2 {
+		return fmt.Errorf("%w: --turned compares exactly two photos", errUsage)
+	}
 
 	var res analyze.Result
 	for _, path := range fs.Args() {
@@ -88,18 +104,89 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 		}
 		res.Images = append(res.Images, img)
 	}
+	out := output{Result: res}
+	switch {
+	case *asSeries:
+		if out.Series, err = series.ApertureSeries(res.Images, fnums); err != nil {
+			return err
+		}
+	case *turned != 0:
+		deg := *turned
+		if deg < 0 {
+			deg = 0 // read from the chart
+		}
+		if out.Turned, err = series.TurnedPair(res.Images[0], res.Images[1], deg); err != nil {
+			return err
+		}
+	}
 	if *plots != "" {
 		if err := writePlots(*plots, res); err != nil {
 			return err
 		}
+		if out.Series != nil {
+			if err := writeFigure(*plots, "aperture-series", plot.ApertureSeries(out.Series)); err != nil {
+				return err
+			}
+		}
 	}
 	switch {
 	case *asJSON:
-		return analyze.WriteJSON(stdout, res)
+		return analyze.WriteJSON(stdout, out)
 	case *asCSV:
 		return analyze.WriteCSV(stdout, res)
 	}
-	return writeText(stdout, res)
+	if err := writeText(stdout, res); err != nil {
+		return err
+	}
+	return writeSeriesText(stdout, out)
+}
+
+// output is what analyze prints as JSON: the contract's images, and the
+// answer of a series or a turned pair when one was asked for.
+type output struct {
+	analyze.Result
+	Series *series.Aperture `json:"series,omitempty"`
+	Turned *series.Turned   `json:"turned_pair,omitempty"`
+}
+
+// writeSeriesText prints the answer of a series or a turned pair.
+func writeSeriesText(w io.Writer, out output) error {
+	if a := out.Series; a != nil {
+		fmt.Fprintln(w, "aperture series:")
+		fmt.Fprintf(w, "%8s", "f-number")
+		for _, z := range a.Zones {
+			fmt.Fprintf(w, " %22s", z+" MTF50 lp/mm")
+		}
+		fmt.Fprintf(w, " %18s\n", "perfect lens")
+		for _, st := range a.Stops {
+			fmt.Fprintf(w, "%8s", "f/"+num(st.FNumber))
+			for _, v := range st.MTF50LPMM {
+				fmt.Fprintf(w, " %22s", fix(float64(v.Value), 1)+" ± "+fix(2*float64(v.SE), 1))
+			}
+			fmt.Fprintf(w, " %18s\n", fix(float64(st.PerfectMTF50LPMM), 1))
+		}
+		fmt.Fprintln(w, a.Text)
+		fmt.Fprintln(w, "note: "+a.Caution)
+	}
+	if t := out.Turned; t != nil {
+		fmt.Fprintf(w, "turned pair (%s, then %s; turned %g degrees, from the %s):\n", t.Files[0], t.Files[1], t.TurnDeg, t.TurnSource)
+		fmt.Fprintln(w, t.Text)
+		fmt.Fprintln(w, "note: "+t.Caution)
+	}
+	return nil
+}
+
+// numbers parses a comma-separated list of numbers.
+func numbers(s string) ([]float64, error) {
+	var out []float64
+	for _, f := range strings.Split(s, ",") {
+		v, err := strconv.ParseFloat(strings.TrimSpace(f), 64)
+		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("%q is not a number", f)
+		}
+		out = append(out, v)
+	}
+	return out, nil
 }
 
 // pair parses "A<sep>B" into two positive numbers.
