@@ -26,25 +26,6 @@ import (
 	"sagitta/core/note"
 )
 
-// Settings are the user's choices for one analysis. The zero value is valid
-// except that a pixel pitch must come from somewhere: PitchUM, SensorMM,
-// the photo's Exif or FallbackSensorMM, in that order.
-type Settings struct {
-	PitchUM   float64     `json:"pitch_um,omitempty"`  // pixel pitch, micrometres
-	SensorMM  [2]float64  `json:"sensor_mm,omitempty"` // sensor width and height, mm (pitch = width / image width)
-	CentrePx  *[2]float64 `json:"center_px,omitempty"` // optical centre, px; nil = image centre
-	Tone      string      `json:"tone,omitempty"`      // "", "srgb", "linear", "gamma:G"
-	Method    string      `json:"method,omitempty"`    // "", "refined", "iso"
-	FreqsLPMM []float64   `json:"freqs_lp_mm,omitempty"`
-	MaxPixels int         `json:"max_pixels,omitempty"` // refuse larger photos; 0 = the decoder's default
-	Workers   int         `json:"-"`                    // parallel measurements; 0 = GOMAXPROCS
-
-	// FallbackSensorMM is the sensor size (mm) to assume when neither
-	// PitchUM nor SensorMM is given and the photo's Exif gives no usable
-	// pitch (the page's "read it from the file, else this format").
-	FallbackSensorMM [2]float64 `json:"fallback_sensor_mm,omitempty"`
-}
-
 // DefaultFreqsLPMM are the field frequencies used when none are given:
 // 10 and 30 lp/mm, the usual pair for full-frame lenses (common practice).
 var DefaultFreqsLPMM = []float64{10, 30}
@@ -86,7 +67,7 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 		File: name, Width: dec.Width, Height: dec.Height,
 		Format: dec.Format, BitDepth: dec.BitDepth,
 		Tone: dec.Tone.String(), ToneSource: dec.ToneSource, ToneFrom: string(dec.ToneFrom),
-		Method: chk.method.String(), Exif: dec.Exif,
+		Method: chk.method.String(), Exif: exifOf(dec.Exif),
 		Measurements: []Measurement{}, Rejected: []Rejected{},
 		Stars: []StarInfo{}, Gratings: []GratingInfo{},
 		Warnings: []string{}, WarningCodes: []string{},
@@ -190,7 +171,7 @@ func (s Settings) check() (checked, error) {
 func placeFrame(img *Image, s Settings, freqs []float64) (field.Geometry, error) {
 	var err error
 	var from note.Code
-	img.PitchUM, img.PitchSource, from, err = pitch(s, img.Width, img.Exif)
+	img.PitchUM, img.PitchSource, from, err = pitch(s, img.Width, img.Exif.tags())
 	img.PitchFrom = string(from)
 	if err != nil {
 		return field.Geometry{}, err
@@ -337,8 +318,8 @@ func record(m *edge.Measurement, r edge.Region) Measurement {
 		SlantDeg:  m.SlantDeg,
 		SNR:       Number(m.SNR),
 		Overshoot: m.Overshoot,
-		ESF:       m.ESF,
-		LSF:       m.LSF,
+		ESF:       profileOf(m.ESF),
+		LSF:       profileOf(m.LSF),
 	}
 	if m.Dark > 0 {
 		rec.Contrast = Number(m.Light / m.Dark)

@@ -8,53 +8,6 @@ import (
 	"sagitta/core/note"
 )
 
-// ChartResult is what the analysis learnt from a Sagitta chart in the
-// photo: which chart, where, how it was photographed, and which of its
-// targets were measured.
-type ChartResult struct {
-	Code string `json:"code"` // the chart code printed on the sheet, e.g. "S1-3:2-L"
-	// Marks are the recognition marks read in the photo.
-	Marks []chart.FoundMark `json:"marks"`
-	// Homography maps chart units (the chart's short side is 1, origin at
-	// its centre, x right, y down) to image px, row-major 3 x 3.
-	Homography chart.Homography `json:"homography"`
-	Setup      chart.Setup      `json:"setup"`
-	// EdgesExpected counts the square edges that lie inside the photo;
-	// EdgesIdentified those measured and tagged with their target.
-	EdgesExpected   int `json:"edges_expected"`
-	EdgesIdentified int `json:"edges_identified"`
-	// Patterns names the chart target of each sine pattern the analysis
-	// measured (Image.Stars and Image.Gratings, by their ids).
-	Patterns []PatternTarget `json:"patterns"`
-	// Missing lists the targets inside the photo that gave no measurement,
-	// with the reason when one is known; OutsideFrame the targets that lie
-	// (partly) outside the photo.
-	Missing      []MissingTarget `json:"missing"`
-	OutsideFrame []string        `json:"outside_frame"`
-	// IgnoredOnMarks and IgnoredOnPatterns count the straight runs that
-	// lie on the recognition marks or inside the sine patterns: they are
-	// parts of known chart features, not candidate targets, and are left
-	// out of Image.Rejected.
-	IgnoredOnMarks    int `json:"ignored_on_marks"`
-	IgnoredOnPatterns int `json:"ignored_on_patterns"`
-}
-
-// PatternTarget ties a measured sine pattern to its chart target.
-type PatternTarget struct {
-	Kind     string `json:"kind"` // "star" or "grating"
-	ID       int    `json:"id"`   // in Image.Stars or Image.Gratings
-	TargetID string `json:"target_id"`
-}
-
-// MissingTarget is a chart target (or one edge of a square) with no
-// measurement.
-type MissingTarget struct {
-	TargetID   string `json:"target_id"`
-	Edge       int    `json:"target_edge,omitempty"`
-	Reason     string `json:"reason"`
-	ReasonCode string `json:"reason_code"` // core/note
-}
-
 // recogniseChart looks for Sagitta's chart in the photo. When it is there,
 // it tags every measurement with the target under it, sets aside edge
 // measurements and rejected runs that lie on marks or sine patterns (they
@@ -70,7 +23,7 @@ func recogniseChart(dec *decode.Image, img *Image) {
 		return
 	}
 	cr := &ChartResult{
-		Code: pose.Code.String(), Marks: pose.Marks, Homography: pose.H,
+		Code: pose.Code.String(), Marks: marksOf(pose.Marks), Homography: pose.H,
 		Patterns: []PatternTarget{}, Missing: []MissingTarget{}, OutsideFrame: []string{},
 	}
 	img.Chart = cr
@@ -206,11 +159,11 @@ func checkSetup(img *Image) error {
 	if !ok {
 		return ResultError("the chart's homography cannot be inverted")
 	}
-	pose := &chart.Pose{Code: code, Design: d, H: cr.Homography, Inv: inv, Marks: cr.Marks, W: img.Width, Hpx: img.Height}
+	pose := &chart.Pose{Code: code, Design: d, H: cr.Homography, Inv: inv, Marks: marks(cr.Marks), W: img.Width, Hpx: img.Height}
 	focalPx := 0.0
 	if f := img.Exif.FocalLengthMM; f > 0 && img.PitchUM > 0 {
 		focalPx = f * 1000 / img.PitchUM
 	}
-	cr.Setup = pose.Check(focalPx)
+	cr.Setup = setupOf(pose.Check(focalPx))
 	return nil
 }

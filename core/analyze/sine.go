@@ -8,7 +8,6 @@ import (
 	"sort"
 
 	"sagitta/core/curve"
-	"sagitta/core/edge"
 	"sagitta/core/edgefind"
 	"sagitta/core/field"
 	"sagitta/core/internal/parallel"
@@ -39,67 +38,6 @@ import (
 // So a star or grating record may end below 0.5 cy/px, unlike an edge
 // record; readers must take the end of freq_cy_px as the end of the data
 // (curve.Curve.At returns NaN beyond it, written as null).
-
-// StarInfo describes one measured star in the image JSON: where it is, how
-// well it is located, and its per-segment curves for a polar plot.
-type StarInfo struct {
-	ID          int            `json:"id"`
-	XPx         float64        `json:"x_px"`
-	YPx         float64        `json:"y_px"`
-	HeightMM    float64        `json:"height_mm"`
-	CentreUncPx float64        `json:"center_unc_px"` // 1-sigma uncertainty of the centre, px
-	Cycles      int            `json:"cycles"`
-	RadiusPx    float64        `json:"radius_px"`
-	InnerPx     float64        `json:"inner_px"` // smallest ring measured, px
-	OuterPx     float64        `json:"outer_px"` // largest ring measured, px
-	Modulation  float64        `json:"modulation"`
-	RefFreq     float64        `json:"ref_freq_cy_px"`
-	MaxFreq     float64        `json:"max_freq_cy_px"`
-	Resolved    float64        `json:"resolved_cy_px"` // the modulation stays above 3 standard errors up to here
-	AliasMod    float64        `json:"alias_modulation"`
-	Segments    []sine.Segment `json:"segments"`
-	Agreement   *StarAgreement `json:"agreement"` // against nearby edges; null when there are none
-	Flags       []string       `json:"flags"`
-	Warnings    []string       `json:"warnings"`
-	Records     []int          `json:"records"` // ids of its measurement records
-}
-
-// GratingInfo describes one measured sine grating in the image JSON.
-type GratingInfo struct {
-	ID           int               `json:"id"`
-	XPx          float64           `json:"x_px"`
-	YPx          float64           `json:"y_px"`
-	HeightMM     float64           `json:"height_mm"`
-	Corners      [4][2]float64     `json:"corners_px"` // the area fitted
-	FreqCyPx     float64           `json:"freq_cy_px"`
-	DirectionDeg float64           `json:"direction_deg"`
-	Orientation  field.Orientation `json:"orientation"`
-	Modulation   float64           `json:"modulation"`
-	ModStdErr    float64           `json:"modulation_std_err"`
-	MTF          Number            `json:"mtf"` // Modulation / the reference's; null for the reference itself
-	Reference    bool              `json:"reference"`
-	Flags        []string          `json:"flags"`
-}
-
-// StarAgreement compares one star record with the edges of the same
-// orientation at a similar image height.
-type StarAgreement struct {
-	Edges    int     `json:"edges"`     // edge records compared
-	RMSDiff  float64 `json:"rms_diff"`  // rms of edge MTF - star MTF over the shared frequencies
-	MeanDiff float64 `json:"mean_diff"` // mean of edge MTF - star MTF (positive: the edges read higher)
-}
-
-// Agreement is the per-photo figure of how well sine patterns and edges
-// agree: the rms over all star records that have nearby edges of the
-// difference between the edges' MTF (their mean) and the star's, at the
-// shared frequencies between AgreeLoCyPx and AgreeHiCyPx.
-type Agreement struct {
-	Records  int     `json:"records"` // star records compared
-	RMSDiff  float64 `json:"rms_diff"`
-	MeanDiff float64 `json:"mean_diff"` // positive: edges read higher than stars
-	LoCyPx   float64 `json:"lo_cy_px"`
-	HiCyPx   float64 `json:"hi_cy_px"`
-}
 
 // Agreement settings.
 const (
@@ -323,7 +261,7 @@ func (ps *patterns) starRecords(img *Image, geo field.Geometry) []Measurement {
 		info := StarInfo{ID: i + 1, XPx: s.X, YPx: s.Y,
 			CentreUncPx: s.CentreUncPx, Cycles: s.Cycles, RadiusPx: s.RadiusPx, InnerPx: s.InnerPx,
 			OuterPx: s.OuterPx, Modulation: s.Modulation, RefFreq: s.RefFreq, MaxFreq: s.MaxFreq, Resolved: s.ResolvedFreq,
-			AliasMod: s.AliasMod, Segments: s.Segments, Flags: []string{}, Warnings: []string{}, Records: []int{}}
+			AliasMod: s.AliasMod, Segments: segmentsOf(s.Segments), Flags: []string{}, Warnings: []string{}, Records: []int{}}
 		for _, f := range s.Flags {
 			info.Flags = append(info.Flags, string(f))
 			info.Warnings = append(info.Warnings, sineFlagText[f])
@@ -369,8 +307,8 @@ func patternRecord(kind string, x, y, dir float64, c curve.Curve, lo, hi float64
 		MTF:          c.Value,
 		Warnings:     []string{},
 		Flags:        []string{},
-		ESF:          edge.Profile{X: []float64{}, V: []float64{}},
-		LSF:          edge.Profile{X: []float64{}, V: []float64{}},
+		ESF:          Profile{X: []float64{}, V: []float64{}},
+		LSF:          Profile{X: []float64{}, V: []float64{}},
 		SNR:          Number(math.NaN()),
 		Contrast:     Number(math.NaN()),
 		MeasuredCyPx: &[2]float64{lo, hi},

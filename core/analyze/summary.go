@@ -144,3 +144,15 @@ func fieldPoints(ms []Measurement) []field.Point {
 	}
 	return pts
 }
+
+// notes returns the image's warnings with their codes; false when the
+// codes do not match the warnings (a result changed by hand).
+func (img *Image) notes() ([]note.Note, bool) {
+	return note.Join(img.Warnings, img.WarningCodes)
+}
+
+// warn adds a warning with its code.
+func (img *Image) warn(n note.Note) {
+	img.Warnings = append(img.Warnings, n.Text)
+	img.WarningCodes = append(img.WarningCodes, string(n.Code))
+}

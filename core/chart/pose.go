@@ -78,28 +78,28 @@ func (ps *Pose) InFrame(x, y, margin float64) bool {
 // Setup is what the chart's pose says about the way the photo was taken.
 type Setup struct {
 	// CoverPct is the share of the photo covered by the chart frame, %.
-	CoverPct float64 `json:"frame_covered_pct"`
+	CoverPct float64
 	// VisiblePct is the share of the chart frame inside the photo, %.
-	VisiblePct float64 `json:"chart_visible_pct"`
+	VisiblePct float64
 	// RotationDeg is the chart's turn in the photo, degrees from +x towards
 	// +y (the rotation of the nearest similarity at the chart's centre).
-	RotationDeg float64 `json:"rotation_deg"`
+	RotationDeg float64
 	// KeystoneLRPct is how much larger (per cent, in linear scale) the
 	// chart's left side appears than its right side; KeystoneTBPct likewise
 	// its top against its bottom. Both are 0 for a camera square to the
 	// chart.
-	KeystoneLRPct float64 `json:"keystone_left_right_pct"`
-	KeystoneTBPct float64 `json:"keystone_top_bottom_pct"`
+	KeystoneLRPct float64
+	KeystoneTBPct float64
 	// OffCentrePct is the distance of the chart's centre from the photo's
 	// centre, % of the photo's shorter side.
-	OffCentrePct float64 `json:"off_centre_pct"`
+	OffCentrePct float64
 	// TiltDeg is the angle between the chart's normal and the camera's
 	// optical axis, when the focal length is known (else 0).
-	TiltDeg float64 `json:"tilt_deg,omitempty"`
+	TiltDeg float64
 	// Warnings word every check that failed, with what to change;
 	// WarningCodes are their codes, aligned (core/note).
-	Warnings     []string `json:"warnings"`
-	WarningCodes []string `json:"warning_codes"`
+	Warnings     []string
+	WarningCodes []string
 }
 
 // Thresholds of the set-up checks. They are Sagitta's own choices, not a

@@ -11,10 +11,10 @@ import (
 
 // FoundMark is a mark read in a photo.
 type FoundMark struct {
-	Index  int     `json:"index"` // which of the chart's eight marks
-	XPx    float64 `json:"x_px"`  // centre of its disc, image px
-	YPx    float64 `json:"y_px"`
-	Errors int     `json:"sector_errors"` // code sectors read wrongly and corrected (0 or 1)
+	Index  int     // which of the chart's eight marks
+	XPx    float64 // centre of its disc, image px
+	YPx    float64
+	Errors int // code sectors read wrongly and corrected (0 or 1)
 	code   int
 	margin float64 // weakest sector's distance from the threshold, in units of the contrast
 	rPx    float64 // disc radius, px (geometric mean of the ellipse's semi-axes)

@@ -14,8 +14,8 @@ const Nyquist = 0.5
 
 // Curve is an MTF sampled at ascending frequencies (cycles/pixel), Freq[0] = 0.
 type Curve struct {
-	Freq  []float64 `json:"freq_cy_px"`
-	Value []float64 `json:"mtf"`
+	Freq  []float64
+	Value []float64
 }
 
 // At returns the response at frequency f (cycles/pixel) by linear

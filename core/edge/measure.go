@@ -100,29 +100,29 @@ const (
 // (0 at the edge, positive on the light side), V normalised so that the dark
 // plateau is 0 and the light plateau 1 (ESF) or the peak is 1 (LSF).
 type Profile struct {
-	X []float64 `json:"x_px"`
-	V []float64 `json:"v"`
+	X []float64
+	V []float64
 }
 
 // Measurement is the result of measuring one edge.
 type Measurement struct {
-	Method    string      `json:"method"`
-	Curve     curve.Curve `json:"curve"`
-	X         float64     `json:"x_px"`       // point on the fitted edge at the region centre, px
-	Y         float64     `json:"y_px"`       //
-	NormalDeg float64     `json:"normal_deg"` // direction of the edge normal, dark to light, degrees in [0, 360)
-	SlantDeg  float64     `json:"slant_deg"`  // angle between the edge line and the nearest pixel axis, degrees
-	LengthPx  float64     `json:"length_px"`  // length of edge measured, px
-	Dark      float64     `json:"dark"`       // plateau levels, linear
-	Light     float64     `json:"light"`      //
-	NoiseRMS  float64     `json:"noise_rms"`  // rms noise on the plateaus, linear
-	SNR       float64     `json:"snr"`        // (Light - Dark) / NoiseRMS
-	BowPx     float64     `json:"bow_px"`     // deviation of the edge from a straight line over the region, px
-	PhasePx   float64     `json:"phase_px"`   // effective spacing of the edge profile's samples, px
-	Overshoot float64     `json:"overshoot"`  // largest excursion of the edge profile beyond its plateaus, fraction of the step
-	ESF       Profile     `json:"esf"`
-	LSF       Profile     `json:"lsf"`
-	Flags     []Flag      `json:"flags"`
+	Method    string
+	Curve     curve.Curve
+	X         float64 // point on the fitted edge at the region centre, px
+	Y         float64 //
+	NormalDeg float64 // direction of the edge normal, dark to light, degrees in [0, 360)
+	SlantDeg  float64 // angle between the edge line and the nearest pixel axis, degrees
+	LengthPx  float64 // length of edge measured, px
+	Dark      float64 // plateau levels, linear
+	Light     float64 //
+	NoiseRMS  float64 // rms noise on the plateaus, linear
+	SNR       float64 // (Light - Dark) / NoiseRMS
+	BowPx     float64 // deviation of the edge from a straight line over the region, px
+	PhasePx   float64 // effective spacing of the edge profile's samples, px
+	Overshoot float64 // largest excursion of the edge profile beyond its plateaus, fraction of the step
+	ESF       Profile
+	LSF       Profile
+	Flags     []Flag
 }
 
 // ErrNoEdge is returned when a region holds no measurable straight edge.

@@ -68,26 +68,26 @@ const (
 // Strings are cut at MaxString bytes, made valid UTF-8 and stripped of
 // control characters and trailing spaces.
 type Tags struct {
-	Make      string `json:"make,omitempty"`       // 0x010F
-	Model     string `json:"model,omitempty"`      // 0x0110
-	LensModel string `json:"lens_model,omitempty"` // 0xA434
+	Make      string // 0x010F
+	Model     string // 0x0110
+	LensModel string // 0xA434
 	// Orientation (0x0112) is how the stored pixels should be turned for
 	// display: 1 = as stored, 3 = 180 degrees, 6 and 8 = quarter turns,
 	// 2, 4, 5, 7 = mirrored variants (TIFF 6.0, section 8).
-	Orientation     int     `json:"orientation,omitempty"`
-	ExposureTimeS   float64 `json:"exposure_time_s,omitempty"`   // 0x829A, seconds
-	FNumber         float64 `json:"f_number,omitempty"`          // 0x829D
-	ExposureBiasEV  float64 `json:"exposure_bias_ev,omitempty"`  // 0x9204, EV (SRATIONAL)
-	FocalLengthMM   float64 `json:"focal_length_mm,omitempty"`   // 0x920A, mm
-	FocalLength35MM int     `json:"focal_length_35mm,omitempty"` // 0xA405, mm (35 mm film equivalent)
-	ISO             int     `json:"iso,omitempty"`               // 0x8827
+	Orientation     int
+	ExposureTimeS   float64 // 0x829A, seconds
+	FNumber         float64 // 0x829D
+	ExposureBiasEV  float64 // 0x9204, EV (SRATIONAL)
+	FocalLengthMM   float64 // 0x920A, mm
+	FocalLength35MM int     // 0xA405, mm (35 mm film equivalent)
+	ISO             int     // 0x8827
 	// FocalPlaneXRes and FocalPlaneYRes (0xA20E, 0xA20F) are sensor pixels
 	// per FocalPlaneResUnit along the image width and height.
-	FocalPlaneXRes float64 `json:"focal_plane_x_res,omitempty"`
-	FocalPlaneYRes float64 `json:"focal_plane_y_res,omitempty"`
+	FocalPlaneXRes float64
+	FocalPlaneYRes float64
 	// FocalPlaneResUnit (0xA210): UnitInch, UnitCentimetre, UnitMillimetre
 	// or UnitMicrometre; 0 when absent.
-	FocalPlaneResUnit int `json:"focal_plane_res_unit,omitempty"`
+	FocalPlaneResUnit int
 }
 
 // IsZero reports whether no tag was found.

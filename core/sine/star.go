@@ -94,14 +94,14 @@ const (
 type Segment struct {
 	// AngleDeg is the direction from the star's centre to the segment's
 	// middle, degrees in [0, 360).
-	AngleDeg float64 `json:"angle_deg"`
+	AngleDeg float64
 	// DirDeg is the direction of measurement: the direction in which the
 	// pattern's contrast varies there, AngleDeg + 90, in [0, 180).
-	DirDeg float64 `json:"dir_deg"`
+	DirDeg float64
 	// Curve is the MTF on the output grid (see Star.RefFreq, Star.MaxFreq).
-	Curve curve.Curve `json:"curve"`
+	Curve curve.Curve
 	// StdErr is the standard error of each Curve value (0 below RefFreq).
-	StdErr []float64 `json:"std_err"`
+	StdErr []float64
 }
 
 // Star is a measured sinusoidal Siemens star.

@@ -1,0 +1,386 @@
+package analyze
+
+// The JSON contract: every type whose JSON the command-line tool prints
+// (`sagitta analyze --json`), the page receives from the core, and
+// Resummarise reads back, with the key of each field beside it. README's
+// section "The JSON contract" points here. The domain packages (edge,
+// sine, exif, chart) keep their own structs without JSON tags; this file
+// converts them at the boundary (the mirror types at its end). Go names
+// spell "centre"; the keys keep their historic "center_px" and
+// "center_unc_px". The codes beside sentences are listed in core/note.
+// (The field summary, field.Summary, and the chart and planner options
+// still carry their own tags: core/plot and the wasm glue read them.)
+
+import (
+	"sagitta/core/chart"
+	"sagitta/core/curve"
+	"sagitta/core/edge"
+	"sagitta/core/exif"
+	"sagitta/core/field"
+	"sagitta/core/sine"
+)
+
+// Result is what one call of the command-line tool prints: one entry per
+// photo. Its JSON form is the contract (README, "The JSON contract"); keys
+// may be added, the documented ones stay.
+type Result struct {
+	Images []*Image `json:"images"`
+}
+
+// Image is the analysis of one photo.
+type Image struct {
+	File        string     `json:"file"`
+	Width       int        `json:"width"`
+	Height      int        `json:"height"`
+	PitchUM     float64    `json:"pitch_um"`
+	PitchSource string     `json:"pitch_source"` // "user", "sensor size" or "Exif focal-plane resolution"
+	PitchFrom   string     `json:"pitch_from"`   // its code: "user", "sensor", "exif" or "fallback" (core/note)
+	CentrePx    [2]float64 `json:"center_px"`
+	CornerMM    float64    `json:"corner_mm"` // largest image height in the frame, mm
+	Format      string     `json:"format"`
+	BitDepth    int        `json:"bit_depth"`
+	Tone        string     `json:"tone"`
+	ToneSource  string     `json:"tone_source"`
+	ToneFrom    string     `json:"tone_from"` // its code: "user", "file" or "default" (core/note)
+	Method      string     `json:"method"`
+	FreqsLPMM   []float64  `json:"freqs_lp_mm"` // the field frequencies used for summaries
+	Exif        ExifTags   `json:"exif"`
+
+	Measurements []Measurement `json:"measurements"`
+	Rejected     []Rejected    `json:"rejected"`
+	Warnings     []string      `json:"warnings"`
+	WarningCodes []string      `json:"warning_codes"` // aligned with Warnings (core/note)
+
+	// Stars and Gratings detail the sine patterns behind the records of
+	// kind "star" and "grating" (see sine.go); Agreement compares stars
+	// with nearby edges (null when no star has edges near it).
+	Stars     []StarInfo    `json:"stars"`
+	Gratings  []GratingInfo `json:"gratings"`
+	Agreement *Agreement    `json:"agreement"`
+
+	// Summary describes sharpness across the frame (field curves, MTF50
+	// map, astigmatism, balance); see field.Summary.
+	Summary *field.Summary `json:"summary"`
+
+	// Chart is set when the photo shows Sagitta's printed chart (chart.go).
+	Chart *ChartResult `json:"chart,omitempty"`
+}
+
+// Measurement is one measured target (one edge, or one orientation of a
+// star) in the contract's shape.
+type Measurement struct {
+	Kind        string            `json:"kind"` // "edge", "star" or "grating"
+	ID          int               `json:"id"`
+	XPx         float64           `json:"x_px"`
+	YPx         float64           `json:"y_px"`
+	HeightMM    float64           `json:"height_mm"`
+	Orientation field.Orientation `json:"orientation"`
+	// RadiusAngleDeg is the angle between the direction of measurement and
+	// the radius (0 = tangential, 90 = sagittal).
+	RadiusAngleDeg Number    `json:"radius_angle_deg"`
+	NormalDeg      float64   `json:"normal_deg"`
+	MTF50          Number    `json:"mtf50_cy_px"`
+	MTF50P         Number    `json:"mtf50p_cy_px"`
+	MTFNyquist     Number    `json:"mtf_nyquist"`
+	MTF50LPMM      Number    `json:"mtf50_lp_mm"`
+	MTFAtFreqs     []Number  `json:"mtf_at_freqs"` // at Image.FreqsLPMM
+	Freq           []float64 `json:"freq_cy_px"`
+	MTF            []float64 `json:"mtf"`
+	Warnings       []string  `json:"warnings"`
+	Flags          []string  `json:"flags"` // machine-readable quality flags behind the warnings
+
+	Region    [4][2]float64 `json:"region_px"` // corners of the measured area
+	LengthPx  float64       `json:"length_px"`
+	SlantDeg  float64       `json:"slant_deg"`
+	SNR       Number        `json:"snr"`
+	Contrast  Number        `json:"contrast"` // light/dark ratio, linear
+	Overshoot float64       `json:"overshoot"`
+	ESF       Profile       `json:"esf"`
+	LSF       Profile       `json:"lsf"`
+
+	// Sine-pattern records only (see sine.go).
+	PatternID    int            `json:"pattern_id,omitempty"`     // id in Image.Stars or Image.Gratings
+	MeasuredCyPx *[2]float64    `json:"measured_cy_px,omitempty"` // frequencies actually measured; outside, freq_cy_px holds no data
+	StdErr       []float64      `json:"mtf_std_err,omitempty"`    // standard error of each mtf value
+	Agreement    *StarAgreement `json:"agreement,omitempty"`      // stars: against nearby edges
+
+	// On Sagitta's chart (chart.go): the target's id ("sq12", "star0"), the
+	// square's edge (1..4; see chart.Square), and the target centre's
+	// designed position, in chart units (the chart's short side is 1,
+	// origin at its centre) and as a fraction of the way from the chart's
+	// centre to its corner. Grating records, which group several gratings,
+	// are not tagged; Chart.Patterns names each grating's target.
+	TargetID   string      `json:"target_id,omitempty"`
+	TargetEdge int         `json:"target_edge,omitempty"`
+	ChartXY    *[2]float64 `json:"chart_xy,omitempty"`
+	ChartField *float64    `json:"chart_field,omitempty"`
+}
+
+// Rejected is a candidate that was not measured or whose measurement was
+// set aside, with the reason and its code (core/note).
+type Rejected struct {
+	X0         float64 `json:"x0_px"`
+	Y0         float64 `json:"y0_px"`
+	X1         float64 `json:"x1_px"`
+	Y1         float64 `json:"y1_px"`
+	Reason     string  `json:"reason"`
+	ReasonCode string  `json:"reason_code"`
+}
+
+// Number is a float64 written to JSON as null when it is not a finite
+// number (an MTF50 beyond the measured range, an infinite SNR of a
+// noise-free simulation); see field.Number.
+type Number = field.Number
+
+// Settings are the user's choices for one analysis. The zero value is valid
+// except that a pixel pitch must come from somewhere: PitchUM, SensorMM,
+// the photo's Exif or FallbackSensorMM, in that order.
+type Settings struct {
+	PitchUM   float64     `json:"pitch_um,omitempty"`  // pixel pitch, micrometres
+	SensorMM  [2]float64  `json:"sensor_mm,omitempty"` // sensor width and height, mm (pitch = width / image width)
+	CentrePx  *[2]float64 `json:"center_px,omitempty"` // optical centre, px; nil = image centre
+	Tone      string      `json:"tone,omitempty"`      // "", "srgb", "linear", "gamma:G"
+	Method    string      `json:"method,omitempty"`    // "", "refined", "iso"
+	FreqsLPMM []float64   `json:"freqs_lp_mm,omitempty"`
+	MaxPixels int         `json:"max_pixels,omitempty"` // refuse larger photos; 0 = the decoder's default
+	Workers   int         `json:"-"`                    // parallel measurements; 0 = GOMAXPROCS
+
+	// FallbackSensorMM is the sensor size (mm) to assume when neither
+	// PitchUM nor SensorMM is given and the photo's Exif gives no usable
+	// pitch (the page's "read it from the file, else this format").
+	FallbackSensorMM [2]float64 `json:"fallback_sensor_mm,omitempty"`
+}
+
+// ChartResult is what the analysis learnt from a Sagitta chart in the
+// photo: which chart, where, how it was photographed, and which of its
+// targets were measured.
+type ChartResult struct {
+	Code string `json:"code"` // the chart code printed on the sheet, e.g. "S1-3:2-L"
+	// Marks are the recognition marks read in the photo.
+	Marks []FoundMark `json:"marks"`
+	// Homography maps chart units (the chart's short side is 1, origin at
+	// its centre, x right, y down) to image px, row-major 3 x 3.
+	Homography chart.Homography `json:"homography"`
+	Setup      Setup            `json:"setup"`
+	// EdgesExpected counts the square edges that lie inside the photo;
+	// EdgesIdentified those measured and tagged with their target.
+	EdgesExpected   int `json:"edges_expected"`
+	EdgesIdentified int `json:"edges_identified"`
+	// Patterns names the chart target of each sine pattern the analysis
+	// measured (Image.Stars and Image.Gratings, by their ids).
+	Patterns []PatternTarget `json:"patterns"`
+	// Missing lists the targets inside the photo that gave no measurement,
+	// with the reason when one is known; OutsideFrame the targets that lie
+	// (partly) outside the photo.
+	Missing      []MissingTarget `json:"missing"`
+	OutsideFrame []string        `json:"outside_frame"`
+	// IgnoredOnMarks and IgnoredOnPatterns count the straight runs that
+	// lie on the recognition marks or inside the sine patterns: they are
+	// parts of known chart features, not candidate targets, and are left
+	// out of Image.Rejected.
+	IgnoredOnMarks    int `json:"ignored_on_marks"`
+	IgnoredOnPatterns int `json:"ignored_on_patterns"`
+}
+
+// PatternTarget ties a measured sine pattern to its chart target.
+type PatternTarget struct {
+	Kind     string `json:"kind"` // "star" or "grating"
+	ID       int    `json:"id"`   // in Image.Stars or Image.Gratings
+	TargetID string `json:"target_id"`
+}
+
+// MissingTarget is a chart target (or one edge of a square) with no
+// measurement.
+type MissingTarget struct {
+	TargetID   string `json:"target_id"`
+	Edge       int    `json:"target_edge,omitempty"`
+	Reason     string `json:"reason"`
+	ReasonCode string `json:"reason_code"` // core/note
+}
+
+// StarInfo describes one measured star in the image JSON: where it is, how
+// well it is located, and its per-segment curves for a polar plot.
+type StarInfo struct {
+	ID          int            `json:"id"`
+	XPx         float64        `json:"x_px"`
+	YPx         float64        `json:"y_px"`
+	HeightMM    float64        `json:"height_mm"`
+	CentreUncPx float64        `json:"center_unc_px"` // 1-sigma uncertainty of the centre, px
+	Cycles      int            `json:"cycles"`
+	RadiusPx    float64        `json:"radius_px"`
+	InnerPx     float64        `json:"inner_px"` // smallest ring measured, px
+	OuterPx     float64        `json:"outer_px"` // largest ring measured, px
+	Modulation  float64        `json:"modulation"`
+	RefFreq     float64        `json:"ref_freq_cy_px"`
+	MaxFreq     float64        `json:"max_freq_cy_px"`
+	Resolved    float64        `json:"resolved_cy_px"` // the modulation stays above 3 standard errors up to here
+	AliasMod    float64        `json:"alias_modulation"`
+	Segments    []Segment      `json:"segments"`
+	Agreement   *StarAgreement `json:"agreement"` // against nearby edges; null when there are none
+	Flags       []string       `json:"flags"`
+	Warnings    []string       `json:"warnings"`
+	Records     []int          `json:"records"` // ids of its measurement records
+}
+
+// GratingInfo describes one measured sine grating in the image JSON.
+type GratingInfo struct {
+	ID           int               `json:"id"`
+	XPx          float64           `json:"x_px"`
+	YPx          float64           `json:"y_px"`
+	HeightMM     float64           `json:"height_mm"`
+	Corners      [4][2]float64     `json:"corners_px"` // the area fitted
+	FreqCyPx     float64           `json:"freq_cy_px"`
+	DirectionDeg float64           `json:"direction_deg"`
+	Orientation  field.Orientation `json:"orientation"`
+	Modulation   float64           `json:"modulation"`
+	ModStdErr    float64           `json:"modulation_std_err"`
+	MTF          Number            `json:"mtf"` // Modulation / the reference's; null for the reference itself
+	Reference    bool              `json:"reference"`
+	Flags        []string          `json:"flags"`
+}
+
+// StarAgreement compares one star record with the edges of the same
+// orientation at a similar image height.
+type StarAgreement struct {
+	Edges    int     `json:"edges"`     // edge records compared
+	RMSDiff  float64 `json:"rms_diff"`  // rms of edge MTF - star MTF over the shared frequencies
+	MeanDiff float64 `json:"mean_diff"` // mean of edge MTF - star MTF (positive: the edges read higher)
+}
+
+// Agreement is the per-photo figure of how well sine patterns and edges
+// agree: the rms over all star records that have nearby edges of the
+// difference between the edges' MTF (their mean) and the star's, at the
+// shared frequencies between AgreeLoCyPx and AgreeHiCyPx.
+type Agreement struct {
+	Records  int     `json:"records"` // star records compared
+	RMSDiff  float64 `json:"rms_diff"`
+	MeanDiff float64 `json:"mean_diff"` // positive: edges read higher than stars
+	LoCyPx   float64 `json:"lo_cy_px"`
+	HiCyPx   float64 `json:"hi_cy_px"`
+}
+
+// Profile is a sampled curve across an edge (edge.Profile): x_px along the
+// normal (0 at the edge, positive on the light side) and v, normalised to
+// 0 (dark) and 1 (light) for the ESF, to a peak of 1 for the LSF.
+type Profile struct {
+	X []float64 `json:"x_px"`
+	V []float64 `json:"v"`
+}
+
+// ExifTags are the Exif values Sagitta reads (exif.Tags; a zero value,
+// left out of the JSON, means "not present").
+type ExifTags struct {
+	Make              string  `json:"make,omitempty"`
+	Model             string  `json:"model,omitempty"`
+	LensModel         string  `json:"lens_model,omitempty"`
+	Orientation       int     `json:"orientation,omitempty"` // 1 = as stored .. 8 (TIFF 6.0, section 8)
+	ExposureTimeS     float64 `json:"exposure_time_s,omitempty"`
+	FNumber           float64 `json:"f_number,omitempty"`
+	ExposureBiasEV    float64 `json:"exposure_bias_ev,omitempty"`
+	FocalLengthMM     float64 `json:"focal_length_mm,omitempty"`
+	FocalLength35MM   int     `json:"focal_length_35mm,omitempty"`
+	ISO               int     `json:"iso,omitempty"`
+	FocalPlaneXRes    float64 `json:"focal_plane_x_res,omitempty"` // sensor pixels per focal_plane_res_unit
+	FocalPlaneYRes    float64 `json:"focal_plane_y_res,omitempty"`
+	FocalPlaneResUnit int     `json:"focal_plane_res_unit,omitempty"` // 2 inch, 3 cm, 4 mm, 5 um
+}
+
+// Segment is one angular segment of a star (sine.Segment): the direction
+// from the centre to its middle, the direction of measurement, its MTF
+// curve and the standard error of each value.
+type Segment struct {
+	AngleDeg float64      `json:"angle_deg"`
+	DirDeg   float64      `json:"dir_deg"`
+	Curve    SegmentCurve `json:"curve"`
+	StdErr   []float64    `json:"std_err"`
+}
+
+// SegmentCurve is a segment's MTF (curve.Curve): ascending frequencies in
+// cycles/pixel and the values.
+type SegmentCurve struct {
+	Freq  []float64 `json:"freq_cy_px"`
+	Value []float64 `json:"mtf"`
+}
+
+// FoundMark is one of the chart's recognition marks read in the photo
+// (chart.FoundMark): which of the eight, the centre of its disc in image
+// px, and the code sectors read wrongly and corrected.
+type FoundMark struct {
+	Index  int     `json:"index"`
+	XPx    float64 `json:"x_px"`
+	YPx    float64 `json:"y_px"`
+	Errors int     `json:"sector_errors"`
+}
+
+// Setup is what the chart's pose says about the way the photo was taken
+// (chart.Setup: the meaning and thresholds of each check are there).
+type Setup struct {
+	CoverPct      float64  `json:"frame_covered_pct"`
+	VisiblePct    float64  `json:"chart_visible_pct"`
+	RotationDeg   float64  `json:"rotation_deg"`
+	KeystoneLRPct float64  `json:"keystone_left_right_pct"`
+	KeystoneTBPct float64  `json:"keystone_top_bottom_pct"`
+	OffCentrePct  float64  `json:"off_centre_pct"`
+	TiltDeg       float64  `json:"tilt_deg,omitempty"`
+	Warnings      []string `json:"warnings"`
+	WarningCodes  []string `json:"warning_codes"` // aligned with Warnings (core/note)
+}
+
+// The conversions at the boundary. Struct conversions ignore tags, so a
+// mirror with the same fields converts in one step; a field added on one
+// side and not the other stops the build here.
+
+func profileOf(p edge.Profile) Profile { return Profile(p) }
+
+func exifOf(t exif.Tags) ExifTags { return ExifTags(t) }
+
+// tags returns the Exif values as core/exif's type (for its methods).
+func (t ExifTags) tags() exif.Tags { return exif.Tags(t) }
+
+func segmentsOf(ss []sine.Segment) []Segment {
+	if ss == nil {
+		return nil
+	}
+	out := make([]Segment, len(ss))
+	for i, s := range ss {
+		out[i] = Segment{AngleDeg: s.AngleDeg, DirDeg: s.DirDeg, Curve: SegmentCurve(s.Curve), StdErr: s.StdErr}
+	}
+	return out
+}
+
+// segments returns the segments as core/sine's type.
+func segments(ss []Segment) []sine.Segment {
+	if ss == nil {
+		return nil
+	}
+	out := make([]sine.Segment, len(ss))
+	for i, s := range ss {
+		out[i] = sine.Segment{AngleDeg: s.AngleDeg, DirDeg: s.DirDeg, Curve: curve.Curve(s.Curve), StdErr: s.StdErr}
+	}
+	return out
+}
+
+func marksOf(ms []chart.FoundMark) []FoundMark {
+	if ms == nil {
+		return nil
+	}
+	out := make([]FoundMark, len(ms))
+	for i, m := range ms {
+		out[i] = FoundMark{Index: m.Index, XPx: m.XPx, YPx: m.YPx, Errors: m.Errors}
+	}
+	return out
+}
+
+// marks returns the marks as core/chart's type.
+func marks(ms []FoundMark) []chart.FoundMark {
+	if ms == nil {
+		return nil
+	}
+	out := make([]chart.FoundMark, len(ms))
+	for i, m := range ms {
+		out[i] = chart.FoundMark{Index: m.Index, XPx: m.XPx, YPx: m.YPx, Errors: m.Errors}
+	}
+	return out
+}
+
+func setupOf(s chart.Setup) Setup { return Setup(s) }
