@@ -43,6 +43,7 @@ test-go: deps tools
 test-wasm: deps
 	GOOS=js GOARCH=wasm $(GO) build -o /dev/null ./wasm
 	GOOS=js GOARCH=wasm $(GO) build -o /dev/null ./wasm/demo
+	@! GOOS=js GOARCH=wasm $(GO) list -deps ./wasm | grep -q '^sagitta/core/sim' || { echo "the measuring engine (wasm/) must not import the simulator (core/sim): the demo has its own build, wasm/demo"; exit 1; }
 	GOOS=js GOARCH=wasm $(GO) test -count=1 -short -exec="$(WASM_EXEC)" ./core/... ./wasm
 
 test: vet lint-js test-go test-wasm test-browser
