@@ -47,7 +47,7 @@ type Image struct {
 	Exif        ExifTags   `json:"exif"`
 
 	Measurements []Measurement `json:"measurements"`
-	Rejected     []Rejected    `json:"rejected"`
+	Rejected     []Rejected    `json:"rejected"` // "set aside" on the page and in the text report
 	Warnings     []string      `json:"warnings"`
 	WarningCodes []string      `json:"warning_codes"` // aligned with Warnings (core/note)
 
@@ -73,7 +73,7 @@ type Measurement struct {
 	ID          int               `json:"id"`
 	XPx         float64           `json:"x_px"`
 	YPx         float64           `json:"y_px"`
-	HeightMM    float64           `json:"height_mm"`
+	HeightMM    float64           `json:"height_mm"` // distance from the optical centre (mm)
 	Orientation field.Orientation `json:"orientation"`
 	// RadiusAngleDeg is the angle between the direction of measurement and
 	// the radius (0 = tangential, 90 = sagittal).
