@@ -181,8 +181,7 @@ function seriesSection(state, ticked) {
     state.pool.call('series', ['aperture', images, '{}']).then(
       (a) => {
         aperture.replaceChildren(el('p', { class: 'verdict' }, a.text));
-        aperture.append(coreFigure(state.pool, 'series', JSON.stringify(a), {}, 'aperture-series'));
-        aperture.append(el('p', { class: 'notes' }, a.caution));
+        aperture.append(coreFigure(state.pool, 'series', JSON.stringify(a), {}, 'aperture-series')); // its note is the caution
       },
       (e) => aperture.replaceChildren(el('p', { class: 'notes' }, `Not an aperture series: ${plain(e.message)}`)),
     );

@@ -9,7 +9,7 @@ import (
 
 // ApertureSeries plots an aperture series: MTF50 against f-number in one
 // panel per zone (centre, middle, corners) on the same axes, the measured
-// means with a band of two standard errors, a perfect lens at each f-number
+// medians with a band of two standard errors, a perfect lens at each f-number
 // (diffraction and pixel area) for reference, and the sharpest stop marked.
 func ApertureSeries(a *series.Aperture) *Figure {
 	f := &Figure{
@@ -41,7 +41,7 @@ func ApertureSeries(a *series.Aperture) *Figure {
 	if pad == 0 {
 		pad = 1
 	}
-	titles := map[string]string{series.ZoneCentre: "Centre", series.ZoneMiddle: "Middle of the field", series.ZoneCorner: "Corners"}
+	titles := map[string]string{series.ZoneCentre: "Centre", series.ZoneMiddle: "Mid-field", series.ZoneCorner: "Corners"}
 	colour := PhotoColours[0]
 	cols := []string{"f-number"}
 	for z, zone := range a.Zones {
@@ -61,23 +61,23 @@ func ApertureSeries(a *series.Aperture) *Figure {
 		}
 		p.Bands = append(p.Bands, Band{Name: "two standard errors", X: xs, Lo: lo, Hi: hi, Colour: translucent(colour, 0x40)})
 		p.Series = append(p.Series,
-			Series{Name: "perfect lens", X: xs, Y: perfect, Colour: ReferenceColour, Width: 1.5, Dash: []float64{2, 3}},
-			Series{Name: "measured " + zone, X: xs, Y: y, Colour: colour, Width: 2.5})
+			Series{Name: "perfect lens", X: xs, Y: perfect, Colour: ReferenceColour, Width: 1.4, Dash: referenceDash},
+			Series{Name: "measured " + zone, X: xs, Y: y, Colour: colour, Width: LineWidth})
 		if sh := a.Sharpest[z]; sh.FNumber > 0 {
-			p.Marks = append(p.Marks, Mark{X: sh.FNumber, Y: float64(sh.MTF50LPMM), Marker: Diamond, Size: 5, Colour: InkColour, Label: "sharpest"})
+			p.Marks = append(p.Marks, Mark{X: sh.FNumber, Y: float64(sh.MTF50LPMM), Marker: ReadingMarker, Size: 4, Colour: InkColour, Label: "sharpest"})
 		}
 		f.Panels = append(f.Panels, p)
 		cols = append(cols, zone+" MTF50 (lp/mm)", zone+" ±2 SE")
 	}
 	f.Legend = []LegendEntry{
-		{Label: "measured (mean of the zone's targets)", Colour: colour, Width: 2.5},
+		{Label: "measured (median of the zone's targets)", Colour: colour, Width: LineWidth},
 		{Label: "± 2 standard errors", Colour: translucent(colour, 0x40), Swatch: true},
-		{Label: "perfect lens: diffraction (550 nm) × pixel area", Colour: ReferenceColour, Width: 1.5, Dash: []float64{2, 3}},
-		{Label: "sharpest stop", Colour: InkColour, Marker: Diamond},
+		{Label: "perfect lens: diffraction (550 nm) × pixel area", Colour: ReferenceColour, Width: 1.4, Dash: referenceDash},
+		{Label: "sharpest stop", Colour: InkColour, Marker: ReadingMarker},
 	}
 	f.Notes = []string{a.Caution}
 	cols = append(cols, "perfect lens MTF50 (lp/mm)")
-	f.Data = Table{Caption: "MTF50 per zone at each f-number (mean of the zone's targets, two standard errors) and a perfect lens", Columns: cols}
+	f.Data = Table{Caption: "MTF50 per zone at each f-number (median of the zone's targets, two standard errors) and a perfect lens", Columns: cols}
 	for i, st := range a.Stops {
 		row := []string{fmt.Sprintf("%g", st.FNumber)}
 		for z := range a.Zones {
