@@ -3,6 +3,7 @@ package raw
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"sagitta/core/exif"
 )
@@ -81,6 +82,9 @@ func locate(data []byte) (*tiffFile, *ifd, *ifd, error) {
 	all, err := f.walk(first)
 	if err != nil {
 		return nil, nil, nil, err
+	}
+	if len(all) == 0 {
+		return nil, nil, nil, FormatError("not a DNG file (the TIFF has no IFD)")
 	}
 	d0 := all[0]
 	if !d0.has(tagDNGVersion) {
@@ -266,7 +270,11 @@ func (r *Raster) readChunk(c chunk) error {
 	case compLosslessJPEG:
 		fr, err := decodeLJ(src, 2*rowSamples*c.h+1024)
 		if err != nil {
-			return fmt.Errorf("%s %d: %w", kind, c.index, err)
+			msg := fmt.Sprintf("%s %d: %s", kind, c.index, strings.TrimPrefix(err.Error(), "raw: "))
+			if _, ok := err.(UnsupportedError); ok {
+				return UnsupportedError(msg)
+			}
+			return FormatError(msg)
 		}
 		if fr.W*fr.NC*fr.H < rowSamples*c.rows {
 			return formatf("%s %d: its lossless JPEG holds %d x %d x %d samples, fewer than the %d x %d the %s needs", kind, c.index, fr.W, fr.H, fr.NC, c.w, c.rows, kind)

@@ -26,6 +26,10 @@ type DNG struct {
 	// Margin px around the default crop (DefaultCropOrigin/Size); the
 	// ActiveArea is the whole frame. Even, so the pattern's phase is kept.
 	Margin int
+	// Linear writes a linear DNG (PhotometricInterpretation LinearRaw):
+	// three samples per pixel, R, G, B, each the level times its gain,
+	// instead of a mosaic.
+	Linear bool
 	// Camera data, written to IFD0 and the Exif IFD. Use invented names.
 	Make, Model, UniqueCameraModel string
 	FNumber, FocalLengthMM         float64
@@ -87,8 +91,10 @@ func (c *Camera) EncodeDNG(s Scene, o DNG) ([]byte, error) {
 		return nil, err
 	}
 	c.addNoise(p)
-	codes := MosaicCodes(p, o)
-	return writeDNG(codes, c.W, c.H, o), nil
+	if o.Linear {
+		return writeDNG(linearCodes(p, o), c.W, c.H, o), nil
+	}
+	return writeDNG(MosaicCodes(p, o), c.W, c.H, o), nil
 }
 
 // MosaicCodes returns the code values EncodeDNG stores for the linear plane
@@ -102,6 +108,19 @@ func MosaicCodes(p *plane.Plane, o DNG) []uint16 {
 			g := o.Gains[colourIndex(o.Pattern[(y%2)*2+x%2])]
 			v := float64(o.Black) + math.Round(float64(p.Pix[y*p.W+x])*g*span)
 			out[y*p.W+x] = uint16(math.Min(math.Max(v, 0), float64(o.White)))
+		}
+	}
+	return out
+}
+
+// linearCodes returns three codes per pixel (R, G, B) for a linear DNG.
+func linearCodes(p *plane.Plane, o DNG) []uint16 {
+	out := make([]uint16, 3*p.W*p.H)
+	span := float64(o.White - o.Black)
+	for i, l := range p.Pix {
+		for c := range 3 {
+			v := float64(o.Black) + math.Round(float64(l)*o.Gains[c]*span)
+			out[3*i+c] = uint16(math.Min(math.Max(v, 0), float64(o.White)))
 		}
 	}
 	return out
@@ -217,6 +236,10 @@ func writeDNG(codes []uint16, w, h int, o DNG) []byte {
 	}
 	t := tw{bo}
 
+	spp := 1
+	if o.Linear {
+		spp = 3
+	}
 	// Image data.
 	cw, ch := w, min(o.RowsPerStrip, h)
 	if o.TileW > 0 {
@@ -231,17 +254,21 @@ func writeDNG(codes []uint16, w, h int, o DNG) []byte {
 				rows = min(ch, h-j*ch)
 			}
 			// The chunk's samples, padded by repeating the last column/row.
-			buf := make([]uint16, cw*rows)
+			buf := make([]uint16, cw*rows*spp)
 			for y := 0; y < rows; y++ {
 				sy := min(j*ch+y, h-1)
 				for x := 0; x < cw; x++ {
 					sx := min(i*cw+x, w-1)
-					buf[y*cw+x] = codes[sy*w+sx]
+					for s := range spp {
+						buf[(y*cw+x)*spp+s] = codes[(sy*w+sx)*spp+s]
+					}
 				}
 			}
 			var data []byte
 			if o.Lossless {
-				if o.TileW > 0 {
+				if spp > 1 {
+					data = LosslessJPEG(buf, cw, rows, spp, o.Bits, o.Predictor, 0)
+				} else if o.TileW > 0 {
 					// Two components interleaved over half the tile's width
 					// (the layout DNG writers use for wide tiles).
 					data = LosslessJPEG(buf, cw/2, rows, 2, o.Bits, o.Predictor, 0)
@@ -249,7 +276,7 @@ func writeDNG(codes []uint16, w, h int, o DNG) []byte {
 					data = LosslessJPEG(buf, cw, rows, 1, o.Bits, o.Predictor, cw*8)
 				}
 			} else {
-				data = packCodes(buf, cw, rows, o.Bits, bo)
+				data = packCodes(buf, cw*spp, rows, o.Bits, bo)
 			}
 			offs = append(offs, len(out))
 			cnts = append(cnts, len(data))
@@ -268,19 +295,24 @@ func writeDNG(codes []uint16, w, h int, o DNG) []byte {
 	raw.fields = append(raw.fields,
 		t.long(254, 0), // NewSubFileType: main image
 		t.long(256, w), t.long(257, h),
-		t.short(258, o.Bits), t.short(259, comp), t.short(262, 32803), // CFA
-		t.short(277, 1), t.short(284, 1),
-		t.short(33421, 2, 2), // CFARepeatPatternDim
-		t.bytes(33422, 1, byte(colourIndex(o.Pattern[0])), byte(colourIndex(o.Pattern[1])), byte(colourIndex(o.Pattern[2])), byte(colourIndex(o.Pattern[3]))),
-		t.bytes(50710, 1, 0, 1, 2), // CFAPlaneColor
-		t.short(50711, 1),          // CFALayout: rectangular
-		t.short(50713, 1, 1),       // BlackLevelRepeatDim
-		t.long(50714, o.Black),     // BlackLevel
-		t.long(50717, o.White),     // WhiteLevel
+		t.short(259, comp), t.short(284, 1),
+		t.short(50713, 1, 1),   // BlackLevelRepeatDim
+		t.long(50714, o.Black), // BlackLevel
+		t.long(50717, o.White), // WhiteLevel
 		t.long(50719, o.Margin, o.Margin),
 		t.long(50720, w-2*o.Margin, h-2*o.Margin),
 		t.long(50829, 0, 0, h, w), // ActiveArea
 	)
+	if o.Linear {
+		raw.fields = append(raw.fields, t.short(258, o.Bits, o.Bits, o.Bits), t.short(262, 34892), t.short(277, 3)) // LinearRaw
+	} else {
+		raw.fields = append(raw.fields, t.short(258, o.Bits), t.short(262, 32803), t.short(277, 1), // CFA
+			t.short(33421, 2, 2), // CFARepeatPatternDim
+			t.bytes(33422, 1, byte(colourIndex(o.Pattern[0])), byte(colourIndex(o.Pattern[1])), byte(colourIndex(o.Pattern[2])), byte(colourIndex(o.Pattern[3]))),
+			t.bytes(50710, 1, 0, 1, 2), // CFAPlaneColor
+			t.short(50711, 1),          // CFALayout: rectangular
+		)
+	}
 	if o.TileW > 0 {
 		raw.fields = append(raw.fields, t.long(322, o.TileW), t.long(323, o.TileH), t.long(324, offs...), t.long(325, cnts...))
 	} else {
