@@ -329,8 +329,8 @@ func writeDNG(codes []uint16, w, h int, o DNG) []byte {
 	}
 	if o.PitchUM > 0 {
 		// Pixels per centimetre (unit 3, CIPA DC-008).
-		r := t.rational(0xA20E, int(math.Round(1e4/o.PitchUM*1000)), 1000)
-		exifIFD.fields = append(exifIFD.fields, r, t.rational(0xA20F, int(math.Round(1e4/o.PitchUM*1000)), 1000), t.short(0xA210, 3))
+		r := t.rational(0xA20E, int(math.Round(1e4/o.PitchUM*1e5)), 100000)
+		exifIFD.fields = append(exifIFD.fields, r, t.rational(0xA20F, int(math.Round(1e4/o.PitchUM*1e5)), 100000), t.short(0xA210, 3))
 	}
 
 	ifd0 := &tifd{ptrs: map[int]*tifd{}}
