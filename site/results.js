@@ -48,7 +48,7 @@ export function renderResult(sec, p, state, display) {
   sec.append(rep);
   const head = el('div', { class: 'result-head' });
   const h = el('h2', { id: 'result-title' }, labelOf(p));
-  const facts = el('p', { class: 'facts' }, `${p.name} · ${r.width} × ${r.height} px · ${r.format.toUpperCase()} · ${outcome(r)}`);
+  const facts = el('p', { class: 'facts' }, `${p.name} · ${r.width} × ${r.height} px · ${r.format.toUpperCase()}${r.raw ? ` (${r.raw.text})` : ''} · ${outcome(r)}`);
   head.append(h, facts);
   sec.append(head);
   if (r.warnings.length) {
@@ -298,6 +298,8 @@ function renderDetail() {
   row('MTF50P', fmtFreq(m.mtf50p_cy_px, units, r));
   r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, fmt(m.mtf_at_freqs[i], 3)));
   row('MTF at Nyquist', fmt(m.mtf_nyquist, 3));
+  // Raw photos: the edge on each colour plane of the mosaic (the curve above is green's).
+  if (m.channels && m.channels.length) row('MTF50 by colour', m.channels.map((c) => `${c.channel} ${c.error ? 'not measured' : fmtFreq(c.mtf50_cy_px, units, r)}`).join(' · '));
   if (m.kind === 'edge') {
     row('Edge', `${fmt(m.length_px, 0)} px long, slanted ${fmt(m.slant_deg, 1)}°, contrast ${fmt(m.contrast, 1)}:1` + (Number.isFinite(m.snr) ? `, signal/noise ${fmt(m.snr, 0)}` : ''));
   } else {

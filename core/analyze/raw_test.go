@@ -187,10 +187,12 @@ func TestRawAgainstJPEG(t *testing.T) {
 	}
 	mr, mj := sumRaw/float64(nRaw), sumJPEG/float64(nJPEG)
 	t.Logf("mean MTF at 0.25 cy/px: raw %.3f, demosaiced+sharpened JPEG %.3f; %d of %d JPEG edges flagged sharpened", mr, mj, sharpened, nJPEG)
-	if math.Abs(mj-mr) < 0.05 {
-		t.Errorf("the JPEG reads like the raw (%.3f vs %.3f)", mj, mr)
+	// README: 0.44 against 0.33, every edge flagged (the lift asserted at
+	// half the quoted 0.11).
+	if mj-mr < 0.055 {
+		t.Errorf("the JPEG reads too close to the raw (%.3f vs %.3f)", mj, mr)
 	}
-	if sharpened < nJPEG/2 {
+	if sharpened < nJPEG {
 		t.Errorf("only %d of %d JPEG edges flagged sharpened", sharpened, nJPEG)
 	}
 }
