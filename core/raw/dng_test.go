@@ -31,7 +31,17 @@ var variants = []struct {
 	{"lossless tiles pred 6 BE", simcam.DNG{Lossless: true, TileW: 32, TileH: 16, Predictor: 6, BigEndian: true, SubIFD: true}, true},
 	{"lossless strips 16-bit pred 7", simcam.DNG{Lossless: true, Bits: 16, Black: 1000, Predictor: 7, RowsPerStrip: 40}, false},
 	{"lossless one strip with restarts 16-bit", simcam.DNG{Lossless: true, Bits: 16, Black: 1000, RowsPerStrip: 120, Margin: 6}, true},
+	{"12-bit per-site black and a linearisation table", simcam.DNG{Bits: 12, SiteBlack: []int{250, 260, 255, 270}, Table: curve12(), Pattern: "BGGR"}, true},
 	{"lossless tiles pred 7 16-bit", simcam.DNG{Lossless: true, Bits: 16, TileW: 96, TileH: 64, Predictor: 7, Pattern: "GRBG"}, true},
+}
+
+// curve12 is a 12-bit linearisation table, 4095 (i/4095)^1.2.
+func curve12() []uint16 {
+	t := make([]uint16, 4096)
+	for i := range t {
+		t[i] = uint16(math.Round(4095 * math.Pow(float64(i)/4095, 1.2)))
+	}
+	return t
 }
 
 // testCamera renders a slanted edge with photon noise, so every code
@@ -86,14 +96,23 @@ func TestReadBack(t *testing.T) {
 			if img.Pattern.String() != pat { // even margins keep the phase
 				t.Errorf("pattern %s, want %s", img.Pattern, pat)
 			}
-			if img.Black != float64(black) || img.White != float64(white) {
+			siteBlack := func(x, y int) float64 { return float64(black) }
+			if len(o.SiteBlack) == 4 {
+				black = (o.SiteBlack[0] + o.SiteBlack[1] + o.SiteBlack[2] + o.SiteBlack[3]) / 4
+				siteBlack = func(x, y int) float64 { return float64(o.SiteBlack[(y%2)*2+x%2]) }
+			}
+			if math.Abs(img.Black-float64(black)) > 1 || img.White != float64(white) {
 				t.Errorf("levels %v %v, want %d %d", img.Black, img.White, black, white)
 			}
 			var worst float64
 			for y := 0; y < img.Height; y++ {
 				for x := 0; x < img.Width; x++ {
 					code := float64(r.Codes[(y+o.Margin)*r.W+x+o.Margin])
-					want := (code - float64(black)) / float64(white-black)
+					if o.Table != nil {
+						code = float64(o.Table[int(code)])
+					}
+					b := siteBlack(x+o.Margin, y+o.Margin)
+					want := (code - b) / (float64(white) - b)
 					worst = math.Max(worst, math.Abs(float64(img.Mosaic.At(x, y))-want))
 				}
 			}

@@ -13,8 +13,15 @@ import (
 // an RGGB, 14-bit, uncompressed, little-endian file in strips, black 512,
 // white 16383, no crop margin.
 type DNG struct {
-	Bits         int        // code bits, 8 to 16 (default 14)
-	Black, White int        // levels in code values (default 512 and 2^Bits - 1)
+	Bits         int // code bits, 8 to 16 (default 14)
+	Black, White int // levels in code values (default 512 and 2^Bits - 1)
+	// SiteBlack, if set, gives each site of the 2x2 pattern its own black
+	// level (row by row; BlackLevelRepeatDim 2 x 2) instead of Black.
+	SiteBlack []int
+	// Table, if set, is written as the LinearizationTable: a reader maps
+	// each stored code c to Table[c] before the levels apply (the codes
+	// are stored as computed; the table only changes what they mean).
+	Table        []uint16
 	Pattern      string     // 2x2 pattern, row by row, of R, G, B (default "RGGB")
 	Gains        [3]float64 // sensitivity of the R, G, B sites to the scene's linear level (default 1, 1, 1)
 	Lossless     bool       // lossless JPEG (compression 7) instead of uncompressed
@@ -86,6 +93,14 @@ func (c *Camera) EncodeDNG(s Scene, o DNG) ([]byte, error) {
 		(o.Lossless && o.TileW%2 != 0) || o.Predictor < 1 || o.Predictor > 7 {
 		return nil, invalidf("DNG settings out of range")
 	}
+	for _, b := range o.SiteBlack {
+		if b < 0 || b >= o.White || len(o.SiteBlack) != 4 {
+			return nil, invalidf("DNG site black levels must be 4 values in [0, White)")
+		}
+	}
+	if len(o.Table) > 1<<o.Bits {
+		return nil, invalidf("DNG linearisation table longer than the code range")
+	}
 	p, err := c.Render(s)
 	if err != nil {
 		return nil, err
@@ -102,11 +117,14 @@ func (c *Camera) EncodeDNG(s Scene, o DNG) ([]byte, error) {
 func MosaicCodes(p *plane.Plane, o DNG) []uint16 {
 	o.defaults()
 	out := make([]uint16, p.W*p.H)
-	span := float64(o.White - o.Black)
 	for y := 0; y < p.H; y++ {
 		for x := 0; x < p.W; x++ {
 			g := o.Gains[colourIndex(o.Pattern[(y%2)*2+x%2])]
-			v := float64(o.Black) + math.Round(float64(p.Pix[y*p.W+x])*g*span)
+			black := o.Black
+			if len(o.SiteBlack) == 4 {
+				black = o.SiteBlack[(y%2)*2+x%2]
+			}
+			v := float64(black) + math.Round(float64(p.Pix[y*p.W+x])*g*float64(o.White-black))
 			out[y*p.W+x] = uint16(math.Min(math.Max(v, 0), float64(o.White)))
 		}
 	}
@@ -296,8 +314,20 @@ func writeDNG(codes []uint16, w, h int, o DNG) []byte {
 		t.long(254, 0), // NewSubFileType: main image
 		t.long(256, w), t.long(257, h),
 		t.short(259, comp), t.short(284, 1),
-		t.short(50713, 1, 1),   // BlackLevelRepeatDim
-		t.long(50714, o.Black), // BlackLevel
+	)
+	if len(o.SiteBlack) == 4 && !o.Linear {
+		raw.fields = append(raw.fields, t.short(50713, 2, 2), t.long(50714, o.SiteBlack...)) // BlackLevelRepeatDim, BlackLevel
+	} else {
+		raw.fields = append(raw.fields, t.short(50713, 1, 1), t.long(50714, o.Black))
+	}
+	if len(o.Table) > 0 {
+		tab := make([]int, len(o.Table))
+		for i, v := range o.Table {
+			tab[i] = int(v)
+		}
+		raw.fields = append(raw.fields, t.short(50712, tab...)) // LinearizationTable
+	}
+	raw.fields = append(raw.fields,
 		t.long(50717, o.White), // WhiteLevel
 		t.long(50719, o.Margin, o.Margin),
 		t.long(50720, w-2*o.Margin, h-2*o.Margin),
