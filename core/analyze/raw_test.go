@@ -59,6 +59,9 @@ func TestRawMosaic(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
+			if testing.Short() && c.fullWellE > 0 {
+				t.Skip("the noisy case runs without -short")
+			}
 			wg, wrb, rg, rrb := rawMosaicErrors(t, c.fullWellE)
 			if wg > c.worstG || wrb > c.worstRB || rg > c.rmsG || rrb > c.rmsRB {
 				t.Errorf("errors green worst %.4f rms %.4f, red/blue worst %.4f rms %.4f; limits %.4f %.4f %.4f %.4f",
@@ -140,6 +143,9 @@ func rawMosaicErrors(t *testing.T, fullWellE float64) (worstG, worstRB, rmsG, rm
 // and saved as a JPEG as a camera would, reads differently: the edges are
 // flagged sharpened and the MTF at 0.25 cy/px is lifted.
 func TestRawAgainstJPEG(t *testing.T) {
+	if testing.Short() {
+		t.Skip("runs without -short")
+	}
 	_, _, data := rawShoot(t, 30000)
 	rawImg, err := Run(context.Background(), "shot.dng", data, Settings{}, nil)
 	if err != nil {
