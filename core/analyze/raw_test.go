@@ -3,6 +3,7 @@ package analyze
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"image"
 	"image/color"
 	"image/jpeg"
@@ -273,4 +274,37 @@ func cameraJPEG(t testing.TB, ri *raw.Image) []byte {
 		t.Fatal(err)
 	}
 	return buf.Bytes()
+}
+
+// TestRawResummarise: a raw photo's result placed anew for another pixel
+// pitch and optical centre equals measuring it with those settings, raw
+// note and channels included.
+func TestRawResummarise(t *testing.T) {
+	cam := &simcam.Camera{W: 360, H: 240, Lens: simcam.Fixed{PSF: simcam.Gaussian{Sigma1: 0.8, Sigma2: 0.8}}}
+	sc := simcam.Scene{Background: 0.6, Polygons: []simcam.Polygon{simcam.Square(180, 120, 110, 8, 0.15)}}
+	data, err := cam.EncodeDNG(sc, simcam.DNG{Gains: [3]float64{0.6, 1, 0.8}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	first, err := Run(context.Background(), "a.dng", data, Settings{PitchUM: 4}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := Settings{PitchUM: 5, CenterPx: &[2]float64{150, 100}}
+	again, err := Resummarise(first, s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	direct, err := Run(context.Background(), "a.dng", data, s, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, _ := json.Marshal(again)
+	b, _ := json.Marshal(direct)
+	if !bytes.Equal(a, b) {
+		t.Errorf("Resummarise differs from Run:\n%s\n%s", a, b)
+	}
+	if again.Raw == nil || len(again.Measurements) == 0 || len(again.Measurements[0].Channels) != 3 {
+		t.Errorf("raw data lost: %+v", again.Raw)
+	}
 }
