@@ -157,3 +157,49 @@ func TestReadBack(t *testing.T) {
 		t.Errorf("neutral %v", img.Neutral)
 	}
 }
+
+// TestActiveArea: the colour filter pattern starts at the active area's
+// top-left (DNG 1.4, chapter 4, ActiveArea and CFAPattern), and a default
+// crop reaching outside the active area falls back to the whole active area
+// with a note.
+func TestActiveArea(t *testing.T) {
+	data := dngOf(t, simcam.DNG{Pattern: "RGGB"})
+	e, bo := rawEntry(t, data, tagActiveArea)
+	b := append([]byte(nil), data...)
+	for i, v := range []uint32{2, 1, 120, 200} { // top, left, bottom, right
+		bo.PutUint32(b[e.off+4*uint64(i):], v)
+	}
+	img, err := Decode(b, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, _ := ReadRaster(b, Options{})
+	if img.Width != 199 || img.Height != 118 {
+		t.Fatalf("size %dx%d, want 199x118", img.Width, img.Height)
+	}
+	if img.Pattern.String() != "RGGB" {
+		// The pattern is relative to the active area: its top-left site is
+		// red whatever the offset.
+		t.Errorf("pattern %s, want RGGB", img.Pattern)
+	}
+	want := (float64(r.Codes[2*r.W+1]) - 512) / (16383 - 512)
+	if got := float64(img.Mosaic.At(0, 0)); math.Abs(got-want) > 1e-6 {
+		t.Errorf("first value %v, want %v (raw (1, 2))", got, want)
+	}
+	if len(img.Warnings) == 0 {
+		t.Error("no note about the default crop")
+	}
+	// A crop inside the active area shifts the pattern by its origin.
+	c, s := testCamera()
+	data2, _ := c.EncodeDNG(s, simcam.DNG{Pattern: "RGGB", Margin: 2})
+	e2, bo2 := rawEntry(t, data2, tagDefaultCropOrigin)
+	b2 := append([]byte(nil), data2...)
+	bo2.PutUint32(b2[e2.off:], 3) // x origin 3: odd, so the crop starts on a green site
+	img2, err := Decode(b2, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if img2.Pattern.String() != "GRBG" {
+		t.Errorf("pattern of a crop starting at x = 3: %s, want GRBG", img2.Pattern)
+	}
+}
