@@ -10,8 +10,9 @@ import (
 // variants are the simulated camera's DNG layouts every reader test runs
 // through. Names are invented.
 // libraw marks the layouts libraw 0.20 (Debian 12's libraw-bin) reads:
-// it stops with "Unexpected end of file" on our uncompressed tiled files
-// and reads only the first strip of a lossless JPEG file in strips, so
+// it stops with "Unexpected end of file" on our uncompressed tiled files,
+// even with tiles as wide as the image, whose bytes are then exactly those
+// of the strips it reads, and it reads only the first strip of a lossless JPEG file in strips, so
 // those two layouts are checked against the writer's codes only. Strips
 // carry restart intervals; T.81 H.1.2.1 restarts the prediction there (as we read it) as
 // on the first line (Ra only), which libraw does not do for predictors
