@@ -134,6 +134,7 @@ func TestBadDNG(t *testing.T) {
 		{"file cut short", tiles[:len(tiles)/2], "outside the file"},
 		{"huge declared size", patch(t, patch(t, strips, tagImageWidth, 60000), tagImageLength, 50000), "above the limit of 120.0 MP"},
 		{"loop of IFDs", loop, "a loop of IFDs"},
+		{"huge tiles", patch(t, patch(t, tiles, tagTileWidth, 8192), tagTileLength, 8192), "far larger than the 200 x 120 image"},
 		{"SubIFD pointing back", subLoop, "a loop of IFDs"},
 		{"lossy DNG", patch(t, strips, tagCompression, compLossyDNG), "lossy DNG (compression 34892) is not read"},
 		{"JPEG XL", patch(t, strips, tagCompression, compJPEGXL), "JPEG XL"},

@@ -197,6 +197,9 @@ func (r *Raster) chunks() ([]chunk, error) {
 		if a <= 0 || b <= 0 || a > 1<<16 || b > 1<<16 || a*b > 1<<26 {
 			return nil, formatf("DNG tiles of %d x %d px are invalid", a, b)
 		}
+		if a*b > 4*int64(r.W)*int64(r.H)+1<<20 {
+			return nil, formatf("DNG tiles of %d x %d px are far larger than the %d x %d image", a, b, r.W, r.H)
+		}
 		tw, th = int(a), int(b)
 		offs, _ = f.ints(d, tagTileOffsets)
 		cnts, _ = f.ints(d, tagTileByteCounts)
