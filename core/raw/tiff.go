@@ -33,8 +33,8 @@ var typeSize = [...]int{0, 1, 1, 2, 4, 8, 1, 1, 2, 4, 8, 4, 8, 4}
 
 // Limits of the structure walk.
 const (
-	maxEntries = 1000 // entries in one IFD
-	maxIFDs    = 64   // IFDs visited in one file
+	maxEntries = 1000    // entries in one IFD
+	maxIFDs    = 64      // IFDs visited in one file
 	maxValues  = 1 << 22 // values read from one tag (a 120 MP image in 16 x 16 tiles has 470 000)
 )
 
