@@ -58,7 +58,8 @@ func PlaneNyquist(quincunx bool, normalDeg float64) float64 {
 // photosites sites selects, with the refined estimator (the ISO procedure
 // bins on the dense pixel grid and is not defined for a sparse plane; a
 // request for it is measured refined and the Method field says so).
-// Coordinates and frequencies are in photo pixels.
+// Coordinates and frequencies are in photo pixels. It panics if sites has
+// no Keep function or a Period below 1 (a programmer error).
 func MeasureSites(p *plane.Plane, sites Sites, r Region, opt Options) (*Measurement, error) {
 	if r.HalfLen < 5 || r.HalfWidth < 4 {
 		return nil, fmt.Errorf("edge: region too small (%.0f x %.0f px)", 2*r.HalfLen, 2*r.HalfWidth)

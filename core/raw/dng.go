@@ -175,13 +175,12 @@ func (r *Raster) header(opt Options) error {
 
 // chunk is one strip or tile.
 type chunk struct {
-	off, n       uint64 // bytes in the file
-	x0, y0       int    // position in the image, px
-	w, h         int    // stored size (a tile's full size), px
-	rows, cols   int    // part inside the image, px
-	index        int
-	tile         bool
-	lastStripCut bool
+	off, n     uint64 // bytes in the file
+	x0, y0     int    // position in the image, px
+	w, h       int    // stored size (a tile's full size), px
+	rows, cols int    // part inside the image, px
+	index      int
+	tile       bool
 }
 
 // chunks lists the strips or tiles with their offsets checked against the
@@ -239,7 +238,7 @@ func (r *Raster) chunks() ([]chunk, error) {
 	return out, nil
 }
 
-// readRaster decodes every strip or tile into r.Codes.
+// read decodes every strip or tile into r.Codes.
 func (r *Raster) read() error {
 	cs, err := r.chunks()
 	if err != nil {
