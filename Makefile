@@ -30,10 +30,12 @@ vet: deps
 	@test -z "$$(gofmt -l core wasm site 2>/dev/null)" || { echo "gofmt needed:"; gofmt -l core wasm site; exit 1; }
 
 # Debian tools the tests use as independent references (poppler's pdfinfo
-# and pdftoppm read our PDFs). Installed when missing; tests that need them
-# skip only when they cannot be had.
+# and pdftoppm read our PDFs; libraw's unprocessed_raw and raw-identify read
+# our DNGs). Installed when missing; tests that need them skip only when they
+# cannot be had.
 tools:
 	@command -v pdftoppm >/dev/null 2>&1 || { (apt-get install -y poppler-utils >/dev/null 2>&1 || (apt-get update >/dev/null && apt-get install -y poppler-utils >/dev/null)) || echo "warning: poppler-utils could not be installed"; }
+	@command -v unprocessed_raw >/dev/null 2>&1 || { (apt-get install -y libraw-bin >/dev/null 2>&1 || (apt-get update >/dev/null && apt-get install -y libraw-bin >/dev/null)) || echo "warning: libraw-bin could not be installed"; }
 
 test-go: deps tools
 	$(GO) test -count=1 ./...

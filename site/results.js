@@ -42,7 +42,7 @@ export function renderResult(sec, p, state, display) {
   sec.append(rep);
   const head = el('div', { class: 'result-head' });
   const h = el('h2', { id: 'result-title' }, labelOf(p));
-  const facts = el('p', { class: 'facts' }, `${p.name} · ${r.width} × ${r.height} px · ${r.format.toUpperCase()} · ${outcome(r)}`);
+  const facts = el('p', { class: 'facts' }, `${p.name} · ${r.width} × ${r.height} px · ${r.format.toUpperCase()}${r.raw ? ` (${r.raw.text})` : ''} · ${outcome(r)}`);
   head.append(h, facts);
   sec.append(head);
   if (r.warnings.length) {
@@ -294,6 +294,8 @@ function renderDetail() {
   r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, Number.isFinite(m.mtf_at_freqs[i]) || !m.measured_cy_px ? fmt(m.mtf_at_freqs[i], 3)
     : `n/a: beyond the frequencies this ${m.kind === 'star' ? 'star' : 'set of gratings'} measured (${fmtFreq(m.measured_cy_px[0], 'lpmm', r, false)}–${fmtFreq(m.measured_cy_px[1], 'lpmm', r)})`));
   row('MTF at Nyquist', fmt(m.mtf_nyquist, 3), 'Nyquist');
+  // Raw photos: the edge on each colour plane of the mosaic (the curve above is green's).
+  if (m.channels && m.channels.length) row('MTF50 by colour', m.channels.map((c) => `${c.channel} ${c.error ? 'not measured' : fmtFreq(c.mtf50_cy_px, units, r)}`).join(' · '));
   if (m.kind === 'edge') {
     row('Edge', `${fmt(m.length_px, 0)} px long, slanted ${fmt(m.slant_deg, 1)}°, contrast ${fmt(m.contrast, 1)}:1` + (Number.isFinite(m.snr) ? `, signal/noise ${fmt(m.snr, 0)}` : ''));
   } else {

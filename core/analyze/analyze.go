@@ -71,9 +71,13 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 		Measurements: []Measurement{}, Rejected: []Rejected{},
 		Stars: []StarInfo{}, Gratings: []GratingInfo{},
 		Warnings: []string{}, WarningCodes: []string{},
+		Raw: rawInfo(dec),
 	}
 	for i, w := range dec.Warnings {
 		img.warn(note.New(dec.WarningCodes[i], w))
+	}
+	for _, n := range rawWarnings(dec, chk.method) {
+		img.warn(n)
 	}
 	geo, err := placeFrame(img, s, chk.freqs)
 	if err != nil {
@@ -114,7 +118,9 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 			img.Rejected = append(img.Rejected, rejectOf(c.Region, reason))
 			continue
 		}
-		img.Measurements = append(img.Measurements, record(r.m, c.Region))
+		rec := record(r.m, c.Region)
+		rec.Channels = r.chans
+		img.Measurements = append(img.Measurements, rec)
 	}
 	img.Measurements = append(img.Measurements, pats.starRecords(img, geo)...)
 	img.Gratings = gratingInfos(pats.gratings)
@@ -231,8 +237,9 @@ func pitch(s Settings, widthPx int, tags exif.Tags) (float64, string, note.Code,
 }
 
 type outcome struct {
-	m   *edge.Measurement
-	err error
+	m     *edge.Measurement
+	chans []ChannelMTF // per colour channel, raw photos only
+	err   error
 }
 
 // measureAll measures every candidate, in parallel over workers goroutines
@@ -267,8 +274,12 @@ func measureOne(dec *decode.Image, r edge.Region, method edge.Method) (o outcome
 			o = outcome{err: fmt.Errorf("internal error: %v", p)}
 		}
 	}()
+	if dec.Raw != nil {
+		m, chans, err := measureRaw(dec, r, method)
+		return outcome{m, chans, err}
+	}
 	m, err := edge.Measure(dec.Lum, r, edge.Options{Method: method})
-	return outcome{m, err}
+	return outcome{m: m, err: err}
 }
 
 // Measurements with these flags are set aside rather than reported: their

@@ -64,6 +64,9 @@ type Image struct {
 
 	// Chart is set when the photo shows Sagitta's printed chart (chart.go).
 	Chart *ChartResult `json:"chart,omitempty"`
+
+	// Raw is set for a DNG: how its raw data were read and measured (raw.go).
+	Raw *RawInfo `json:"raw,omitempty"`
 }
 
 // Measurement is one measured target (one edge, or one orientation of a
@@ -97,6 +100,10 @@ type Measurement struct {
 	Overshoot float64       `json:"overshoot"`
 	ESF       Profile       `json:"esf"`
 	LSF       Profile       `json:"lsf"`
+
+	// Channels holds a raw photo's edge measured on each colour plane
+	// (raw.go); the record's own curve is then green's.
+	Channels []ChannelMTF `json:"channels,omitempty"`
 
 	// Sine-pattern records only (see sine.go).
 	PatternID    int            `json:"pattern_id,omitempty"`     // id in Image.Stars or Image.Gratings

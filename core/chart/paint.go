@@ -3,9 +3,9 @@ package chart
 import (
 	"image/color"
 	"math"
+	"sagitta/core/decode/srgb"
 	"strconv"
 
-	"sagitta/core/decode"
 	"sagitta/core/draw"
 )
 
@@ -24,7 +24,7 @@ import (
 // printCode returns the 8-bit sRGB code of linear reflectance r (clamped to
 // [0, 1]).
 func printCode(r float64) uint8 {
-	v := decode.SRGBFromLinear(math.Min(math.Max(r, 0), 1))
+	v := srgb.FromLinear(math.Min(math.Max(r, 0), 1))
 	return uint8(math.Round(255 * v))
 }
 

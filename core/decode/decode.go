@@ -38,6 +38,7 @@ import (
 	"sagitta/core/exif"
 	"sagitta/core/note"
 	"sagitta/core/plane"
+	"sagitta/core/raw"
 )
 
 // DefaultMaxPixels is the pixel limit used when Options.MaxPixels is 0:
@@ -58,7 +59,7 @@ type Options struct {
 
 // Image is a decoded photo as linear-light luminance.
 type Image struct {
-	Format        string // FormatPNG, FormatJPEG or FormatTIFF
+	Format        string // FormatPNG, FormatJPEG, FormatTIFF or FormatDNG
 	Width, Height int    // px
 	// BitDepth is the bits per sample stored in the file (PNG IHDR, TIFF
 	// BitsPerSample; 8 for JPEG, as Go decodes only 8-bit JPEG). For a
@@ -79,6 +80,10 @@ type Image struct {
 	// Exif holds the tags read from a JPEG APP1 segment, a TIFF file's
 	// IFD0 and Exif IFD, or a PNG eXIf chunk; empty if there are none.
 	Exif exif.Tags
+	// Raw is the DNG as read by core/raw (the colour filter array mosaic,
+	// or linear RGB planes, with black 0 and white 1), nil for other
+	// formats. Lum is then derived from it (see decodeDNG).
+	Raw *raw.Image
 	// Warnings are plain-language notes about choices made while
 	// decoding (assumed tone, ignored alpha, unreadable Exif, ...);
 	// WarningCodes holds their codes, aligned (core/note).
@@ -98,6 +103,13 @@ func Config(data []byte) (format string, w, h int, err error) {
 	format, err = sniff(data)
 	if err != nil {
 		return "", 0, 0, err
+	}
+	if format == FormatTIFF && raw.IsDNG(data) {
+		w, h, err = configDNG(data)
+		if err != nil {
+			return "", 0, 0, err
+		}
+		return FormatDNG, w, h, nil
 	}
 	if format == FormatTIFF {
 		if ti := scanTIFF(data); ti.rawCamera || ti.reducedRes {
@@ -126,7 +138,8 @@ func Config(data []byte) (format string, w, h int, err error) {
 	return format, cfg.Width, cfg.Height, nil
 }
 
-// Decode decodes a PNG, JPEG or TIFF file into linear-light luminance.
+// Decode decodes a PNG, JPEG, TIFF or DNG file into linear-light luminance
+// (a DNG also keeps its raw planes in Image.Raw).
 // The size is checked from the header first: an image above the pixel limit
 // gives a *TooLargeError before any pixel memory is allocated. Other errors
 // are *FormatError (not an image, corrupt, truncated) or *UnsupportedError
@@ -149,6 +162,9 @@ func Decode(data []byte, opt Options) (*Image, error) {
 	}
 	if int64(w)*int64(h) > int64(limit) {
 		return nil, &TooLargeError{Width: w, Height: h, MaxPixels: limit}
+	}
+	if format == FormatDNG {
+		return decodeDNG(data, opt)
 	}
 	out := &Image{Format: format, Width: w, Height: h, BitDepth: 8}
 	var pi pngInfo

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sagitta/core/decode/srgb"
 	"strconv"
 	"strings"
 	"sync"
@@ -119,34 +120,6 @@ func (t *Tone) UnmarshalText(b []byte) error {
 	return nil
 }
 
-// SRGBToLinear is the sRGB decoding function of IEC 61966-2-1:1999,
-// section 5.2: L = V/12.92 for V <= 0.04045, else ((V+0.055)/1.055)^2.4,
-// with V and L in [0, 1]. V >= 1 gives exactly 1.
-func SRGBToLinear(v float64) float64 {
-	switch {
-	case v <= 0:
-		return 0
-	case v >= 1:
-		return 1
-	case v <= 0.04045:
-		return v / 12.92
-	}
-	return math.Pow((v+0.055)/1.055, 2.4)
-}
-
-// SRGBFromLinear is the sRGB encoding function of IEC 61966-2-1:1999,
-// section 5.2, the inverse of SRGBToLinear: V = 12.92 L for L <= 0.0031308,
-// else 1.055 L^(1/2.4) - 0.055. It does not clamp: L above 1 gives V above
-// 1 (the simulated camera sharpens before it clips); callers that write
-// code values clamp. The one sRGB transfer of the project (the simulated
-// camera, the preview, the plots and the printed chart use these two).
-func SRGBFromLinear(l float64) float64 {
-	if l <= 0.0031308 {
-		return 12.92 * l
-	}
-	return 1.055*math.Pow(l, 1/2.4) - 0.055
-}
-
 // Linearize returns the linear value of a normalised code value V in
 // [0, 1] (code value / largest code value) under tone t. ToneAuto is
 // treated as sRGB. Full scale (V = 1) gives exactly 1 for every tone.
@@ -158,7 +131,7 @@ func (t Tone) Linearize(v float64) float64 {
 	case ToneGamma:
 		return math.Pow(v, t.Gamma)
 	}
-	return SRGBToLinear(v)
+	return srgb.ToLinear(v)
 }
 
 // Lookup tables, one per distinct tone, built once each and shared. Gamma

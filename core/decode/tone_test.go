@@ -3,6 +3,7 @@ package decode
 import (
 	"encoding/json"
 	"math"
+	"sagitta/core/decode/srgb"
 	"slices"
 	"strings"
 	"testing"
@@ -27,8 +28,8 @@ func TestSRGBToLinear(t *testing.T) {
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
-			if got := SRGBToLinear(tc.in); math.Abs(got-tc.want) > tc.tol {
-				t.Errorf("SRGBToLinear(%v) = %.8f, want %.8f", tc.in, got, tc.want)
+			if got := srgb.ToLinear(tc.in); math.Abs(got-tc.want) > tc.tol {
+				t.Errorf("srgb.ToLinear(%v) = %.8f, want %.8f", tc.in, got, tc.want)
 			}
 		})
 	}
@@ -40,7 +41,7 @@ func TestSRGBToLinear(t *testing.T) {
 		t.Errorf("segments at 0.04045: %.10f vs %.10f", lin, pow)
 	}
 	// Monotone across the breakpoint.
-	if !(SRGBToLinear(0.04044) < SRGBToLinear(0.04045) && SRGBToLinear(0.04045) < SRGBToLinear(0.04046)) {
+	if !(srgb.ToLinear(0.04044) < srgb.ToLinear(0.04045) && srgb.ToLinear(0.04045) < srgb.ToLinear(0.04046)) {
 		t.Error("not increasing across the breakpoint")
 	}
 }

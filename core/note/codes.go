@@ -150,3 +150,21 @@ const (
 	// PlanAspect: the chart's shape differs from the sensor's.
 	PlanAspect Code = "plan-aspect"
 )
+
+// Raw (DNG) warnings, in Image.warnings (core/raw, core/decode, core/analyze).
+const (
+	// RawCropOutside: the DNG's default crop lies outside the active area;
+	// the whole active area is used.
+	RawCropOutside Code = "raw-crop-outside"
+	// RawOpcodesNotApplied: the DNG carries opcode lists (the maker's
+	// corrections), which are not applied.
+	RawOpcodesNotApplied Code = "raw-opcodes-not-applied"
+	// RawToneIgnored: a tone was chosen, but raw data are linear.
+	RawToneIgnored Code = "raw-tone-ignored"
+	// RawISORefined: the ISO estimator was chosen; mosaic planes are
+	// measured with the refined one.
+	RawISORefined Code = "raw-iso-uses-refined"
+	// RawMosaicPlanes: the edges were measured on the mosaic's colour
+	// planes (how, and in which units).
+	RawMosaicPlanes Code = "raw-mosaic-planes"
+)

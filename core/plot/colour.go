@@ -3,8 +3,8 @@ package plot
 import (
 	"image/color"
 	"math"
+	"sagitta/core/decode/srgb"
 
-	"sagitta/core/decode"
 	"sagitta/core/field"
 )
 
@@ -116,7 +116,7 @@ func (s *Scale) At(t float64) color.NRGBA {
 // SRGBToOKLab converts an 8-bit sRGB colour to OKLab (L, a, b); white is
 // (1, 0, 0).
 func SRGBToOKLab(c color.NRGBA) (L, a, b float64) {
-	r, g, bl := decode.SRGBToLinear(float64(c.R)/255), decode.SRGBToLinear(float64(c.G)/255), decode.SRGBToLinear(float64(c.B)/255)
+	r, g, bl := srgb.ToLinear(float64(c.R)/255), srgb.ToLinear(float64(c.G)/255), srgb.ToLinear(float64(c.B)/255)
 	l := math.Cbrt(0.4122214708*r + 0.5363325363*g + 0.0514459929*bl)
 	m := math.Cbrt(0.2119034982*r + 0.6806995451*g + 0.1073969566*bl)
 	s := math.Cbrt(0.0883024619*r + 0.2817188376*g + 0.6299787005*bl)
@@ -135,7 +135,7 @@ func OKLabToSRGB(L, a, b float64) color.NRGBA {
 	r := 4.0767416621*l - 3.3077115913*m + 0.2309699292*s
 	g := -1.2684380046*l + 2.6097574011*m - 0.3413193965*s
 	bl := -0.0041960863*l - 0.7034186147*m + 1.7076147010*s
-	return color.NRGBA{to8(decode.SRGBFromLinear(r)), to8(decode.SRGBFromLinear(g)), to8(decode.SRGBFromLinear(bl)), 0xff}
+	return color.NRGBA{to8(srgb.FromLinear(r)), to8(srgb.FromLinear(g)), to8(srgb.FromLinear(bl)), 0xff}
 }
 
 func to8(v float64) uint8 { return uint8(math.Round(255 * math.Max(0, math.Min(1, v)))) }

@@ -3,17 +3,16 @@ package plot
 import (
 	"image/color"
 	"math"
+	"sagitta/core/decode/srgb"
 	"strings"
 	"testing"
-
-	"sagitta/core/decode"
 )
 
 // relLuminance is the relative luminance of an sRGB colour: linear
 // components (IEC 61966-2-1 decoding) weighted 0.2126, 0.7152, 0.0722
 // (ITU-R BT.709 primaries; WCAG 2.1 "relative luminance").
 func relLuminance(c color.NRGBA) float64 {
-	return 0.2126*decode.SRGBToLinear(float64(c.R)/255) + 0.7152*decode.SRGBToLinear(float64(c.G)/255) + 0.0722*decode.SRGBToLinear(float64(c.B)/255)
+	return 0.2126*srgb.ToLinear(float64(c.R)/255) + 0.7152*srgb.ToLinear(float64(c.G)/255) + 0.0722*srgb.ToLinear(float64(c.B)/255)
 }
 
 // contrastOnWhite is the WCAG 2.1 contrast ratio (L1 + 0.05)/(L2 + 0.05)
@@ -44,10 +43,10 @@ func TestSRGBTransfer(t *testing.T) {
 		{"full", 1, 1, 1e-12},
 		{"linear toe", 0.04, 0.04 / 12.92, 1e-12},
 	} {
-		if got := decode.SRGBToLinear(tc.in); math.Abs(got-tc.want) > tc.tol {
+		if got := srgb.ToLinear(tc.in); math.Abs(got-tc.want) > tc.tol {
 			t.Errorf("%s: decode(%g) = %.6f, want %.6f", tc.name, tc.in, got, tc.want)
 		}
-		if back := decode.SRGBFromLinear(decode.SRGBToLinear(tc.in)); math.Abs(back-tc.in) > 1e-12 {
+		if back := srgb.FromLinear(srgb.ToLinear(tc.in)); math.Abs(back-tc.in) > 1e-12 {
 			t.Errorf("%s: round trip %g -> %g", tc.name, tc.in, back)
 		}
 	}
@@ -114,10 +113,10 @@ var cvd = map[string][3][3]float64{
 }
 
 func simulate(c color.NRGBA, m [3][3]float64) color.NRGBA {
-	in := [3]float64{decode.SRGBToLinear(float64(c.R) / 255), decode.SRGBToLinear(float64(c.G) / 255), decode.SRGBToLinear(float64(c.B) / 255)}
+	in := [3]float64{srgb.ToLinear(float64(c.R) / 255), srgb.ToLinear(float64(c.G) / 255), srgb.ToLinear(float64(c.B) / 255)}
 	var out [3]uint8
 	for i := range out {
-		out[i] = to8(decode.SRGBFromLinear(m[i][0]*in[0] + m[i][1]*in[1] + m[i][2]*in[2]))
+		out[i] = to8(srgb.FromLinear(m[i][0]*in[0] + m[i][1]*in[1] + m[i][2]*in[2]))
 	}
 	return color.NRGBA{out[0], out[1], out[2], 255}
 }

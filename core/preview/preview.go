@@ -21,8 +21,8 @@ package preview
 import (
 	"fmt"
 	"image"
+	"sagitta/core/decode/srgb"
 
-	"sagitta/core/decode"
 	"sagitta/core/plane"
 )
 
@@ -78,7 +78,7 @@ type table [255]float64
 func encodeTable() *table {
 	var t table
 	for c := range t {
-		t[c] = decode.SRGBToLinear((float64(c) + 0.5) / 255)
+		t[c] = srgb.ToLinear((float64(c) + 0.5) / 255)
 	}
 	return &t
 }

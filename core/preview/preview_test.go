@@ -3,9 +3,9 @@ package preview
 import (
 	"fmt"
 	"math"
+	"sagitta/core/decode/srgb"
 	"testing"
 
-	"sagitta/core/decode"
 	"sagitta/core/plane"
 )
 
@@ -46,8 +46,8 @@ func TestEncodeMatchesTransferFunction(t *testing.T) {
 			if v < 0 || v > 1 {
 				continue
 			}
-			l := decode.SRGBToLinear(v)
-			want := uint8(math.Round(decode.SRGBFromLinear(l) * 255))
+			l := srgb.ToLinear(v)
+			want := uint8(math.Round(srgb.FromLinear(l) * 255))
 			if got := lut.encode(l); got != want {
 				t.Fatalf("encode(%g) = %d, want %d (code %d)", l, got, want, c)
 			}

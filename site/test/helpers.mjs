@@ -96,7 +96,7 @@ export async function dropFiles(page, files) {
 }
 
 function mime(f) {
-  return { '.jpg': 'image/jpeg', '.jpeg': 'image/jpeg', '.png': 'image/png', '.tif': 'image/tiff', '.tiff': 'image/tiff' }[path.extname(f).toLowerCase()] || 'application/octet-stream';
+  return { '.jpg': 'image/jpeg', '.jpeg': 'image/jpeg', '.png': 'image/png', '.tif': 'image/tiff', '.tiff': 'image/tiff', '.dng': 'image/x-adobe-dng' }[path.extname(f).toLowerCase()] || 'application/octet-stream';
 }
 
 /** waitStatus waits until document.body.dataset.status is one of the given values. */

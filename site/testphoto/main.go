@@ -2,7 +2,7 @@
 // for the page's browser tests and timings: a W x H frame from the simulated
 // camera (core/sim/simcam) behind an invented lens that softens towards the
 // corners, sagittal and tangential differently, with photon and read noise,
-// saved as JPEG (or PNG, or a 16-bit TIFF by extension) with Exif naming the
+// saved as JPEG (or PNG, a 16-bit TIFF, or a raw DNG by extension) with Exif naming the
 // "Sagitta Simulated Camera".
 //
 //	testphoto -w 3000 -h 2000 -f 5.6 -o photo.jpg
@@ -35,7 +35,7 @@ func main() {
 	onChart := flag.Bool("chart", false, "photograph Sagitta's printed chart (3:2, core/chart) instead of the grid of squares, turned 2 degrees away")
 	patterns := flag.Bool("patterns", false, "add a sine star at the centre and a set of sine gratings below it")
 	orient := flag.Int("orientation", 0, "Exif orientation to write (1..8; 0 = none): how a viewer should turn the stored pixels")
-	out := flag.String("o", "photo.jpg", "output file: .jpg, .png or .tif")
+	out := flag.String("o", "photo.jpg", "output file: .jpg, .png, .tif or .dng")
 	flag.Parse()
 	if err := run(*w, *h, *fnum, *pitch, *seed, *orient, *patterns, *onChart, *out); err != nil {
 		fmt.Fprintln(os.Stderr, "testphoto: "+err.Error())
@@ -89,6 +89,14 @@ func run(w, h int, fnum, pitch float64, seed uint64, orient int, patterns, onCha
 			err = tiff.Encode(&buf, img, &tiff.Options{Compression: tiff.Deflate})
 		}
 		data = buf.Bytes()
+	case ".dng":
+		// The raw file: an RGGB mosaic with filters of different
+		// transmission, 14-bit lossless JPEG tiles (core/sim/simcam).
+		data, err = cam.EncodeDNG(scene, simcam.DNG{
+			Gains: [3]float64{0.55, 1, 0.7}, Lossless: true, TileW: 256, TileH: 256,
+			Make: tags.Make, Model: tags.Model, UniqueCameraModel: tags.Model,
+			FNumber: fnum, FocalLengthMM: 35, PitchUM: pitch,
+		})
 	default:
 		return fmt.Errorf("unknown output type %q", out)
 	}

@@ -219,6 +219,9 @@ func writeText(w io.Writer, res analyze.Result) error {
 	for _, img := range res.Images {
 		fmt.Fprintf(w, "%s: %d x %d px, pitch %s um (%s), tone %s (%s), method %s\n",
 			img.File, img.Width, img.Height, num(img.PitchUM), img.PitchSource, img.Tone, img.ToneSource, img.Method)
+		if r := img.Raw; r != nil {
+			fmt.Fprintf(w, "%s: %s; each record's curve is the %s channel's\n", r.Text, r.Description, r.Main)
+		}
 		kinds := map[string]int{}
 		for _, m := range img.Measurements {
 			kinds[m.Kind]++
@@ -242,7 +245,15 @@ func writeText(w io.Writer, res analyze.Result) error {
 				for _, v := range m.MTFAtFreqs {
 					fmt.Fprintf(w, " %9s", fix(float64(v), 3))
 				}
-				fmt.Fprintf(w, "  %s\n", strings.Join(append(beyondNotes(m, img), m.Warnings...), "; "))
+				notes := append(beyondNotes(m, img), m.Warnings...)
+				if len(m.Channels) > 0 {
+					var cs []string
+					for _, c := range m.Channels {
+						cs = append(cs, c.Channel+" "+fix(float64(c.MTF50), 3))
+					}
+					notes = append([]string{"MTF50 by channel: " + strings.Join(cs, ", ")}, notes...)
+				}
+				fmt.Fprintf(w, "  %s\n", strings.Join(notes, "; "))
 			}
 		}
 		for _, warn := range img.Warnings {

@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
+	"strings"
 
 	"sagitta/core/sim/demo"
 )
@@ -14,7 +16,7 @@ import (
 func cmdDemo(args []string, stdout io.Writer) error {
 	fs := flag.NewFlagSet("demo", flag.ContinueOnError)
 	fs.SetOutput(stdout)
-	out := fs.String("o", "demo.jpg", "output file (JPEG)")
+	out := fs.String("o", "demo.jpg", "output file: JPEG, or the camera's raw DNG when it ends in .dng")
 	reduce := fs.Int("reduce", 1, "shrink the sensor by this factor (same field of view; 1 = 24 MP)")
 	fs.Usage = func() {
 		fmt.Fprintln(stdout, "usage: sagitta demo [-o FILE] [--reduce N]")
@@ -26,7 +28,12 @@ func cmdDemo(args []string, stdout io.Writer) error {
 	if *reduce < 1 || *reduce > 20 {
 		return fmt.Errorf("%w: -reduce must be between 1 and 20", errUsage)
 	}
-	data, err := demo.PortraitSmall(*reduce).Photo()
+	sc := demo.PortraitSmall(*reduce)
+	photo := sc.Photo
+	if strings.EqualFold(filepath.Ext(*out), ".dng") {
+		photo = sc.RawPhoto
+	}
+	data, err := photo()
 	if err != nil {
 		return err
 	}

@@ -199,3 +199,40 @@ func TestAnalyzeSensorNames(t *testing.T) {
 		t.Errorf("bad sensor name: exit %d, %q", code, errOut)
 	}
 }
+
+// TestAnalyzeDNG: the tool reads a raw DNG and says how it measured it.
+func TestAnalyzeDNG(t *testing.T) {
+	cam := simcam.Camera{W: 320, H: 240, Lens: simcam.Fixed{PSF: simcam.Gaussian{Sigma1: 1, Sigma2: 1}}}
+	data, err := cam.EncodeDNG(simcam.HalfPlaneScene(320, 240, 5, 0.08, 0.7), simcam.DNG{Gains: [3]float64{0.5, 1, 0.7}, Lossless: true, TileW: 64, TileH: 64})
+	if err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "edge.dng")
+	if err := os.WriteFile(path, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, errs, code := runCLI("analyze", "--pitch-um", "4", path)
+	if code != 0 || !strings.Contains(out, "raw: mosaic planes, no demosaicing") || !strings.Contains(out, "MTF50 by channel: R ") || !strings.Contains(out, "tone linear") {
+		t.Errorf("exit %d: %s\n%s", code, errs, out)
+	}
+	out, _, code = runCLI("analyze", "--pitch-um", "4", "--json", path)
+	var doc struct {
+		Images []struct {
+			Format string `json:"format"`
+			Raw    struct {
+				Code string `json:"code"`
+			} `json:"raw"`
+			Measurements []struct {
+				Channels []struct {
+					Channel string `json:"channel"`
+				} `json:"channels"`
+			} `json:"measurements"`
+		} `json:"images"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil || code != 0 {
+		t.Fatalf("exit %d, %v", code, err)
+	}
+	if im := doc.Images[0]; im.Format != "dng" || im.Raw.Code != "raw-mosaic-planes" || len(im.Measurements) == 0 || len(im.Measurements[0].Channels) != 3 {
+		t.Errorf("JSON: %+v", im)
+	}
+}

@@ -165,3 +165,20 @@ func (s Scenario) Photo() ([]byte, error) {
 func (s Scenario) SquaresPhoto() ([]byte, error) {
 	return s.Camera().Encode(s.Sheet())
 }
+
+// RawPhoto renders the scenario's photo of Sagitta's chart as the camera's
+// raw file: a DNG holding the RGGB mosaic (14-bit, lossless JPEG tiles;
+// red and blue filters passing 55 % and 70 % of what green does), with the
+// scenario's camera data. Raw data are neither sharpened nor compressed
+// lossily, so they show the lens and the sensor alone.
+func (s Scenario) RawPhoto() ([]byte, error) {
+	sc, err := s.ChartScene()
+	if err != nil {
+		return nil, err
+	}
+	return s.Camera().EncodeDNG(sc, simcam.DNG{
+		Gains: [3]float64{0.55, 1, 0.7}, Lossless: true, TileW: 256, TileH: 256,
+		Make: s.Tags.Make, Model: s.Tags.Model, UniqueCameraModel: s.Tags.Model,
+		FNumber: s.Tags.FNumber, FocalLengthMM: s.Tags.FocalLengthMM, PitchUM: s.PitchUM,
+	})
+}

@@ -7,8 +7,8 @@ import (
 	"image/png"
 	"math"
 	"math/rand/v2"
+	"sagitta/core/decode/srgb"
 
-	"sagitta/core/decode"
 	"sagitta/core/internal/parallel"
 	"sagitta/core/plane"
 )
@@ -117,11 +117,11 @@ func poisson(rng *rand.Rand, m float64) float64 {
 // encodeImage applies the transfer function, sharpening and quantisation.
 func (c *Camera) encodeImage(p *plane.Plane) image.Image {
 	v := make([]float64, len(p.Pix))
-	srgb := c.Encoding == SRGB8 || c.Encoding == SRGB16
+	encode := c.Encoding == SRGB8 || c.Encoding == SRGB16
 	for i, l := range p.Pix {
 		x := math.Min(math.Max(float64(l), 0), 1)
-		if srgb {
-			x = decode.SRGBFromLinear(x)
+		if encode {
+			x = srgb.FromLinear(x)
 		}
 		v[i] = x
 	}

@@ -7,9 +7,8 @@ import (
 	"image/jpeg"
 	"image/png"
 	"math"
+	"sagitta/core/decode/srgb"
 	"testing"
-
-	"sagitta/core/decode"
 )
 
 // TestNoiseStatistics: with FullWellE = 1000 at level 0.25 the photon count
@@ -82,10 +81,10 @@ func TestSRGB(t *testing.T) {
 		{"toe", 0.002, 12.92 * 0.002, 1e-15},
 	}
 	for _, c := range cases {
-		if got := decode.SRGBFromLinear(c.l); math.Abs(got-c.v) > c.tol {
+		if got := srgb.FromLinear(c.l); math.Abs(got-c.v) > c.tol {
 			t.Errorf("%s: encode(%v) = %v, want %v", c.name, c.l, got, c.v)
 		}
-		if got := decode.SRGBToLinear(c.v); math.Abs(got-c.l) > c.tol {
+		if got := srgb.ToLinear(c.v); math.Abs(got-c.l) > c.tol {
 			t.Errorf("%s: decode(%v) = %v, want %v", c.name, c.v, got, c.l)
 		}
 	}
@@ -106,7 +105,7 @@ func TestSRGB(t *testing.T) {
 	}
 	// Round trip: every 8-bit code decodes to a level that encodes back to it.
 	for k := range 256 {
-		l := decode.SRGBToLinear(float64(k) / 255)
+		l := srgb.ToLinear(float64(k) / 255)
 		if c := code(l); int(c) != k {
 			t.Errorf("code %d -> L %v -> code %d", k, l, c)
 		}
