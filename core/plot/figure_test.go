@@ -92,8 +92,7 @@ func testFigures(t testing.TB) map[string]*Figure {
 }
 
 // TestFieldCurvesAxis: the height axis of a 36 x 24 mm frame runs from 0 to
-// the corner, sqrt(18^2 + 12^2) = 21.63 mm (common practice; DOMAIN.md
-// section 3), and every curve sample lies on it.
+// the corner, sqrt(18^2 + 12^2) = 21.63 mm (common practice), and every curve sample lies on it.
 func TestFieldCurvesAxis(t *testing.T) {
 	s := testSummary(t, 6000, 4000, 6, 80, 3, 0)
 	f := FieldCurves(s, FieldOptions{})
@@ -268,7 +267,7 @@ func TestCompareCode(t *testing.T) {
 }
 
 // TestDiffraction checks the diffraction-limited MTF against the values in
-// DOMAIN.md section 6 (Goodman, Introduction to Fourier Optics, ch. 6):
+// Goodman, Introduction to Fourier Optics, 3rd ed., ch. 6 (circular pupil):
 // lambda = 0.55 um at f/8 gives vc = 227.3 lp/mm and MTF(vc/2) = 0.391.
 func TestDiffraction(t *testing.T) {
 	vc := DiffractionCutoffLPMM(8)

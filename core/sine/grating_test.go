@@ -26,7 +26,7 @@ func alignedRect(cx, cy, w, h, dirDeg float64) [4][2]float64 {
 // simcam.TrueMTF (the OTF times the pixel aperture; Goodman ch. 6, Boreman
 // ch. 2), within 0.03 (the brief's bound), two ways: against the printed
 // modulation Amplitude/Mean, and against a reference grating of 0.02 cy/px
-// on the same sheet (DOMAIN.md section 5). The search area is 24 px larger
+// on the same sheet (common practice: the print's own modulation). The search area is 24 px larger
 // than the grating on every side, so the pattern's own extent is found.
 func TestGratingMTF(t *testing.T) {
 	gauss := simcam.Gaussian{Sigma1: 0.8, Sigma2: 0.8}

@@ -18,7 +18,7 @@ import (
 // simcam.TrueMTF, the analytic system MTF: the Gaussian's OTF
 // exp(-2 pi^2 sigma^2 f^2) (Fourier transform pair, Goodman ch. 2), the
 // circular pupil's OTF (Goodman ch. 6), and the pixel aperture
-// sinc(f cos t) sinc(f sin t) (Boreman ch. 2); DOMAIN.md section 6. The
+// sinc(f cos t) sinc(f sin t) (Boreman ch. 2). The
 // soft and diffraction cases test the extrapolation to zero frequency (the
 // largest ring is at 0.05 cy/px, where the soft lens keeps 0.73). Tolerance 0.05 from 0.05 to 0.35 cy/px (the brief's bound).
 func TestStarMTF(t *testing.T) {
@@ -77,7 +77,7 @@ func TestStarMTF(t *testing.T) {
 // TestStarFrequencyRadius checks the geometry the method rests on, on a star
 // rendered with no blur: N cycles lie around each circle, so at radius r
 // the period along the circle is 2 pi r / N px and the local frequency
-// N / (2 pi r) cy/px (DOMAIN.md section 5; ISO 12233 s-SFR). Independent of
+// N / (2 pi r) cy/px (ISO 12233:2014, s-SFR annex). Independent of
 // MeasureStar's own fits, the zero crossings of the pixels on rings about
 // the true centre are counted and spaced, and a harmonic of free order k
 // fitted along each ring peaks at k = N. MeasureStar must then find N, and
