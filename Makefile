@@ -12,7 +12,7 @@ TESTDIR := site/test
 TESTOUT := $(BIN)/test
 ADDR ?= 127.0.0.1:8080
 
-.PHONY: all build test test-go test-wasm test-browser vet run bench deps tools clean demo wasm dist browser-deps FORCE
+.PHONY: all build test test-go test-wasm test-browser test-fuzz test-race mutants vet run bench deps tools clean demo wasm dist browser-deps FORCE
 
 all: build
 
@@ -29,10 +29,12 @@ vet: deps
 	@test -z "$$(gofmt -l core wasm site 2>/dev/null)" || { echo "gofmt needed:"; gofmt -l core wasm site; exit 1; }
 
 # Debian tools the tests use as independent references (poppler's pdfinfo
-# and pdftoppm read our PDFs). Installed when missing; tests that need them
-# skip only when they cannot be had.
+# and pdftoppm read our PDFs; ImageMagick blurs and reduces an edge for
+# core/edge's outside reference). Installed when missing; tests that need
+# them skip only when they cannot be had.
 tools:
 	@command -v pdftoppm >/dev/null 2>&1 || { (apt-get install -y poppler-utils >/dev/null 2>&1 || (apt-get update >/dev/null && apt-get install -y poppler-utils >/dev/null)) || echo "warning: poppler-utils could not be installed"; }
+	@command -v convert-im6.q16 >/dev/null 2>&1 || command -v magick >/dev/null 2>&1 || { (apt-get install -y imagemagick >/dev/null 2>&1 || (apt-get update >/dev/null && apt-get install -y imagemagick >/dev/null)) || echo "warning: imagemagick could not be installed"; }
 
 test-go: deps tools
 	$(GO) test -count=1 ./...
@@ -43,7 +45,23 @@ test-wasm: deps
 	GOOS=js GOARCH=wasm $(GO) build -o /dev/null ./wasm
 	GOOS=js GOARCH=wasm $(GO) test -count=1 -short -exec="$(WASM_EXEC)" ./core/...
 
-test: vet test-go test-wasm test-browser
+# A short fuzz run of every decoder (8 s each) and the race detector on the
+# packages that run goroutines.
+FUZZTIME ?= 8s
+test-fuzz: deps
+	for t in FuzzDecode FuzzDecodePNG FuzzDecodeJPEG FuzzDecodeTIFF; do \
+	  $(GO) test -run '^$$' -fuzz "^$$t\$$" -fuzztime $(FUZZTIME) ./core/decode || exit 1; done
+	$(GO) test -run '^$$' -fuzz '^FuzzParse$$' -fuzztime $(FUZZTIME) ./core/exif
+
+test-race: deps
+	$(GO) test -race -short -count=1 ./core/analyze ./core/decode ./core/sine ./core/edgefind ./core/field ./core/sim/simcam ./core/edge
+
+test: vet test-go test-wasm test-fuzz test-race test-browser
+
+# Mutation check of the measurement code (not part of make test): each small
+# change listed in core/internal/mutants/mutants.txt must make a test fail.
+mutants: deps
+	core/internal/mutants/run.sh
 
 # The page's engine: the core compiled to WebAssembly, wasm_exec.js from the
 # same Go toolchain, the core as base64 of its gzip in a script and the
