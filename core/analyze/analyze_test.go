@@ -104,8 +104,17 @@ func TestWholePhoto(t *testing.T) {
 			truth := simcam.TrueMTF(sc.Lens, m.XPx, m.YPx, m.NormalDeg, f)
 			e := math.Abs(float64(m.MTFAtFreqs[k]) - truth)
 			worst[k] = math.Max(worst[k], e)
-			if e > 0.05 {
-				t.Errorf("edge %d at h %.1f mm: MTF at %g lp/mm %.3f, truth %.3f", m.ID, m.HeightMM, lpmm, float64(m.MTFAtFreqs[k]), truth)
+			// README: largest error 0.004 at 10 and 0.008 at 30 lp/mm on
+			// the 24 MP photo; asserted at twice that. The -short run's
+			// 6 MP photo (pixels twice as large, so 30 lp/mm is twice the
+			// cycles/pixel, where JPEG and noise weigh more) measured 0.007
+			// and 0.037: asserted at 0.014 and 0.05.
+			lim := 2 * []float64{0.004, 0.008}[k]
+			if testing.Short() {
+				lim = []float64{0.014, 0.05}[k]
+			}
+			if e > lim {
+				t.Errorf("edge %d at h %.1f mm: MTF at %g lp/mm %.4f, truth %.4f (limit %.3f)", m.ID, m.HeightMM, lpmm, float64(m.MTFAtFreqs[k]), truth, lim)
 			}
 		}
 	}
