@@ -9,6 +9,8 @@
 # cannot matter (see the comment above it in mutants.txt).
 #
 # Usage: core/internal/mutants/run.sh [NAME-PATTERN]
+# MUTANTS_RUN=REGEXP limits the tests run (go test -run), e.g. to see which
+# mutants one test catches alone.
 set -u -o pipefail
 here=$(cd "$(dirname "$0")" && pwd)
 root=$(cd "$here/../../.." && pwd)
@@ -35,7 +37,7 @@ run_one() {
 	elif ! (cd "$work" && go vet $pkgs >"$work/out" 2>&1); then
 		echo "BROKEN    $name: does not build"
 		broken=$((broken + 1))
-	elif (cd "$work" && go test -short -count=1 $pkgs >"$work/out" 2>&1); then
+	elif (cd "$work" && go test -short -count=1 ${MUTANTS_RUN:+-run "$MUTANTS_RUN"} $pkgs >"$work/out" 2>&1); then
 		echo "SURVIVED  $name"
 		survived=$((survived + 1))
 		survivors+=("$name")
