@@ -109,6 +109,9 @@ func TestPupilOTF(t *testing.T) {
 // within twice that), and the image must match simcam's render of the same
 // lens within 0.002 of the step (an outside check of the simulator).
 func TestEdgeOnPupilOTF(t *testing.T) {
+	if testing.Short() {
+		t.Skip("heavy: the edge is rendered by numerical integration (runs without -short)")
+	}
 	const n, r, size, normal = 512, 64, 260, 5.0
 	otf := pupilOTF(n, r)
 	airy := simcam.Airy{WavelengthUM: 0.55, FNumber: 8, PitchUM: 1.5}
