@@ -53,8 +53,13 @@ test-fuzz: deps
 	  $(GO) test -run '^$$' -fuzz "^$$t\$$" -fuzztime $(FUZZTIME) ./core/decode || exit 1; done
 	$(GO) test -run '^$$' -fuzz '^FuzzParse$$' -fuzztime $(FUZZTIME) ./core/exif
 
+# The goroutines live in core/decode (luminance rows), core/analyze (edges
+# and sine patterns measured in parallel) and core/sim/simcam (rendering);
+# the selected tests drive each of them on small images.
 test-race: deps
-	$(GO) test -race -short -count=1 ./core/analyze ./core/decode ./core/sine ./core/edgefind ./core/field ./core/sim/simcam ./core/edge
+	$(GO) test -race -short -count=1 ./core/decode
+	$(GO) test -race -short -count=1 -run 'TestStarOnlyPhoto|TestNoChart' ./core/analyze
+	$(GO) test -race -short -count=1 -run 'TestDeterministic|TestNoSeams|TestStarModulation|TestGratingInterior' ./core/sim/simcam
 
 test: vet test-go test-wasm test-fuzz test-race test-browser
 

@@ -19,6 +19,7 @@ pattern=${1:-.}
 work=$(mktemp -d "${TMPDIR:-/tmp}/sagitta-mutants.XXXXXX")
 trap 'rm -rf "$work"' EXIT
 (cd "$root" && tar -cf - go.mod go.sum core testdata) | (cd "$work" && tar -xf -)
+list="$work/core/internal/mutants/mutants.txt" # the copy: edits while it runs do not matter
 
 killed=0 survived=0 broken=0
 survivors=()
