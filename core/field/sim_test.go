@@ -186,6 +186,26 @@ func TestBalanceDetectsDecentring(t *testing.T) {
 			if b.Verdict != tc.verdict {
 				t.Errorf("%s seed %d: verdict %q, want %q: %s", tc.name, seed, b.Verdict, tc.verdict, b.Text)
 			}
+			// README: the tilted lenses' differences 0.06-0.09 at 30
+			// lp/mm (asserted between half and twice that), the centred
+			// lens's at most 0.003 (asserted within 0.006).
+			for _, p := range b.Pairs {
+				for _, d := range p.ByFreq {
+					diff := math.Abs(float64(d.Diff))
+					if tc.tilt == 0 && diff > 2*0.003 {
+						t.Errorf("%s seed %d: %s-%s differ by %.4f at %g lp/mm (limit 0.006)", tc.name, seed, p.A, p.B, diff, d.FreqLPMM)
+					}
+				}
+			}
+			if tc.tilt != 0 {
+				lead := b.Pairs[0] // left-right
+				if tc.deg == -90 {
+					lead = b.Pairs[1] // top-bottom
+				}
+				if d := math.Abs(float64(lead.ByFreq[len(lead.ByFreq)-1].Diff)); d < 0.03 || d > 0.18 {
+					t.Errorf("%s seed %d: %s-%s differ by %.4f at 30 lp/mm, README says 0.06-0.09", tc.name, seed, lead.A, lead.B, d)
+				}
+			}
 			if tc.softer != "" && !strings.Contains(b.Text, tc.softer) {
 				t.Errorf("%s seed %d: text does not say %q: %s", tc.name, seed, tc.softer, b.Text)
 			}
