@@ -13,7 +13,7 @@ TESTDIR := site/test
 TESTOUT := $(BIN)/test
 ADDR ?= 127.0.0.1:8080
 
-.PHONY: all build test test-go test-wasm test-browser lint-js vet run bench deps tools clean demo wasm dist browser-deps FORCE
+.PHONY: all build test test-go test-wasm test-browser test-fuzz test-race mutants lint-js vet run bench deps tools clean demo wasm dist browser-deps FORCE
 
 all: build
 
@@ -31,11 +31,13 @@ vet: deps
 
 # Debian tools the tests use as independent references (poppler's pdfinfo
 # and pdftoppm read our PDFs; libraw's unprocessed_raw and raw-identify read
-# our DNGs). Installed when missing; tests that need them skip only when they
-# cannot be had.
+# our DNGs; ImageMagick blurs and reduces an edge for core/edge's outside
+# reference). Installed when missing; tests that need them skip only when
+# they cannot be had.
 tools:
 	@command -v pdftoppm >/dev/null 2>&1 || { (apt-get install -y poppler-utils >/dev/null 2>&1 || (apt-get update >/dev/null && apt-get install -y poppler-utils >/dev/null)) || echo "warning: poppler-utils could not be installed"; }
 	@command -v unprocessed_raw >/dev/null 2>&1 || { (apt-get install -y libraw-bin >/dev/null 2>&1 || (apt-get update >/dev/null && apt-get install -y libraw-bin >/dev/null)) || echo "warning: libraw-bin could not be installed"; }
+	@command -v convert-im6.q16 >/dev/null 2>&1 || command -v magick >/dev/null 2>&1 || { (apt-get install -y imagemagick >/dev/null 2>&1 || (apt-get update >/dev/null && apt-get install -y imagemagick >/dev/null)) || echo "warning: imagemagick could not be installed"; }
 
 test-go: deps tools
 	$(GO) test -count=1 ./...
@@ -48,7 +50,29 @@ test-wasm: deps
 	@! GOOS=js GOARCH=wasm $(GO) list -deps ./wasm | grep -q '^sagitta/core/sim' || { echo "the measuring engine (wasm/) must not import the simulator (core/sim): the demo has its own build, wasm/demo"; exit 1; }
 	GOOS=js GOARCH=wasm $(GO) test -count=1 -short -exec="$(WASM_EXEC)" ./core/... ./wasm
 
-test: vet lint-js test-go test-wasm test-browser
+# A short fuzz run of every decoder (8 s each) and the race detector on the
+# packages that run goroutines.
+FUZZTIME ?= 8s
+test-fuzz: deps
+	for t in FuzzDecode FuzzDecodePNG FuzzDecodeJPEG FuzzDecodeTIFF; do \
+	  $(GO) test -run '^$$' -fuzz "^$$t\$$" -fuzztime $(FUZZTIME) ./core/decode || exit 1; done
+	$(GO) test -run '^$$' -fuzz '^FuzzParse$$' -fuzztime $(FUZZTIME) ./core/exif
+	$(GO) test -run '^$$' -fuzz '^FuzzDecode$$' -fuzztime $(FUZZTIME) ./core/raw
+
+# The goroutines live in core/decode (luminance rows), core/analyze (edges
+# and sine patterns measured in parallel) and core/sim/simcam (rendering);
+# the selected tests drive each of them on small images.
+test-race: deps
+	$(GO) test -race -short -count=1 ./core/decode
+	$(GO) test -race -short -count=1 -run 'TestStarOnlyPhoto|TestNoChart' ./core/analyze
+	$(GO) test -race -short -count=1 -run 'TestDeterministic|TestNoSeams|TestStarModulation|TestGratingInterior' ./core/sim/simcam
+
+test: vet lint-js test-go test-wasm test-fuzz test-race test-browser
+
+# Mutation check of the measurement code (not part of make test): each small
+# change listed in core/internal/mutants/mutants.txt must make a test fail.
+mutants: deps
+	core/internal/mutants/run.sh
 
 # The page's JavaScript: every script parses (node --check), and imports and
 # exports between its modules agree, none unused (site/test/lint.mjs; plain

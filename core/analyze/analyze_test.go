@@ -104,8 +104,17 @@ func TestWholePhoto(t *testing.T) {
 			truth := simcam.TrueMTF(sc.Lens, m.XPx, m.YPx, m.NormalDeg, f)
 			e := math.Abs(float64(m.MTFAtFreqs[k]) - truth)
 			worst[k] = math.Max(worst[k], e)
-			if e > 0.05 {
-				t.Errorf("edge %d at h %.1f mm: MTF at %g lp/mm %.3f, truth %.3f", m.ID, m.HeightMM, lpmm, float64(m.MTFAtFreqs[k]), truth)
+			// README: largest error 0.004 at 10 and 0.008 at 30 lp/mm on
+			// the 24 MP photo; asserted at twice that. The -short run's
+			// 6 MP photo (pixels twice as large, so 30 lp/mm is twice the
+			// cycles/pixel, where JPEG and noise weigh more) measured 0.007
+			// and 0.037: asserted at 0.014 and 0.05.
+			lim := 2 * []float64{0.004, 0.008}[k]
+			if testing.Short() {
+				lim = []float64{0.014, 0.05}[k]
+			}
+			if e > lim {
+				t.Errorf("edge %d at h %.1f mm: MTF at %g lp/mm %.4f, truth %.4f (limit %.3f)", m.ID, m.HeightMM, lpmm, float64(m.MTFAtFreqs[k]), truth, lim)
 			}
 		}
 	}
@@ -119,10 +128,12 @@ func TestWholePhoto(t *testing.T) {
 	t.Logf("%d x %d px: %d measurements, %d set aside; recall %d/%d = %.1f %%; false edges %d; orientation right %d/%d; worst MTF error %.3f at %g lp/mm, %.3f at %g lp/mm",
 		sc.W, sc.H, len(img.Measurements), len(img.Rejected), found, len(sides), 100*recall, falseEdges,
 		clearRight, clear, worst[0], img.FreqsLPMM[0], worst[1], img.FreqsLPMM[1])
-	if recall < 0.9 {
-		t.Errorf("recall %.2f < 0.90", recall)
+	// README: all 216 square sides found and the orientation right for
+	// every clearly sagittal or tangential region (measured so at both sizes).
+	if found != len(sides) {
+		t.Errorf("recall %d/%d: README says every side is found", found, len(sides))
 	}
-	if clear == 0 || float64(clearRight) < 0.95*float64(clear) {
+	if clear == 0 || clearRight != clear {
 		t.Errorf("orientation right for %d of %d clear edges", clearRight, clear)
 	}
 	// Corner radius of a 36 x 24 mm sensor: sqrt(18^2 + 12^2) = 21.63 mm

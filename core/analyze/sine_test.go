@@ -117,9 +117,10 @@ func lensScene() (simcam.FieldLens, simcam.Scene) {
 }
 
 // TestStarsAgreeWithEdges: on one simulated lens the star's sagittal and
-// tangential MTF lie within 0.05 of the analytic MTF (simcam.TrueMTF:
-// Goodman ch. 6, Boreman ch. 2) and within 0.05 of the edges of the same
-// orientation at the same image height, from 0.05 to 0.35 cy/px.
+// tangential MTF lie within 0.032 of the analytic MTF (simcam.TrueMTF:
+// Goodman ch. 6, Boreman ch. 2) and within 0.04 of each edge of the same
+// orientation within 0.5 mm of its image height, from 0.05 to 0.35 cy/px,
+// rms 0.006 (twice README's 0.016, 0.02 and 0.003).
 func TestStarsAgreeWithEdges(t *testing.T) {
 	if testing.Short() {
 		t.Skip("heavy")
@@ -130,7 +131,7 @@ func TestStarsAgreeWithEdges(t *testing.T) {
 		t.Fatalf("agreement %+v, want two star records compared", img.Agreement)
 	}
 	t.Logf("agreement: rms %.4f, mean %.4f", img.Agreement.RMSDiff, img.Agreement.MeanDiff)
-	if img.Agreement.RMSDiff > 0.05 {
+	if img.Agreement.RMSDiff > 2*0.003 { // README: rms 0.003
 		t.Errorf("stars and edges differ by %.3f rms", img.Agreement.RMSDiff)
 	}
 	for _, w := range img.Warnings {
@@ -148,8 +149,8 @@ func TestStarsAgreeWithEdges(t *testing.T) {
 			worst = math.Max(worst, math.Abs(sc.At(f)-simcam.TrueMTF(lens, st.XPx, st.YPx, st.NormalDeg, f)))
 		}
 		t.Logf("star %s: max |star - true| %.4f", st.Orientation, worst)
-		if worst > 0.05 {
-			t.Errorf("star %s: %.3f from the analytic MTF", st.Orientation, worst)
+		if worst > 2*0.016 { // README: anisotropic Gaussians within 0.016
+			t.Errorf("star %s: %.4f from the analytic MTF", st.Orientation, worst)
 		}
 		for _, e := range img.Measurements {
 			if e.Kind != "edge" || e.Orientation != st.Orientation || math.Abs(e.HeightMM-st.HeightMM) > 0.5 {
@@ -161,8 +162,8 @@ func TestStarsAgreeWithEdges(t *testing.T) {
 				d = math.Max(d, math.Abs(sc.At(f)-ec.At(f)))
 			}
 			t.Logf("star %s, edge %d at %.2f mm: max difference %.4f", st.Orientation, e.ID, e.HeightMM, d)
-			if d > 0.05 {
-				t.Errorf("star %s and edge %d differ by %.3f", st.Orientation, e.ID, d)
+			if d > 2*0.02 { // README: within 0.02 (measured 0.020, tangential at 1.45 mm)
+				t.Errorf("star %s and edge %d differ by %.4f", st.Orientation, e.ID, d)
 			}
 		}
 	}
@@ -186,6 +187,10 @@ func TestSharpenedDisagreement(t *testing.T) {
 		t.Fatal("no agreement figure")
 	}
 	t.Logf("agreement: rms %.4f, mean %.4f; warnings %q", img.Agreement.RMSDiff, img.Agreement.MeanDiff, img.Warnings)
+	// README: the edges read 0.18 higher; asserted between half and twice that.
+	if img.Agreement.MeanDiff < 0.09 || img.Agreement.MeanDiff > 0.36 {
+		t.Errorf("edges exceed the star by %.3f on average, README says 0.18", img.Agreement.MeanDiff)
+	}
 	if img.Agreement.MeanDiff <= DisagreeRMS || img.Agreement.RMSDiff <= DisagreeRMS {
 		t.Errorf("edges exceed the star by %.3f on average (rms %.3f), want more than %.2f", img.Agreement.MeanDiff, img.Agreement.RMSDiff, DisagreeRMS)
 	}
@@ -215,7 +220,7 @@ func contains(list []string, s string) bool {
 // TestGratingRecords: a reference grating of 0.02 cy/px and a set of three
 // gratings on the same sheet, side by side along the field radius (so all
 // tangential), give one grating record whose values, the
-// modulation ratios against the reference, lie within 0.03 of the analytic
+// modulation ratios against the reference, lie within 0.028 of the analytic
 // MTF (simcam.TrueMTF; Goodman ch. 6, Boreman ch. 2).
 func TestGratingRecords(t *testing.T) {
 	if testing.Short() {
@@ -257,7 +262,7 @@ func TestGratingRecords(t *testing.T) {
 		cx, cy := (g.Corners[0][0]+g.Corners[2][0])/2, (g.Corners[0][1]+g.Corners[2][1])/2
 		want := simcam.TrueMTF(lens, cx, cy, 0, g.FreqCyPx)
 		t.Logf("%.2f cy/px: %.4f, true %.4f", f, r.MTF[i+1], want)
-		if math.Abs(r.MTF[i+1]-want) > 0.03 {
+		if math.Abs(r.MTF[i+1]-want) > 2*0.014 { // README: 0.014 against the reference grating
 			t.Errorf("%.2f cy/px: MTF %.4f, true %.4f", f, r.MTF[i+1], want)
 		}
 	}

@@ -55,7 +55,7 @@ func TestAtAndUnits(t *testing.T) {
 		{"interpolated", c.At(0.125), 0.75},
 		{"at Nyquist", c.AtNyquist(), 0.2},
 		// lp/mm = cy/px / pitch (mm): 4 um pitch, 0.5 cy/px -> 125 lp/mm
-		// (DOMAIN.md section 2, common practice).
+		// (common practice: the definition of the units).
 		{"lp/mm", LPPerMM(0.5, 4), 125},
 		{"cy/px", CyPerPx(125, 4), 0.5},
 		// LW/PH = 2 x cy/px x picture height px (common practice).

@@ -16,7 +16,7 @@ func TestSRGBToLinear(t *testing.T) {
 		want float64
 		tol  float64
 	}{
-		// IEC 61966-2-1:1999, 5.2; check value also in DOMAIN.md section 7.
+		// IEC 61966-2-1:1999, 5.2 (0.2140 computed by hand from its formula).
 		{"V=0.5 -> 0.2140 (IEC 61966-2-1)", 0.5, 0.2140, 0.5e-4},
 		{"V=1 -> 1 (IEC 61966-2-1: full scale)", 1, 1, 0},
 		{"V=0 -> 0 (IEC 61966-2-1)", 0, 0, 0},
@@ -213,8 +213,8 @@ func TestAutoTone(t *testing.T) {
 }
 
 // Test16BitDefaultWarns: a 16-bit file with no declared tone is decoded as
-// sRGB with a warning that says so (DOMAIN.md section 7: say which default
-// was used).
+// sRGB with a warning that says so (common practice: raw converters write
+// both; say which default was used).
 func Test16BitDefaultWarns(t *testing.T) {
 	im, err := Decode(encodePNG(t, randGray16(4, 4)), Options{})
 	if err != nil {

@@ -18,7 +18,8 @@ func TestCornerFullFrame(t *testing.T) {
 }
 
 func TestClassify(t *testing.T) {
-	// Optics convention (DOMAIN.md section 3): a tangential measurement
+	// Optics convention (W. J. Smith, Modern Optical Engineering, 4th ed.,
+	// ch. 3, meridional and sagittal planes; chapter from memory): a tangential measurement
 	// varies along the radius (edge normal radial), a sagittal one across it.
 	g := NewGeometry(1000, 1000, 5)
 	cases := []struct {

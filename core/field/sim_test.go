@@ -104,12 +104,13 @@ func trueMTF(l simcam.FieldLens, h float64, o field.Orientation, fCyPx float64) 
 }
 
 // TestFieldCurvesAgainstTruth: the smooth field curves of a simulated photo
-// lie within 0.03 of the true system MTF at every sampled height (the
-// issue's requirement), for both orientations at 10 and 30 lp/mm.
+// lie within twice README's figures of the true system MTF at every sampled
+// height, for both orientations at 10 and 30 lp/mm: README quotes 0.007 on
+// the full 6000 x 4000 frame and 0.012 on the small frame of -short.
 func TestFieldCurvesAgainstTruth(t *testing.T) {
-	s := smallShoot(11)
+	s, limit := smallShoot(11), 2*0.012
 	if !testing.Short() {
-		s = fullShoot(11)
+		s, limit = fullShoot(11), 2*0.007
 	}
 	img := s.run(t)
 	sum := img.Summary
@@ -127,8 +128,8 @@ func TestFieldCurvesAgainstTruth(t *testing.T) {
 		}
 		t.Logf("%-10s %2g lp/mm: %3d points over %.2f..%.2f mm, span %.2f degree %d, residual sd %.4f, worst error %+.4f at %.2f mm",
 			c.Orientation, c.FreqLPMM, c.Points, c.HMinMM, c.HMaxMM, c.Span, c.Degree, c.ResidualSD, worst, at)
-		if math.Abs(worst) > 0.03 {
-			t.Errorf("%s %g lp/mm: curve differs from the true MTF by %.4f at %.2f mm (limit 0.03)", c.Orientation, c.FreqLPMM, worst, at)
+		if math.Abs(worst) > limit {
+			t.Errorf("%s %g lp/mm: curve differs from the true MTF by %.4f at %.2f mm (limit %.3f)", c.Orientation, c.FreqLPMM, worst, at, limit)
 		}
 		// The curve covers the measured heights and no more.
 		if c.HeightMM[0] != c.HMinMM || c.HeightMM[len(c.HeightMM)-1] != c.HMaxMM || c.HMaxMM > sum.CornerMM {
@@ -184,6 +185,26 @@ func TestBalanceDetectsDecentring(t *testing.T) {
 			t.Logf("%s seed %d: %s; %v", tc.name, seed, b.Verdict, diffs)
 			if b.Verdict != tc.verdict {
 				t.Errorf("%s seed %d: verdict %q, want %q: %s", tc.name, seed, b.Verdict, tc.verdict, b.Text)
+			}
+			// README: the tilted lenses' differences 0.06-0.09 at 30
+			// lp/mm (asserted between half and twice that), the centred
+			// lens's at most 0.003 (asserted within 0.006).
+			for _, p := range b.Pairs {
+				for _, d := range p.ByFreq {
+					diff := math.Abs(float64(d.Diff))
+					if tc.tilt == 0 && diff > 2*0.003 {
+						t.Errorf("%s seed %d: %s-%s differ by %.4f at %g lp/mm (limit 0.006)", tc.name, seed, p.A, p.B, diff, d.FreqLPMM)
+					}
+				}
+			}
+			if tc.tilt != 0 {
+				lead := b.Pairs[0] // left-right
+				if tc.deg == -90 {
+					lead = b.Pairs[1] // top-bottom
+				}
+				if d := math.Abs(float64(lead.ByFreq[len(lead.ByFreq)-1].Diff)); d < 0.03 || d > 0.18 {
+					t.Errorf("%s seed %d: %s-%s differ by %.4f at 30 lp/mm, README says 0.06-0.09", tc.name, seed, lead.A, lead.B, d)
+				}
 			}
 			if tc.softer != "" && !strings.Contains(b.Text, tc.softer) {
 				t.Errorf("%s seed %d: text does not say %q: %s", tc.name, seed, tc.softer, b.Text)

@@ -189,7 +189,7 @@ func Summarise(geo Geometry, points []Point, freqsLPMM []float64) (*Summary, err
 const smootherName = "LOWESS (Cleveland 1979): local lines with tricube weights, 2 bisquare robustness passes, span by cross-validation; band = curve +/- 2 standard errors"
 
 // Cautions are shown with every verdict: home measurements are relative, and
-// a set-up fault looks like a lens fault (DOMAIN.md section 10).
+// a set-up fault looks like a lens fault (common practice).
 var Cautions = []string{
 	"A chart that is not parallel to the sensor, missed focus, camera shake and uneven light all look like lens faults: check the set-up before blaming the lens.",
 	"Repeat the shot (refocus, and turn the camera or the chart by 180 degrees) and see whether the pattern follows the lens before you draw a conclusion.",

@@ -40,7 +40,7 @@ func synthPoints(geo Geometry, n int, freqs []float64, seed uint64) []Point {
 
 // TestSummaryCorner: the corner of a 36 x 24 mm sensor lies
 // sqrt(18^2 + 12^2) = 21.63 mm from a centred axis (common practice;
-// DOMAIN.md section 3), and the summary carries it.
+// the Pythagorean half-diagonal), and the summary carries it.
 func TestSummaryCorner(t *testing.T) {
 	geo := NewGeometry(6000, 4000, 6)
 	s, err := Summarise(geo, nil, []float64{10, 30})

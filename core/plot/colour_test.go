@@ -32,7 +32,7 @@ func lstar(c color.NRGBA) float64 {
 }
 
 // TestSRGBTransfer checks the sRGB transfer function against the values in
-// DOMAIN.md section 7 (IEC 61966-2-1): 0.5 -> 0.2140, 1 -> 1.
+// IEC 61966-2-1:1999, 5.2: 0.5 -> 0.2140, 1 -> 1.
 func TestSRGBTransfer(t *testing.T) {
 	for _, tc := range []struct {
 		name     string

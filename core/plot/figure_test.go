@@ -93,8 +93,7 @@ func testFigures(t testing.TB) map[string]*Figure {
 }
 
 // TestFieldCurvesAxis: the height axis of a 36 x 24 mm frame runs from 0 to
-// the corner, sqrt(18^2 + 12^2) = 21.63 mm (common practice; DOMAIN.md
-// section 3), and every curve sample lies on it.
+// the corner, sqrt(18^2 + 12^2) = 21.63 mm (common practice), and every curve sample lies on it.
 func TestFieldCurvesAxis(t *testing.T) {
 	s := testSummary(t, 6000, 4000, 6, 80, 3, 0)
 	f := FieldCurves(s, FieldOptions{})

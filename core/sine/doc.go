@@ -16,8 +16,7 @@
 // frequency, in every direction at once. This is the method of the
 // sine-star SFR (s-SFR) of ISO 12233:2014 and later editions (Photography -
 // Electronic still picture imaging - Resolution and spatial frequency
-// responses, https://www.iso.org/standard/71696.html); see DOMAIN.md
-// section 5.
+// responses, https://www.iso.org/standard/71696.html).
 //
 // What this package does, step by step (star.go, centre.go, detect.go):
 //

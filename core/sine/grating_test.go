@@ -24,9 +24,10 @@ func alignedRect(cx, cy, w, h, dirDeg float64) [4][2]float64 {
 // TestGratingMTF renders sine gratings of known frequency and contrast
 // through known PSFs and checks the measured modulation transfer against
 // simcam.TrueMTF (the OTF times the pixel aperture; Goodman ch. 6, Boreman
-// ch. 2), within 0.03 (the brief's bound), two ways: against the printed
-// modulation Amplitude/Mean, and against a reference grating of 0.02 cy/px
-// on the same sheet (DOMAIN.md section 5). The search area is 24 px larger
+// ch. 2), within twice README's figures, two ways: against the printed
+// modulation Amplitude/Mean (README 0.002, asserted 0.004), and against a
+// reference grating of 0.02 cy/px (README 0.014, asserted 0.028)
+// on the same sheet (common practice: the print's own modulation). The search area is 24 px larger
 // than the grating on every side, so the pattern's own extent is found.
 func TestGratingMTF(t *testing.T) {
 	gauss := simcam.Gaussian{Sigma1: 0.8, Sigma2: 0.8}
@@ -44,7 +45,7 @@ func TestGratingMTF(t *testing.T) {
 		{"aniso f0.2 along the narrow axis", simcam.Gaussian{Sigma1: 1.2, Sigma2: 0.6, AngleDeg: 20}, 0.2, 110, false},
 		{"airy f0.3 dir 30", simcam.Airy{WavelengthUM: 0.55, FNumber: 5.6, PitchUM: 4}, 0.3, 30, false},
 	}
-	const tol = 0.03
+	const tolPrint, tolRef = 2 * 0.002, 2 * 0.014
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			if testing.Short() && !c.short {
@@ -70,7 +71,7 @@ func TestGratingMTF(t *testing.T) {
 			byRef := gr.Modulation / rg.Modulation
 			t.Logf("f %.5f (want %.2f), dir %.3f: vs print %.4f, vs reference %.4f, true %.4f; %d px, %.1f cycles",
 				gr.FreqCyPx, c.freq, gr.DirectionDeg, byPrint, byRef, want, gr.AreaPx, gr.Cycles)
-			if math.Abs(byPrint-want) > tol || math.Abs(byRef-want) > tol {
+			if math.Abs(byPrint-want) > tolPrint || math.Abs(byRef-want) > tolRef {
 				t.Errorf("modulation ratio %.4f (print) %.4f (reference), true MTF %.4f", byPrint, byRef, want)
 			}
 			if math.Abs(gr.FreqCyPx/c.freq-1) > 3e-3 || axisDist(gr.DirectionDeg, c.dir) > 0.1 {

@@ -37,13 +37,15 @@ import (
 //     otherwise "mixed", which happens only next to the centre, where an
 //     edge piece off the square's axis sees the radius turned by more than
 //     the 20 degree tolerance;
-//   - MTF at 10 and 30 lp/mm is within 0.05 of simcam.TrueMTF, the analytic
+//   - MTF at 10 and 30 lp/mm is within 0.0108 of simcam.TrueMTF, the analytic
 //     system MTF (lens OTF times pixel aperture; Goodman ch. 6, Boreman ch.
-//     2), at each edge: the tolerance of the whole-photo analysis issue.
+//     2), at each edge: twice README's 0.0054 (the 6000 x 4000 photo).
 func TestEndToEnd(t *testing.T) {
 	w, h, pitch := 6000, 4000, 6.0
+	limit := 2 * 0.0054
 	if testing.Short() {
 		w, h, pitch = 1500, 1000, 24.0
+		limit = 0.046 // the small photo: measured 0.0232, asserted at twice that
 	}
 	d, err := chart.NewDesign(chart.Code{Aspect: "3:2"})
 	if err != nil {
@@ -177,8 +179,8 @@ func TestEndToEnd(t *testing.T) {
 			e := math.Abs(float64(m.MTFAtFreqs[i]) - truth)
 			worst = math.Max(worst, e)
 			n++
-			if e > 0.05 {
-				t.Errorf("%s edge %d at %g lp/mm: MTF %.3f, true %.3f", m.TargetID, m.TargetEdge, f, m.MTFAtFreqs[i], truth)
+			if e > limit {
+				t.Errorf("%s edge %d at %g lp/mm: MTF %.4f, true %.4f (limit %.4f)", m.TargetID, m.TargetEdge, f, m.MTFAtFreqs[i], truth, limit)
 			}
 		}
 	}

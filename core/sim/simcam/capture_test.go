@@ -69,7 +69,7 @@ func TestNoiseSeeds(t *testing.T) {
 }
 
 // TestSRGB checks the transfer function against IEC 61966-2-1: the check
-// value V = 0.5 <-> L = 0.2140 (DOMAIN.md section 7), V = 1 <-> L = 1, and
+// value V = 0.5 <-> L = 0.2140 (IEC 61966-2-1:1999, 5.2), V = 1 <-> L = 1, and
 // the linear segment below 0.0031308.
 func TestSRGB(t *testing.T) {
 	cases := []struct {

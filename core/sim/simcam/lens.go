@@ -19,7 +19,8 @@ func (f Fixed) PSFAt(x, y float64) PSF { return f.PSF }
 // image height differently along and across the radius, optionally cascaded
 // with a diffraction pattern, so that sagittal and tangential MTF differ.
 //
-// Orientation (optics convention; see DOMAIN.md section 3): the tangential
+// Orientation (optics convention; W. J. Smith, Modern Optical Engineering,
+// 4th ed., ch. 3, chapter from memory): the tangential
 // (meridional) direction at an image point runs along the radius from the
 // optical centre, the sagittal direction across it. SigmaT is the PSF's
 // width along the radius, so it blurs contrast that varies along the radius:

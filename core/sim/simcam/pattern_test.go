@@ -56,7 +56,7 @@ func TestGratingInterior(t *testing.T) {
 
 // TestStarModulation fits the Cycles-th harmonic on a ring of a rendered
 // sinusoidal star: its amplitude relative to the star's is the system MTF at
-// the local frequency Cycles / (2 pi r) (DOMAIN.md section 5), here for an
+// the local frequency Cycles / (2 pi r) (ISO 12233:2014, s-SFR annex), here for an
 // isotropic Gaussian whose MTF does not depend on direction, times the pixel
 // aperture averaged over the ring's directions (within 1 %: the ring has a
 // width of one pixel and the star's lines are curved).

@@ -6,14 +6,14 @@ import (
 )
 
 // TestAiryOTF checks the diffraction-limited OTF against Goodman,
-// Introduction to Fourier Optics, ch. 6, with the values of DOMAIN.md
-// section 6: lambda = 0.55 um, f/8 -> vc = 227.3 lp/mm, MTF(vc/2) = 0.391.
+// Introduction to Fourier Optics, 3rd ed., ch. 6 (the circular pupil's
+// OTF, evaluated by hand): lambda = 0.55 um, f/8 -> vc = 227.3 lp/mm, MTF(vc/2) = 0.391.
 func TestAiryOTF(t *testing.T) {
 	a := Airy{WavelengthUM: 0.55, FNumber: 8, PitchUM: 4}
 	if got := a.CutoffLpMM(); math.Abs(got-227.3) > 0.05 {
 		t.Errorf("cut-off %v lp/mm, want 227.3", got)
 	}
-	// cycles/pixel = lp/mm * pitch in mm (DOMAIN.md section 2)
+	// cycles/pixel = lp/mm * pitch in mm (common practice: unit definition)
 	if got, want := a.CutoffCyPx(), 227.27*0.004; math.Abs(got-want) > 1e-3 {
 		t.Errorf("cut-off %v cy/px, want %v", got, want)
 	}
@@ -36,8 +36,8 @@ func TestAiryOTF(t *testing.T) {
 }
 
 // TestGaussianOTF checks MTF50 = sqrt(ln 2 / (2 pi^2)) / sigma = 0.18739 /
-// sigma cycles/pixel (Fourier transform pair of the Gaussian, Goodman ch. 2;
-// DOMAIN.md section 6), along each principal axis of an elliptical Gaussian.
+// sigma cycles/pixel (Fourier transform pair of the Gaussian; Goodman,
+// Introduction to Fourier Optics, 3rd ed., ch. 2), along each principal axis of an elliptical Gaussian.
 func TestGaussianOTF(t *testing.T) {
 	g := Gaussian{Sigma1: 1.6, Sigma2: 0.8, AngleDeg: 30}
 	s, c := math.Sincos(30 * math.Pi / 180)
@@ -62,7 +62,7 @@ func TestGaussianOTF(t *testing.T) {
 }
 
 // TestTrueMTF checks the system MTF: ideal lens at Nyquist is the pixel
-// aperture |sinc(0.5)| = 2/pi = 0.6366 (Boreman ch. 2; DOMAIN.md section 6),
+// aperture |sinc(0.5)| = 2/pi = 0.6366 (Boreman, MTF in Optical and Electro-Optical Systems, ch. 2),
 // and a Gaussian lens multiplies it (cascade, Goodman ch. 6).
 func TestTrueMTF(t *testing.T) {
 	cases := []struct {
@@ -81,8 +81,9 @@ func TestTrueMTF(t *testing.T) {
 	}
 }
 
-// TestFieldLensOrientation checks the sagittal/tangential convention of
-// DOMAIN.md section 3: SigmaT is the width along the radius (tangential MTF,
+// TestFieldLensOrientation checks the sagittal/tangential convention
+// (W. J. Smith, Modern Optical Engineering, 4th ed., ch. 3; chapter from
+// memory): SigmaT is the width along the radius (tangential MTF,
 // edge normal radial), SigmaS across it. The Gaussian OTF along a direction
 // is exp(-2 pi^2 s^2 f^2) with s the width along it (Goodman ch. 2).
 func TestFieldLensOrientation(t *testing.T) {
