@@ -50,7 +50,7 @@ func checkBalance(t *testing.T, sd float64, targets []float64, notable []bool) {
 		pts := make([]Point, len(base))
 		for i, p := range base {
 			p.MTF = append([]float64(nil), p.MTF...)
-			if p.X < geo.CenterX {
+			if p.X < geo.CentreX {
 				p.MTF[0] -= shift
 			}
 			pts[i] = p
