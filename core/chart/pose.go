@@ -145,10 +145,10 @@ func (ps *Pose) Check(focalPx float64) Setup {
 	s.Warnings = []string{}
 	warn := func(format string, a ...any) { s.Warnings = append(s.Warnings, fmt.Sprintf(format, a...)) }
 	if s.CoverPct < MinCoverPct {
-		warn("The chart fills only %.0f %% of the frame, so the frame's edges and corners are not measured: move closer or zoom in until the chart's corner marks reach the corners of the frame.", s.CoverPct)
+		warn("The chart fills only %s %% of the frame, so the frame's edges and corners are not measured: move closer or zoom in until the chart's corner marks reach the corners of the frame.", pastLimit(s.CoverPct, MinCoverPct))
 	}
 	if s.VisiblePct < MinVisiblePct {
-		warn("%.0f %% of the chart lies outside the frame, so targets near its edges are cut off: step back or zoom out until the corner marks are just inside the frame.", 100-s.VisiblePct)
+		warn("%s %% of the chart lies outside the frame, so targets near its edges are cut off: step back or zoom out until the corner marks are just inside the frame.", pastLimit(100-s.VisiblePct, 100-MinVisiblePct))
 	}
 	if math.Abs(s.RotationDeg) > MaxRotationDeg {
 		side := "clockwise"
@@ -176,9 +176,23 @@ func (ps *Pose) Check(focalPx float64) Setup {
 		warn("The camera is tilted against the chart%s: its %s appears %.1f %% larger than its %s, so the %s is nearer. Tilt the camera (or the chart) until both match; a tilted chart is sharp only along one line.", tilt, near, math.Abs(s.KeystoneTBPct), far, near)
 	}
 	if s.OffCentrePct > MaxOffCentrePct {
-		warn("The chart's centre is %.0f %% of the frame's height away from the frame's centre: aim the camera at the chart's centre.", s.OffCentrePct)
+		warn("The chart's centre is %s %% of the frame's height away from the frame's centre: aim the camera at the chart's centre.", pastLimit(s.OffCentrePct, MaxOffCentrePct))
 	}
 	return s
+}
+
+// pastLimit writes a percentage v that failed a check against limit so that
+// the figure shown is on the same side of the limit as v: a whole number
+// when rounding keeps it there, else one decimal rounded away from the limit
+// (84.6 against a minimum of 85 reads "84.6", not "85").
+func pastLimit(v, limit float64) string {
+	if r := math.Round(v); (v < limit) == (r < limit) && r != limit {
+		return fmt.Sprintf("%.0f", r)
+	}
+	if v < limit {
+		return fmt.Sprintf("%.1f", math.Floor(v*10)/10)
+	}
+	return fmt.Sprintf("%.1f", math.Ceil(v*10)/10)
 }
 
 // tiltDeg returns the angle between the chart's normal and the optical
