@@ -120,6 +120,9 @@ func validField(f *FieldLens) error {
 	if !finite(f.PitchUM) || f.PitchUM <= 0 {
 		return invalidf("field lens pitch %v um must be > 0", f.PitchUM)
 	}
+	if !finite(f.ExtraSigmaPx) || f.ExtraSigmaPx < 0 {
+		return invalidf("field lens extra blur %v px must be finite and >= 0", f.ExtraSigmaPx)
+	}
 	for _, v := range append(append([]float64{f.CentreX, f.CentreY, f.TiltPerMM, f.TiltDeg}, f.SigmaT...), f.SigmaS...) {
 		if !finite(v) {
 			return invalidf("field lens has a non-finite parameter")
