@@ -41,6 +41,13 @@ type Settings struct {
 	// PitchUM nor SensorMM is given and the photo's Exif gives no usable
 	// pitch (the page's "read it from the file, else this format").
 	FallbackSensorMM [2]float64 `json:"fallback_sensor_mm,omitempty"`
+
+	// PrintDPI and ChartMM describe the printed chart (its printer
+	// resolution and its short side in mm, as the sheet's text block gives
+	// them): sine patterns are cut where the print holds no finer detail
+	// (printlimit.go). 0 assumes the chart's default sheet (A4, 600 dpi).
+	PrintDPI float64 `json:"print_dpi,omitempty"`
+	ChartMM  float64 `json:"chart_mm,omitempty"`
 }
 
 // DefaultFreqsLPMM are the field frequencies used when none are given:
@@ -135,7 +142,7 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	recogniseChart(dec, img) // tags measurements on Sagitta's chart (chart.go)
+	recogniseChart(dec, img, s) // tags measurements on Sagitta's chart (chart.go)
 	err = summarise(img, geo, img.Warnings)
 	if errors.Is(err, errNoRecords) {
 		return nil, noTargets(img.Rejected)

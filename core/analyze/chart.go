@@ -36,6 +36,9 @@ type ChartResult struct {
 	// out of Image.Rejected.
 	IgnoredOnMarks    int `json:"ignored_on_marks"`
 	IgnoredOnPatterns int `json:"ignored_on_patterns"`
+	// Print is the print assumed to cut sine patterns at its limit
+	// (printlimit.go).
+	Print PrintInfo `json:"print"`
 }
 
 // PatternTarget ties a measured sine pattern to its chart target.
@@ -59,7 +62,7 @@ type MissingTarget struct {
 // are counted, not listed) and lists the targets with no measurement; the
 // set-up checks, which depend on the pixel pitch, are left to checkSetup.
 // Photos without the chart's marks are left exactly as they were.
-func recogniseChart(dec *decode.Image, img *Image) {
+func recogniseChart(dec *decode.Image, img *Image, s Settings) {
 	pose, note := chart.Recognise(dec.Lum)
 	if pose == nil {
 		if note != "" {
@@ -72,6 +75,8 @@ func recogniseChart(dec *decode.Image, img *Image) {
 		Patterns: []PatternTarget{}, Missing: []MissingTarget{}, OutsideFrame: []string{},
 	}
 	img.Chart = cr
+	cr.Print = printInfo(s, pose.Code)
+	cutAtPrint(img, pose, cr.Print)
 
 	type key struct {
 		id   string

@@ -2,6 +2,7 @@ package analyze
 
 import (
 	"fmt"
+	"sagitta/core/chart"
 	"slices"
 	"strings"
 
@@ -79,6 +80,13 @@ func Resummarise(img *Image, s Settings) (out *Image, err error) {
 	}
 	if out.CenterPx != img.CenterPx && len(img.Stars) > 0 {
 		again = append(again, "the optical centre moved and the photo has sine stars, measured along and across the radius from the old centre")
+	}
+	if img.Chart != nil && (len(img.Stars) > 0 || len(img.Gratings) > 0) {
+		if code, err := chart.ParseCode(img.Chart.Code); err == nil {
+			if p := printInfo(s, code); p.DotsPerUnit != img.Chart.Print.DotsPerUnit {
+				again = append(again, fmt.Sprintf("its sine patterns were cut at the limit of a print of %.0f dpi, chart %.0f mm, not %.0f dpi, %.0f mm", img.Chart.Print.DPI, img.Chart.Print.ChartMM, p.DPI, p.ChartMM))
+			}
+		}
 	}
 	if len(again) > 0 {
 		return nil, &MeasureAgainError{Reasons: again}
