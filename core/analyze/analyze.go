@@ -15,6 +15,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"sagitta/core/chart"
 	"sync"
 
 	"sagitta/core/decode"
@@ -107,6 +108,8 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	progress(StageFinding, 0.15)
 	cands, rejects := edgefind.Edges(dec.Lum, edgefind.Options{})
 	pats := findPatterns(ctx, dec.Lum, geo, s.Workers) // sine stars and gratings (sine.go)
+	pose, chartNote := chart.Recognise(dec.Lum)        // Sagitta's chart, if it is there (chart.go)
+	pats.gratingsFromChart(dec.Lum, pose)              // its gratings measured from the design (chartgratings.go)
 	cands, rejects = pats.exclude(cands, rejects)
 	img.Rejected = append(img.Rejected, pats.rejected...)
 	for _, r := range rejects {
@@ -142,7 +145,7 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	recogniseChart(dec, img, s) // tags measurements on Sagitta's chart (chart.go)
+	recogniseChart(img, pose, chartNote, s) // tags measurements on Sagitta's chart (chart.go)
 	err = summarise(img, geo, img.Warnings)
 	if errors.Is(err, errNoRecords) {
 		return nil, noTargets(img.Rejected)

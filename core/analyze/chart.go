@@ -4,7 +4,6 @@ import (
 	"sort"
 
 	"sagitta/core/chart"
-	"sagitta/core/decode"
 )
 
 // ChartResult is what the analysis learnt from a Sagitta chart in the
@@ -62,8 +61,7 @@ type MissingTarget struct {
 // are counted, not listed) and lists the targets with no measurement; the
 // set-up checks, which depend on the pixel pitch, are left to checkSetup.
 // Photos without the chart's marks are left exactly as they were.
-func recogniseChart(dec *decode.Image, img *Image, s Settings) {
-	pose, note := chart.Recognise(dec.Lum)
+func recogniseChart(img *Image, pose *chart.Pose, note string, s Settings) {
 	if pose == nil {
 		if note != "" {
 			img.Warnings = append(img.Warnings, "chart: "+note)

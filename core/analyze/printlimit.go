@@ -57,7 +57,20 @@ func printInfo(s Settings, code chart.Code) PrintInfo {
 	return p
 }
 
-// cutAtPrint cuts every star and grating record at the print's limit under
+// dotsPerPx returns the printer dots per photo px at (x, y) px: the dots
+// per chart unit over the pose's scale there (px per chart unit, the square
+// root of the homography's Jacobian determinant); 0 when unknown.
+func dotsPerPx(pose *chart.Pose, p PrintInfo, x, y float64) float64 {
+	u, v := pose.Inv.Apply(x, y)
+	j := pose.H.Jacobian(u, v)
+	sc := math.Sqrt(math.Abs(j[0][0]*j[1][1] - j[0][1]*j[1][0]))
+	if !(sc > 0) || !(p.DotsPerUnit > 0) {
+		return 0
+	}
+	return p.DotsPerUnit / sc
+}
+
+// cutAtPrint cuts every star record at the print's limit under
 // it (pose: the recognised chart) and flags the records cut.
 func cutAtPrint(img *Image, pose *chart.Pose, p PrintInfo) {
 	if !(p.DotsPerUnit > 0) {

@@ -199,7 +199,8 @@ func (img *Image) validate() error {
 			}
 		}
 	}
-	if len(img.Gratings) > 0 && refs != 1 {
+	// One reference per photo, or one per direction of a recognised chart.
+	if len(img.Gratings) > 0 && (refs < 1 || refs > 1 && img.Chart == nil) {
 		return ResultError(fmt.Sprintf("%d reference gratings", refs))
 	}
 	return nil
