@@ -106,9 +106,26 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	}
 
 	progress(StageFinding, 0.15)
+	// Sagitta's chart, if it is there (chart.go), first: its grey steps
+	// give the photo's tone curve, needed before anything is measured
+	// (tone.go).
+	pose, chartNote := chart.Recognise(dec.Lum)
+	switch {
+	case pose != nil:
+		tf, note := fitTone(dec.Lum, pose, chk.tone.Kind == decode.ToneAuto)
+		img.ToneFit = tf
+		if note != "" {
+			img.Warnings = append(img.Warnings, "chart: "+note)
+		}
+		if w := toneWarning(tf, img.Tone); w != "" {
+			tf.Code = FlagToneCurve
+			img.Warnings = append(img.Warnings, w)
+		}
+	case chk.tone.Kind == decode.ToneAuto && dec.Format == decode.FormatJPEG:
+		img.Warnings = append(img.Warnings, toneAssumed)
+	}
 	cands, rejects := edgefind.Edges(dec.Lum, edgefind.Options{})
 	pats := findPatterns(ctx, dec.Lum, geo, s.Workers) // sine stars and gratings (sine.go)
-	pose, chartNote := chart.Recognise(dec.Lum)        // Sagitta's chart, if it is there (chart.go)
 	pats.gratingsFromChart(dec.Lum, pose)              // its gratings measured from the design (chartgratings.go)
 	cands, rejects = pats.exclude(cands, rejects)
 	img.Rejected = append(img.Rejected, pats.rejected...)

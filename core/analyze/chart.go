@@ -30,7 +30,8 @@ type ChartResult struct {
 	Missing      []MissingTarget `json:"missing"`
 	OutsideFrame []string        `json:"outside_frame"`
 	// IgnoredOnMarks and IgnoredOnPatterns count the straight runs that
-	// lie on the recognition marks or inside the sine patterns: they are
+	// lie on the recognition marks (and the frame's corner marks and the
+	// grey steps) or inside the sine patterns: they are
 	// parts of known chart features, not candidate targets, and are left
 	// out of Image.Rejected.
 	IgnoredOnMarks    int `json:"ignored_on_marks"`
@@ -85,7 +86,7 @@ func recogniseChart(img *Image, pose *chart.Pose, note string, s Settings) {
 	for _, m := range img.Measurements {
 		hit := pose.Locate(m.XPx, m.YPx)
 		switch {
-		case m.Kind == "edge" && hit.Kind == chart.HitMark:
+		case m.Kind == "edge" && (hit.Kind == chart.HitMark || hit.Kind == chart.HitWedge || pose.OnCornerMark(m.XPx, m.YPx, cr.Print.ChartMM)):
 			cr.IgnoredOnMarks++
 			continue
 		case m.Kind == "edge" && (hit.Kind == chart.HitStar || hit.Kind == chart.HitGrating):
@@ -106,10 +107,10 @@ func recogniseChart(img *Image, pose *chart.Pose, note string, s Settings) {
 	img.Measurements = kept
 	keptRej := img.Rejected[:0]
 	for _, r := range img.Rejected {
-		switch pose.Locate((r.X0+r.X1)/2, (r.Y0+r.Y1)/2).Kind {
-		case chart.HitMark:
+		switch hit := pose.Locate((r.X0+r.X1)/2, (r.Y0+r.Y1)/2); {
+		case hit.Kind == chart.HitMark || hit.Kind == chart.HitWedge || pose.OnCornerMark((r.X0+r.X1)/2, (r.Y0+r.Y1)/2, cr.Print.ChartMM):
 			cr.IgnoredOnMarks++
-		case chart.HitStar, chart.HitGrating:
+		case hit.Kind == chart.HitStar || hit.Kind == chart.HitGrating:
 			cr.IgnoredOnPatterns++
 		default:
 			keptRej = append(keptRej, r)

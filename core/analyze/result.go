@@ -26,6 +26,7 @@ type Image struct {
 	BitDepth    int        `json:"bit_depth"`
 	Tone        string     `json:"tone"`
 	ToneSource  string     `json:"tone_source"`
+	ToneFit     *ToneFit   `json:"tone_fit"` // the tone curve read from the chart's grey steps (tone.go); null without them
 	Method      string     `json:"method"`
 	FreqsLPMM   []float64  `json:"freqs_lp_mm"` // the field frequencies used for summaries
 	Exif        exif.Tags  `json:"exif"`

@@ -7,7 +7,7 @@ import (
 
 // Hit says what part of the chart lies under an image point.
 type Hit struct {
-	Kind  string  // "square", "star", "grating", "mark", "chart" (blank paper inside the frame) or "outside"
+	Kind  string  // "square", "star", "grating", "mark", "wedge", "chart" (blank paper inside the frame) or "outside"
 	ID    string  // target id (squares, stars, gratings)
 	Edge  int     // square edge 1..4 (see Square), 0 otherwise
 	X, Y  float64 // the target's centre, chart units
@@ -20,6 +20,7 @@ const (
 	HitStar    = "star"
 	HitGrating = "grating"
 	HitMark    = "mark"
+	HitWedge   = "wedge"
 	HitChart   = "chart"
 	HitOutside = "outside"
 )
@@ -58,6 +59,9 @@ func (ps *Pose) Locate(x, y float64) Hit {
 			return Hit{Kind: HitGrating, ID: g.ID, X: g.X, Y: g.Y, Field: d.Field(g.X, g.Y)}
 		}
 	}
+	if w := d.Wedge; w.W > 0 && math.Abs(u-w.X) <= w.W/2+wedgeTol && math.Abs(v-w.Y) <= w.H/2+wedgeTol {
+		return Hit{Kind: HitWedge, ID: "wedge", X: w.X, Y: w.Y, Field: d.Field(w.X, w.Y)}
+	}
 	for _, m := range d.Marks {
 		if math.Hypot(u-m.X, v-m.Y) <= m.R {
 			return Hit{Kind: HitMark, ID: fmt.Sprintf("mark%d", m.Index), X: m.X, Y: m.Y, Field: d.Field(m.X, m.Y)}
@@ -65,6 +69,10 @@ func (ps *Pose) Locate(x, y float64) Hit {
 	}
 	return Hit{Kind: HitChart}
 }
+
+// wedgeTol widens the step wedge's block for Locate, chart units: an edge
+// found along its border is centred on it, within the blur.
+const wedgeTol = 0.01
 
 // InFrame reports whether the chart point (x, y) maps inside the photo with
 // margin px to spare.
@@ -258,4 +266,33 @@ func clipRect(p [][2]float64, w, h float64) [][2]float64 {
 		p = out
 	}
 	return p
+}
+
+// OnCornerMark reports whether the image point (x, y) px lies on or next to
+// one of the frame's corner marks (layout.go), outside the chart frame, for
+// a chart printed chartMM mm along its short side: within 2 mm of the L's
+// outline, beyond the frame on at least one axis. Nothing there is a
+// target: a line 0.3 mm wide blurs into a faint, narrow bar whose "edge"
+// would read a contrast near 1 and an MTF above 1.
+func (ps *Pose) OnCornerMark(x, y, chartMM float64) bool {
+	if !(chartMM > 0) {
+		return false
+	}
+	d := ps.Design
+	u, v := ps.Inv.Apply(x, y)
+	if math.IsNaN(u) || math.IsNaN(v) {
+		return false
+	}
+	const slack = 2.0 // mm
+	for _, s := range [4][2]float64{{-1, -1}, {1, -1}, {1, 1}, {-1, 1}} {
+		// Distances outward from the frame's corner, mm.
+		du := s[0] * (u - s[0]*d.W/2) * chartMM
+		dv := s[1] * (v - s[1]*d.H/2) * chartMM
+		far := CornerOffMM + CornerWidthMM + slack
+		near := -(CornerMarkMM + slack)
+		if du <= far && dv <= far && du >= near && dv >= near && (du > 0 || dv > 0) {
+			return true
+		}
+	}
+	return false
 }

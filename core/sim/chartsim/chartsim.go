@@ -6,10 +6,10 @@
 // By default the simulated chart is an ideal print: the squares and marks
 // have sharp edges, and the stars keep their full modulation right to the
 // centre. Print.DPI and Print.ChartMM make it a print as core/chart prints
-// it (see Print): the stars fade to grey where a cycle spans fewer than
+// it (see Print), with the frame's corner marks just outside the frame: the stars fade to grey where a cycle spans fewer than
 // chart.PrintLimitDots printer dots, the gratings carry their dots' own
 // attenuation, and every part is blurred by the print (PrintedLens). The
-// rulers, text and corner marks outside the chart frame are left out.
+// rulers and text below the chart frame are left out.
 //
 // Camera model: the pinhole camera of R. Hartley and A. Zisserman, Multiple
 // View Geometry in Computer Vision, 2nd ed. (2003), section 6.1: a chart
@@ -216,7 +216,30 @@ func Scene(d *chart.Design, h chart.Homography, pr Print) simcam.Scene {
 		}
 		s.Polygons = append(s.Polygons, simcam.Polygon{Pts: pts, Level: pr.Paper * pr.Dark})
 	}
+	// The step wedge: patches of their designed reflectance (a printer that
+	// honours sRGB prints them so: core/chart's paint.go).
+	for k, r := range d.Wedge.Steps {
+		x, y, pw, ph := d.Wedge.Patch(k)
+		s.Polygons = append(s.Polygons, simcam.Polygon{Pts: [][2]float64{
+			mp(x-pw/2, y-ph/2), mp(x+pw/2, y-ph/2), mp(x+pw/2, y+ph/2), mp(x-pw/2, y+ph/2)}, Level: pr.Paper * r})
+	}
 	ink := pr.Paper * pr.Ink
+	if pr.ChartMM > 0 {
+		// The frame's corner marks (chart's layout): two arms of black
+		// ink meeting outside each corner.
+		mm := 1 / pr.ChartMM // chart units per mm
+		off := (chart.CornerOffMM + chart.CornerWidthMM/2) * mm
+		hw, arm := chart.CornerWidthMM/2*mm, chart.CornerMarkMM*mm
+		rect := func(x0, y0, x1, y1 float64) simcam.Polygon {
+			return simcam.Polygon{Pts: [][2]float64{mp(x0, y0), mp(x1, y0), mp(x1, y1), mp(x0, y1)}, Level: ink}
+		}
+		for _, sg := range [4][2]float64{{-1, -1}, {1, -1}, {1, 1}, {-1, 1}} {
+			vx, vy := sg[0]*(d.W/2+off), sg[1]*(d.H/2+off)
+			s.Polygons = append(s.Polygons,
+				rect(math.Min(vx, vx-sg[0]*arm), vy-hw, math.Max(vx, vx-sg[0]*arm), vy+hw),
+				rect(vx-hw, math.Min(vy, vy-sg[1]*arm), vx+hw, math.Max(vy, vy-sg[1]*arm)))
+		}
+	}
 	for _, m := range d.Marks {
 		sc, _ := similarity(h, m.X, m.Y)
 		// Arc step with a chord sagitta of arcTolPx at the ring's outer

@@ -139,6 +139,9 @@ func (c *Camera) encodeImage(p *plane.Plane) image.Image {
 		if srgb {
 			x = srgbEncode(x)
 		}
+		if c.Curve != nil {
+			x = math.Min(math.Max(c.Curve(x), 0), 1)
+		}
 		v[i] = x
 	}
 	if s := c.Sharpen; s != nil && s.Amount > 0 {
