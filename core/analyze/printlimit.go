@@ -21,6 +21,16 @@ import (
 // default sheet (A4 landscape, 600 dpi).
 const defaultPrintDPI = chart.DefaultDPI
 
+// starCutMargin and starCutPx widen the radius from which a star is cut:
+// measured rings are 1 px wide and resampled onto the frequency grid from
+// their neighbours, and the lens's and the print's blur spread the fade a
+// few px outward (on a simulated print the last ring before the fade read
+// 0.024 low without them).
+const (
+	starCutMargin = 1.1
+	starCutPx     = 2.0
+)
+
 // FlagPrintLimit marks a star or grating record cut at the print's limit.
 const FlagPrintLimit = "print-limit"
 
@@ -76,23 +86,26 @@ func cutAtPrint(img *Image, pose *chart.Pose, p PrintInfo) {
 	if !(p.DotsPerUnit > 0) {
 		return
 	}
-	limit := func(x, y float64) float64 {
-		u, v := pose.Inv.Apply(x, y)
-		j := pose.H.Jacobian(u, v)
-		sc := math.Sqrt(math.Abs(j[0][0]*j[1][1] - j[0][1]*j[1][0])) // px per chart unit
-		return p.DotsPerUnit / sc                                    // dots per px
-	}
 	for i := range img.Measurements {
 		m := &img.Measurements[i]
-		var lim float64
-		switch m.Kind {
-		case "star":
-			lim = limit(m.XPx, m.YPx) / (chart.PrintLimitDots * chart.StarFadeEnd)
-		case "grating":
-			lim = limit(m.XPx, m.YPx) / chart.PrintLimitDots
-		default:
+		if m.Kind != "star" {
+			continue // grating records are cut when they are made (gratings.go)
+		}
+		dpp := dotsPerPx(pose, p, m.XPx, m.YPx)
+		if !(dpp > 0) {
 			continue
 		}
+		// The radius (px) from which the star is printed at full
+		// modulation, widened by starCutMargin and starCutPx for the rings'
+		// width, the resampling and the blur, which carry the fade outward.
+		n := float64(chart.StarCycles)
+		for _, s := range img.Stars {
+			if s.ID == m.PatternID {
+				n = float64(s.Cycles)
+			}
+		}
+		rFull := chart.StarFadeEnd * chart.PrintLimitDots * n / (2 * math.Pi * dpp)
+		lim := n / (2 * math.Pi * (starCutMargin*rFull + starCutPx))
 		if m.MeasuredCyPx == nil || m.MeasuredCyPx[1] <= lim {
 			continue
 		}
