@@ -112,7 +112,7 @@ type Wedge struct {
 	Steps      []float64
 }
 
-// Wedge layout: a block of wedgeOfCell of the cell, 4 x 3 patches, 12
+// Wedge layout: a block of wedgeOfCell of the cell (as wide as a grating block), 4 x 3 patches, 12
 // reflectances evenly spaced in log from WedgeHi to WedgeLo. The darkest is
 // above the few per cent black ink reflects on matte paper (from memory),
 // so a printer reaches every step; the lightest is below the paper.
@@ -121,7 +121,7 @@ const (
 	WedgeRows   = 3
 	WedgeHi     = 0.9
 	WedgeLo     = 0.06
-	wedgeOfCell = 0.8
+	wedgeOfCell = 0.72
 )
 
 // Patch returns patch k's centre and size, chart units.

@@ -116,6 +116,23 @@ func TestGratingsRealistic(t *testing.T) {
 				t.Errorf("variant %d: %s MTF %.4f, truth %.4f", variant, id, float64(info.MTF), truth)
 			}
 		}
+		// No edge record on the frame's corner marks or the grey steps
+		// (issue 18 item 5): their places from the simulation's own pose.
+		inv, _ := hom.Inverse()
+		mm := 1 / pr.ChartMM
+		for _, m := range img.Measurements {
+			if m.Kind != "edge" {
+				continue
+			}
+			u, v := inv.Apply(m.XPx, m.YPx)
+			du, dv := math.Abs(u)-d.W/2, math.Abs(v)-d.H/2
+			if (du > 0 || dv > 0) && du > -(chart.CornerMarkMM+1)*mm && dv > -(chart.CornerMarkMM+1)*mm {
+				t.Errorf("variant %d: edge record on a corner mark at (%.0f, %.0f)", variant, m.XPx, m.YPx)
+			}
+			if math.Abs(u-d.Wedge.X) < d.Wedge.W/2 && math.Abs(v-d.Wedge.Y) < d.Wedge.H/2 {
+				t.Errorf("variant %d: edge record on the grey steps at (%.0f, %.0f)", variant, m.XPx, m.YPx)
+			}
+		}
 		recs := 0
 		for _, m := range img.Measurements {
 			if m.Kind == "grating" {
