@@ -102,6 +102,9 @@ func (f *Fitted) At(x float64) float64 {
 
 // Apply maps every value of p through the curve times scale, by a table
 // of 4097 values over [0, max(p)] with linear interpolation between them.
+// Clipping stays visible as such: a value at or above plane.ClipLevel (the
+// top of the file's values) is kept, and no other value is mapped onto or
+// above it.
 func (f *Fitted) Apply(p *plane.Plane, scale float64) {
 	var hi float32
 	for _, v := range p.Pix {
@@ -116,13 +119,17 @@ func (f *Fitted) Apply(p *plane.Plane, scale float64) {
 		lut[i] = float32(scale * f.At(float64(i)*float64(hi)/n))
 	}
 	k := float32(n) / hi
+	const top = float32(plane.ClipLevel - 1e-4)
 	for i, v := range p.Pix {
+		if v >= plane.ClipLevel {
+			continue
+		}
 		t := max(v, 0) * k
 		j := int(t)
 		if j > n {
 			j = n
 		}
 		fr := t - float32(j)
-		p.Pix[i] = lut[j] + fr*(lut[j+1]-lut[j])
+		p.Pix[i] = min(lut[j]+fr*(lut[j+1]-lut[j]), top)
 	}
 }
