@@ -15,6 +15,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"sagitta/core/chart"
 	"sync"
 
 	"sagitta/core/decode"
@@ -88,8 +89,27 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	}
 
 	progress(StageFinding, 0.15)
+	// Sagitta's chart, if it is there (chart.go), first: its grey steps
+	// give the photo's tone curve, needed before anything is measured
+	// (tone.go).
+	pose, chartNote := chart.Recognise(dec.Lum)
+	switch {
+	case pose != nil:
+		tf, why := fitTone(dec.Lum, pose, chk.tone.Kind == decode.ToneAuto)
+		img.ToneFit = tf
+		if why != "" {
+			img.warn(note.New(note.ToneStepsUnread, "chart: "+why))
+		}
+		if w := toneWarning(tf, img.Tone); w != "" {
+			tf.Code = FlagToneCurve
+			img.warn(note.New(note.ToneCurve, w))
+		}
+	case chk.tone.Kind == decode.ToneAuto && dec.Format == decode.FormatJPEG:
+		img.warn(note.New(note.ToneAssumed, toneAssumed))
+	}
 	cands, rejects := edgefind.Edges(dec.Lum, edgefind.Options{})
 	pats := findPatterns(ctx, dec.Lum, geo, s.Workers) // sine stars and gratings (sine.go)
+	pats.gratingsFromChart(dec.Lum, pose)              // its gratings measured from the design (chartgratings.go)
 	cands, rejects = pats.exclude(cands, rejects)
 	img.Rejected = append(img.Rejected, pats.rejected...)
 	for _, r := range rejects {
@@ -127,7 +147,7 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	recogniseChart(dec, img) // tags measurements on Sagitta's chart (chart.go)
+	recogniseChart(img, pose, chartNote, s) // tags measurements on Sagitta's chart (chart.go)
 	base, _ := img.notes()
 	err = summarise(img, geo, base)
 	if errors.Is(err, errNoRecords) {

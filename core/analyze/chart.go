@@ -4,7 +4,6 @@ import (
 	"sort"
 
 	"sagitta/core/chart"
-	"sagitta/core/decode"
 	"sagitta/core/note"
 )
 
@@ -14,8 +13,7 @@ import (
 // are counted, not listed) and lists the targets with no measurement; the
 // set-up checks, which depend on the pixel pitch, are left to checkSetup.
 // Photos without the chart's marks are left exactly as they were.
-func recogniseChart(dec *decode.Image, img *Image) {
-	pose, why := chart.Recognise(dec.Lum)
+func recogniseChart(img *Image, pose *chart.Pose, why note.Note, s Settings) {
 	if pose == nil {
 		if why.Text != "" {
 			img.warn(note.New(why.Code, "chart: "+why.Text))
@@ -27,6 +25,8 @@ func recogniseChart(dec *decode.Image, img *Image) {
 		Patterns: []PatternTarget{}, Missing: []MissingTarget{}, OutsideFrame: []string{},
 	}
 	img.Chart = cr
+	cr.Print = printInfo(s, pose.Code)
+	cutAtPrint(img, pose, cr.Print)
 
 	type key struct {
 		id   string
@@ -37,7 +37,7 @@ func recogniseChart(dec *decode.Image, img *Image) {
 	for _, m := range img.Measurements {
 		hit := pose.Locate(m.XPx, m.YPx)
 		switch {
-		case m.Kind == "edge" && hit.Kind == chart.HitMark:
+		case m.Kind == "edge" && (hit.Kind == chart.HitMark || hit.Kind == chart.HitWedge || pose.OnCornerMark(m.XPx, m.YPx, cr.Print.ChartMM)):
 			cr.IgnoredOnMarks++
 			continue
 		case m.Kind == "edge" && (hit.Kind == chart.HitStar || hit.Kind == chart.HitGrating):
@@ -58,10 +58,10 @@ func recogniseChart(dec *decode.Image, img *Image) {
 	img.Measurements = kept
 	keptRej := img.Rejected[:0]
 	for _, r := range img.Rejected {
-		switch pose.Locate((r.X0+r.X1)/2, (r.Y0+r.Y1)/2).Kind {
-		case chart.HitMark:
+		switch hit := pose.Locate((r.X0+r.X1)/2, (r.Y0+r.Y1)/2); {
+		case hit.Kind == chart.HitMark || hit.Kind == chart.HitWedge || pose.OnCornerMark((r.X0+r.X1)/2, (r.Y0+r.Y1)/2, cr.Print.ChartMM):
 			cr.IgnoredOnMarks++
-		case chart.HitStar, chart.HitGrating:
+		case hit.Kind == chart.HitStar || hit.Kind == chart.HitGrating:
 			cr.IgnoredOnPatterns++
 		default:
 			keptRej = append(keptRej, r)

@@ -42,6 +42,7 @@ type Image struct {
 	Tone        string     `json:"tone"`
 	ToneSource  string     `json:"tone_source"`
 	ToneFrom    string     `json:"tone_from"` // its code: "user", "file" or "default" (core/note)
+	ToneFit     *ToneFit   `json:"tone_fit"`  // the tone curve read from the chart's grey steps (tone.go); null without them
 	Method      string     `json:"method"`
 	FreqsLPMM   []float64  `json:"freqs_lp_mm"` // the field frequencies used for summaries
 	Exif        ExifTags   `json:"exif"`
@@ -156,6 +157,13 @@ type Settings struct {
 	// PitchUM nor SensorMM is given and the photo's Exif gives no usable
 	// pitch (the page's "read it from the file, else this format").
 	FallbackSensorMM [2]float64 `json:"fallback_sensor_mm,omitempty"`
+
+	// PrintDPI and ChartMM describe the printed chart (its printer
+	// resolution and its short side in mm, as the sheet's text block gives
+	// them): sine patterns are cut where the print holds no finer detail
+	// (printlimit.go). 0 assumes the chart's default sheet (A4, 600 dpi).
+	PrintDPI float64 `json:"print_dpi,omitempty"`
+	ChartMM  float64 `json:"chart_mm,omitempty"`
 }
 
 // ChartResult is what the analysis learnt from a Sagitta chart in the
@@ -182,11 +190,15 @@ type ChartResult struct {
 	Missing      []MissingTarget `json:"missing"`
 	OutsideFrame []string        `json:"outside_frame"`
 	// IgnoredOnMarks and IgnoredOnPatterns count the straight runs that
-	// lie on the recognition marks or inside the sine patterns: they are
-	// parts of known chart features, not candidate targets, and are left
-	// out of Image.Rejected.
+	// lie on the recognition marks (and the frame's corner marks and the
+	// grey steps) or inside the sine patterns: they are parts of known
+	// chart features, not candidate targets, and are left out of
+	// Image.Rejected.
 	IgnoredOnMarks    int `json:"ignored_on_marks"`
 	IgnoredOnPatterns int `json:"ignored_on_patterns"`
+	// Print is the print assumed to cut sine patterns at its limit
+	// (printlimit.go).
+	Print PrintInfo `json:"print"`
 }
 
 // PatternTarget ties a measured sine pattern to its chart target.

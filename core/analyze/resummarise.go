@@ -2,6 +2,7 @@ package analyze
 
 import (
 	"fmt"
+	"sagitta/core/chart"
 	"slices"
 	"strings"
 
@@ -80,6 +81,13 @@ func Resummarise(img *Image, s Settings) (out *Image, err error) {
 	}
 	if out.CentrePx != img.CentrePx && len(img.Stars) > 0 {
 		again = append(again, note.New(note.AgainCentreStars, "the optical centre moved and the photo has sine stars, measured along and across the radius from the old centre"))
+	}
+	if img.Chart != nil && (len(img.Stars) > 0 || len(img.Gratings) > 0) {
+		if code, err := chart.ParseCode(img.Chart.Code); err == nil {
+			if p := printInfo(s, code); p.DotsPerUnit != img.Chart.Print.DotsPerUnit {
+				again = append(again, note.New(note.AgainPrint, fmt.Sprintf("its sine patterns were cut at the limit of a print of %.0f dpi, chart %.0f mm, not %.0f dpi, %.0f mm", img.Chart.Print.DPI, img.Chart.Print.ChartMM, p.DPI, p.ChartMM)))
+			}
+		}
 	}
 	if len(again) > 0 {
 		e := &MeasureAgainError{}
@@ -202,7 +210,8 @@ func (img *Image) validate() error {
 			}
 		}
 	}
-	if len(img.Gratings) > 0 && refs != 1 {
+	// One reference per photo, or one per direction of a recognised chart.
+	if len(img.Gratings) > 0 && (refs < 1 || refs > 1 && img.Chart == nil) {
 		return ResultError(fmt.Sprintf("%d reference gratings", refs))
 	}
 	return nil

@@ -99,6 +99,46 @@ type Design struct {
 	Stars      []Star
 	Gratings   []Grating
 	Marks      []Mark
+	Wedge      Wedge
+}
+
+// Wedge is the chart's step wedge: WedgeCols x WedgeRows grey patches of
+// known reflectance relative to the paper in the cell left of the centre,
+// for fitting the photo's tone curve (core/analyze, tone.go). Patch k (in
+// reading order) holds Steps[k]; patches touch, so only their middles are
+// read.
+type Wedge struct {
+	X, Y, W, H float64 // the block's centre and size, chart units
+	Steps      []float64
+}
+
+// Wedge layout: a block of wedgeOfCell of the cell (as wide as a grating block), 4 x 3 patches, 12
+// reflectances evenly spaced in log from WedgeHi to WedgeLo. The darkest is
+// above the few per cent black ink reflects on matte paper (from memory),
+// so a printer reaches every step; the lightest is below the paper.
+const (
+	WedgeCols   = 4
+	WedgeRows   = 3
+	WedgeHi     = 0.9
+	WedgeLo     = 0.06
+	wedgeOfCell = 0.72
+)
+
+// Patch returns patch k's centre and size, chart units.
+func (w Wedge) Patch(k int) (x, y, pw, ph float64) {
+	pw, ph = w.W/WedgeCols, w.H/WedgeRows
+	i, j := k%WedgeCols, k/WedgeCols
+	return w.X - w.W/2 + (float64(i)+0.5)*pw, w.Y - w.H/2 + (float64(j)+0.5)*ph, pw, ph
+}
+
+// wedgeSteps returns the designed reflectances.
+func wedgeSteps() []float64 {
+	n := WedgeCols * WedgeRows
+	out := make([]float64, n)
+	for k := range out {
+		out[k] = WedgeHi * math.Pow(WedgeLo/WedgeHi, float64(k)/float64(n-1))
+	}
+	return out
 }
 
 // Square is a dark square target. Its four edges are numbered 1 to 4: edge 1
@@ -220,6 +260,14 @@ func NewDesign(c Code) (*Design, error) {
 				X: x0 + sx*(pw+gratingGap)/2, Y: y0 + sy*(ph+gratingGap)/2, W: pw, H: ph,
 			})
 		}
+	}
+	// The step wedge left of the centre: the part of the frame least
+	// shaded by the lens's fall-off after the centre itself.
+	{
+		i, j := ic-1, jc
+		used[[2]int{i, j}] = true
+		x, y := centre(i, j)
+		d.Wedge = Wedge{X: x, Y: y, W: wedgeOfCell * cell, H: wedgeOfCell * cell * WedgeRows / WedgeCols, Steps: wedgeSteps()}
 	}
 	// Squares in every other cell, reading order.
 	for j := 0; j < d.Rows; j++ {

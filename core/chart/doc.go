@@ -13,7 +13,7 @@
 // the long side, so that there is a centre cell:
 //
 //   - dark squares, one per cell, from next to the centre to the corners
-//     (70 on a 3:2 chart), each turned so that its edges run along and
+//     (69 on a 3:2 chart), each turned so that its edges run along and
 //     across the radius from the chart's centre (within 5 degrees) while
 //     their slant from the pixel axes of a camera square to the chart is at
 //     least 5 degrees (about 5 degrees is the usual choice near the axes;
@@ -32,6 +32,19 @@
 //     reference at 96 cycles per chart short side and 240, 360 and 720,
 //     which on a 24 mm tall sensor filled by the chart are 4, 10, 15 and 30
 //     lp/mm;
+//   - a step wedge in the cell left of the centre (the part of the frame
+//     least shaded by the lens's fall-off after the centre, which holds a
+//     star): 4 x 3 touching grey patches, as wide as a grating block (0.72
+//     of the cell), of reflectance 0.90 down to 0.06 of the paper in 12
+//     steps evenly spaced in log (Design.Wedge; the darkest stays above
+//     the few per cent black ink reflects on matte paper, from memory). The
+//     analysis reads the middle of each patch and the paper above and below
+//     the block through the recognised pose and fits the photo's tone curve
+//     from them before measuring anything (core/analyze, tone.go); edges
+//     found on it are not records. That cell holds no square, so a 3:2 chart
+//     has 69; the block keeps 0.049 chart units from every square and
+//     0.0364 from every sine pattern and mark (wedge_test.go). Older prints
+//     without it are recognised as before and the tone curve is assumed;
 //   - eight recognition marks on grid corners (mark.go): a dark disc inside
 //     a ring of 16 sectors that spells a word of a 64-word ring code, giving
 //     the chart's design (aspect and orientation) and the mark's index, and
@@ -60,7 +73,10 @@
 // round(side / 25.4 x dpi) pixels, and a pHYs chunk of round(dpi / 0.0254)
 // pixels per metre, ISO/IEC 15948). The sine stars and gratings are images
 // at the printer's resolution on the page's own dot grid in every format
-// (pattern.go). Greys are linear reflectances written as sRGB codes
+// (pattern.go); a star fades to grey where a cycle spans fewer than
+// PrintLimitDots dots, so the analysis cuts star records there (the
+// print's dots per photo pixel from the pose and the print's resolution
+// and size). The grey steps are vector rectangles. Greys are linear reflectances written as sRGB codes
 // (paint.go, which also explains why the print's unknown tone curve does not
 // matter to the analysis).
 //

@@ -53,10 +53,10 @@ const (
 	rulerWidthMM   = 112 // rulers plus their unit labels
 	textSizeMM     = 2.4
 	lineStepMM     = 3.5
-	stripGapMM     = 6   // between the chart frame and the strip
-	cornerMarkMM   = 6   // arm length of the frame's corner marks
-	cornerOffMM    = 1.5 // corner marks sit this far outside the frame
-	cornerWidthMM  = 0.3
+	stripGapMM     = 6 // between the chart frame and the strip
+	cornerMarkMM   = CornerMarkMM
+	cornerOffMM    = CornerOffMM
+	cornerWidthMM  = CornerWidthMM
 	minChartHeight = 60 // smallest chart short side that is still useful, mm
 )
 
@@ -176,6 +176,16 @@ func (l *Layout) DarkReflectance() float64 {
 	}
 	return 0.25
 }
+
+// The frame's corner marks (paint.go): at each corner of the frame an L of
+// lines CornerWidthMM wide whose vertex lies CornerOffMM (plus half the
+// width) outside the corner along both axes, its arms CornerMarkMM long
+// running back along the frame's sides.
+const (
+	CornerMarkMM  = 6
+	CornerOffMM   = 1.5
+	CornerWidthMM = 0.3
+)
 
 // printerDPIs are printer resolutions in common use, ascending (from
 // memory: the 300/600/1200 and 360/720/1440/2880 families).

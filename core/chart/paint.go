@@ -66,6 +66,17 @@ func (l *Layout) Draw(c draw.Canvas) {
 	}
 	draw.EndGroup(c)
 
+	draw.BeginGroup(c, "wedge", "grey steps for the tone curve")
+	for k, r := range d.Wedge.Steps {
+		x, y, pw, ph := d.Wedge.Patch(k)
+		p.Reset()
+		x0, y0 := xy(x-pw/2, y-ph/2)
+		x1, y1 := xy(x+pw/2, y+ph/2)
+		p.Polygon(x0, y0, x1, y0, x1, y1, x0, y1)
+		c.Path(&p, draw.Style{Fill: color.Gray{Y: printCode(r)}})
+	}
+	draw.EndGroup(c)
+
 	draw.BeginGroup(c, "sine", "sine stars and gratings")
 	for _, s := range d.Stars {
 		l.drawPattern(c, starPattern(l, s))

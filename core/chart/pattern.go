@@ -23,10 +23,16 @@ type pattern struct {
 	value func(u, v, pix float64) float64
 }
 
-// printLimitDots is the fewest printer dots per cycle a sine is printed
+// PrintLimitDots is the fewest printer dots per cycle a sine is printed
 // with: finer detail (near a star's centre) would alias into false
-// patterns on the dot grid, so it fades to the mean grey instead.
-const printLimitDots = 4
+// patterns on the dot grid, so it fades to the mean grey instead. A star
+// has no modulation inside the radius where a cycle spans PrintLimitDots
+// dots and full modulation from StarFadeEnd times that radius on.
+const (
+	PrintLimitDots = 4
+	StarFadeEnd    = 1.25
+	printLimitDots = PrintLimitDots
+)
 
 // starPattern returns star s as a pattern for layout l. Reflectance runs
 // from the dark level to the paper's white: mean (1 + dark) / 2, amplitude
@@ -50,7 +56,7 @@ func starPattern(l *Layout, s Star) pattern {
 					sum++
 					continue
 				}
-				t := math.Min(math.Max((r-r0)/(0.25*r0), 0), 1)
+				t := math.Min(math.Max((r-r0)/((StarFadeEnd-1)*r0), 0), 1)
 				sum += mean + amp*t*math.Cos(n*math.Atan2(y, x))
 			}
 			return sum / 4

@@ -9,7 +9,7 @@ import (
 
 // Hit says what part of the chart lies under an image point.
 type Hit struct {
-	Kind  string  // "square", "star", "grating", "mark", "chart" (blank paper inside the frame) or "outside"
+	Kind  string  // "square", "star", "grating", "mark", "wedge", "chart" (blank paper inside the frame) or "outside"
 	ID    string  // target id (squares, stars, gratings)
 	Edge  int     // square edge 1..4 (see Square), 0 otherwise
 	X, Y  float64 // the target's centre, chart units
@@ -22,6 +22,7 @@ const (
 	HitStar    = "star"
 	HitGrating = "grating"
 	HitMark    = "mark"
+	HitWedge   = "wedge"
 	HitChart   = "chart"
 	HitOutside = "outside"
 )
@@ -60,6 +61,9 @@ func (ps *Pose) Locate(x, y float64) Hit {
 			return Hit{Kind: HitGrating, ID: g.ID, X: g.X, Y: g.Y, Field: d.Field(g.X, g.Y)}
 		}
 	}
+	if w := d.Wedge; w.W > 0 && math.Abs(u-w.X) <= w.W/2+wedgeTol && math.Abs(v-w.Y) <= w.H/2+wedgeTol {
+		return Hit{Kind: HitWedge, ID: "wedge", X: w.X, Y: w.Y, Field: d.Field(w.X, w.Y)}
+	}
 	for _, m := range d.Marks {
 		if math.Hypot(u-m.X, v-m.Y) <= m.R {
 			return Hit{Kind: HitMark, ID: fmt.Sprintf("mark%d", m.Index), X: m.X, Y: m.Y, Field: d.Field(m.X, m.Y)}
@@ -67,6 +71,10 @@ func (ps *Pose) Locate(x, y float64) Hit {
 	}
 	return Hit{Kind: HitChart}
 }
+
+// wedgeTol widens the step wedge's block for Locate, chart units: an edge
+// found along its border is centred on it, within the blur.
+const wedgeTol = 0.01
 
 // InFrame reports whether the chart point (x, y) maps inside the photo with
 // margin px to spare.
@@ -152,10 +160,10 @@ func (ps *Pose) Check(focalPx float64) Setup {
 		s.WarningCodes = append(s.WarningCodes, string(c))
 	}
 	if s.CoverPct < MinCoverPct {
-		warn(note.SetupCover, "The chart fills only %.0f %% of the frame, so the frame's edges and corners are not measured: move closer or zoom in until the chart's corner marks reach the corners of the frame.", s.CoverPct)
+		warn(note.SetupCover, "The chart fills only %s %% of the frame, so the frame's edges and corners are not measured: move closer or zoom in until the chart's corner marks reach the corners of the frame.", pastLimit(s.CoverPct, MinCoverPct))
 	}
 	if s.VisiblePct < MinVisiblePct {
-		warn(note.SetupCutOff, "%.0f %% of the chart lies outside the frame, so targets near its edges are cut off: step back or zoom out until the corner marks are just inside the frame.", 100-s.VisiblePct)
+		warn(note.SetupCutOff, "%s %% of the chart lies outside the frame, so targets near its edges are cut off: step back or zoom out until the corner marks are just inside the frame.", pastLimit(100-s.VisiblePct, 100-MinVisiblePct))
 	}
 	if math.Abs(s.RotationDeg) > MaxRotationDeg {
 		side := "clockwise"
@@ -183,9 +191,23 @@ func (ps *Pose) Check(focalPx float64) Setup {
 		warn(note.SetupTilted, "The camera is tilted against the chart%s: its %s appears %.1f %% larger than its %s, so the %s is nearer. Tilt the camera (or the chart) until both match; a tilted chart is sharp only along one line.", tilt, near, math.Abs(s.KeystoneTBPct), far, near)
 	}
 	if s.OffCentrePct > MaxOffCentrePct {
-		warn(note.SetupOffCentre, "The chart's centre is %.0f %% of the frame's height away from the frame's centre: aim the camera at the chart's centre.", s.OffCentrePct)
+		warn(note.SetupOffCentre, "The chart's centre is %s %% of the frame's height away from the frame's centre: aim the camera at the chart's centre.", pastLimit(s.OffCentrePct, MaxOffCentrePct))
 	}
 	return s
+}
+
+// pastLimit writes a percentage v that failed a check against limit so that
+// the figure shown is on the same side of the limit as v: a whole number
+// when rounding keeps it there, else one decimal rounded away from the limit
+// (84.6 against a minimum of 85 reads "84.6", not "85").
+func pastLimit(v, limit float64) string {
+	if r := math.Round(v); (v < limit) == (r < limit) && r != limit {
+		return fmt.Sprintf("%.0f", r)
+	}
+	if v < limit {
+		return fmt.Sprintf("%.1f", math.Floor(v*10)/10)
+	}
+	return fmt.Sprintf("%.1f", math.Ceil(v*10)/10)
 }
 
 // tiltDeg returns the angle between the chart's normal and the optical
@@ -251,4 +273,33 @@ func clipRect(p [][2]float64, w, h float64) [][2]float64 {
 		p = out
 	}
 	return p
+}
+
+// OnCornerMark reports whether the image point (x, y) px lies on or next to
+// one of the frame's corner marks (layout.go), outside the chart frame, for
+// a chart printed chartMM mm along its short side: within 2 mm of the L's
+// outline, beyond the frame on at least one axis. Nothing there is a
+// target: a line 0.3 mm wide blurs into a faint, narrow bar whose "edge"
+// would read a contrast near 1 and an MTF above 1.
+func (ps *Pose) OnCornerMark(x, y, chartMM float64) bool {
+	if !(chartMM > 0) {
+		return false
+	}
+	d := ps.Design
+	u, v := ps.Inv.Apply(x, y)
+	if math.IsNaN(u) || math.IsNaN(v) {
+		return false
+	}
+	const slack = 2.0 // mm
+	for _, s := range [4][2]float64{{-1, -1}, {1, -1}, {1, 1}, {-1, 1}} {
+		// Distances outward from the frame's corner, mm.
+		du := s[0] * (u - s[0]*d.W/2) * chartMM
+		dv := s[1] * (v - s[1]*d.H/2) * chartMM
+		far := CornerOffMM + CornerWidthMM + slack
+		near := -(CornerMarkMM + slack)
+		if du <= far && dv <= far && du >= near && dv >= near && (du > 0 || dv > 0) {
+			return true
+		}
+	}
+	return false
 }

@@ -114,6 +114,9 @@ const (
 	// AgainCentreStars: the optical centre moved and the photo has sine
 	// stars, measured along and across the radius from the old centre.
 	AgainCentreStars Code = "centre-moved-stars"
+	// AgainPrint: another print (dpi or chart size) was given, and the
+	// photo's sine patterns were cut at the old print's limit.
+	AgainPrint Code = "print-changed"
 )
 
 // Where the pixel pitch came from, in Image.pitch_from (pitch_source words
@@ -167,4 +170,17 @@ const (
 	// RawMosaicPlanes: the edges were measured on the mosaic's colour
 	// planes (how, and in which units).
 	RawMosaicPlanes Code = "raw-mosaic-planes"
+)
+
+// Tone warnings, in Image.warnings (core/analyze, tone.go).
+const (
+	// ToneCurve: the tone curve read from the chart's grey steps differs
+	// from the decoding tone; the fitted curve was used.
+	ToneCurve Code = "tone-curve"
+	// ToneAssumed: a camera JPEG without Sagitta's chart: its tone curve is
+	// assumed to be sRGB.
+	ToneAssumed Code = "tone-assumed"
+	// ToneStepsUnread: the chart's grey steps could not be used to fit the
+	// tone curve (why in the text).
+	ToneStepsUnread Code = "tone-steps-unread"
 )

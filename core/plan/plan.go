@@ -173,6 +173,14 @@ func SensorNames() string {
 // memory.
 var inkSpreadUM = map[string]float64{"photo": 10, "plain": 25}
 
+// InkSpreadUM returns the ink spread (standard deviation on paper, um) the
+// planner assumes for a paper surface ("photo" or "plain"; from memory, see
+// the package doc), and whether the surface is known.
+func InkSpreadUM(surface string) (float64, bool) {
+	s, ok := inkSpreadUM[surface]
+	return s, ok
+}
+
 // Compute makes the plan. Errors are of type Error, or chart.OptionError for
 // the chart's options, in plain words.
 func Compute(opt Options) (Plan, error) {

@@ -39,6 +39,8 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 		turned   = fs.Float64("turned", 0, "two photos of one set-up, the camera turned about the lens axis between them by this many degrees (90, 180, 270; or -1: read the turn from the chart): split a softer side into lens and set-up")
 	)
 	fs.Float64Var(&s.PitchUM, "pitch-um", 0, "pixel pitch in micrometres (else from --sensor or the photo's Exif)")
+	fs.Float64Var(&s.PrintDPI, "print-dpi", 0, "printer resolution the chart was printed at, dots per inch (default 600, as the chart's text block says)")
+	fs.Float64Var(&s.ChartMM, "chart-mm", 0, "the printed chart's short side in mm, as its text block says (default: the A4 sheet's)")
 	fs.StringVar(&s.Tone, "tone", "", "tone curve of the files: srgb, linear or gamma:G (default: sRGB unless the file says linear)")
 	fs.StringVar(&s.Method, "method", "", "edge estimator: refined (default) or iso (the published ISO 12233 procedure)")
 	fs.Usage = func() {

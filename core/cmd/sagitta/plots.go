@@ -44,6 +44,9 @@ func writePlots(dir string, res analyze.Result) error {
 				figs = append(figs, namedFigure{"target-corner", plot.Target(plot.TargetFromMeasurement(img.Measurements[n-1], img), plot.TargetOptions{})})
 			}
 		}
+		if img.ToneFit != nil {
+			figs = append(figs, namedFigure{"tone", plot.ToneCurve(img.ToneFit, img.File)})
+		}
 		for _, fg := range figs {
 			if err := writeFigure(dir, name+"-"+fg.suffix, fg.f); err != nil {
 				return err

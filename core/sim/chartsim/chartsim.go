@@ -3,11 +3,13 @@
 // camera and turns its targets into a simcam Scene, for tests, benchmarks
 // and demo photos of the chart.
 //
-// The simulated chart is an ideal print: the squares and marks have sharp
-// edges, and the stars keep their full modulation right to the centre,
-// which a real print fades to grey where the printer cannot resolve it
-// (see core/chart's starPattern); the rulers, text and corner marks outside
-// the chart frame are left out.
+// By default the simulated chart is an ideal print: the squares and marks
+// have sharp edges, and the stars keep their full modulation right to the
+// centre. Print.DPI and Print.ChartMM make it a print as core/chart prints
+// it (see Print), with the frame's corner marks just outside the frame: the stars fade to grey where a cycle spans fewer than
+// chart.PrintLimitDots printer dots, the gratings carry their dots' own
+// attenuation, and every part is blurred by the print (PrintedLens). The
+// rulers and text below the chart frame are left out.
 //
 // Camera model: the pinhole camera of R. Hartley and A. Zisserman, Multiple
 // View Geometry in Computer Vision, 2nd ed. (2003), section 6.1: a chart
@@ -21,6 +23,7 @@ import (
 	"math"
 
 	"sagitta/core/chart"
+	"sagitta/core/plan"
 	"sagitta/core/sim/simcam"
 )
 
@@ -97,6 +100,81 @@ type Print struct {
 	// the 4:1 chart); Ink is that of black ink, used by the marks (0 means
 	// 0.04, from memory: black ink on matte paper reflects a few per cent).
 	Dark, Ink float64
+	// DPI is the printer's resolution and ChartMM the printed chart's
+	// short side (mm, as the sheet's text block states it): together the
+	// printer dots per chart unit. 0 (either) means an ideal print.
+	DPI, ChartMM float64
+	// InkSpreadUM is the ink's spread on paper (standard deviation, um; 0
+	// means core/plan's "plain" paper value, from memory).
+	InkSpreadUM float64
+}
+
+// DotsPerUnit returns the printer dots per chart unit, or 0 for an ideal
+// print.
+func (p Print) DotsPerUnit() float64 {
+	if p.DPI <= 0 || p.ChartMM <= 0 {
+		return 0
+	}
+	return p.DPI / 25.4 * p.ChartMM
+}
+
+// BlurUnits returns the print's blur, a Gaussian's standard deviation in
+// chart units: core/plan's print model, the dot's box (variance p^2/12) and
+// the ink's spread added as variances. 0 for an ideal print.
+func (p Print) BlurUnits() float64 {
+	dpu := p.DotsPerUnit()
+	if dpu == 0 {
+		return 0
+	}
+	spread := p.InkSpreadUM
+	if spread == 0 {
+		spread, _ = plan.InkSpreadUM("plain")
+	}
+	s := spread / 1000 / p.ChartMM // chart units
+	dot := 1 / dpu
+	return math.Sqrt(dot*dot/12 + s*s)
+}
+
+// PrintedLens returns lens l followed by the print's blur seen through
+// homography h: an isotropic Gaussian of BlurUnits times the view's scale
+// at the chart's centre (px per chart unit), the same for edges and sine
+// patterns. The print's blur comes before the lens, but blurs cascade in
+// any order (Goodman ch. 2), so simcam.TrueMTF of the returned lens is
+// the truth of a printed chart: lens x print x pixel. A perspective view
+// changes the scale across the chart; the blur is taken at its centre.
+// l must be a simcam.Fixed or simcam.FieldLens (nil is the ideal lens).
+func PrintedLens(l simcam.Lens, h chart.Homography, pr Print) simcam.Lens {
+	sc, _ := similarity(h, 0, 0)
+	sigma := pr.BlurUnits() * sc
+	if sigma == 0 {
+		return l
+	}
+	g := simcam.Gaussian{Sigma1: sigma, Sigma2: sigma}
+	switch q := l.(type) {
+	case nil:
+		return simcam.Fixed{PSF: g}
+	case simcam.Fixed:
+		if q.PSF == nil {
+			return simcam.Fixed{PSF: g}
+		}
+		return simcam.Fixed{PSF: simcam.Cascade{q.PSF, g}}
+	case simcam.FieldLens:
+		q.ExtraSigmaPx = math.Hypot(q.ExtraSigmaPx, sigma)
+		return q
+	}
+	panic("chartsim: PrintedLens needs a simcam.Fixed or simcam.FieldLens")
+}
+
+// PrintLimitCyPx returns the highest frequency (cycles/px along the
+// pattern) a star of the print holds at full modulation, seen at scale
+// pxPerUnit: a cycle spans chart.PrintLimitDots * chart.StarFadeEnd dots
+// there. +Inf for an ideal print.
+func (p Print) PrintLimitCyPx(pxPerUnit float64) float64 {
+	dpu := p.DotsPerUnit()
+	if dpu == 0 {
+		return math.Inf(1)
+	}
+	return dpu / pxPerUnit / (chart.PrintLimitDots * chart.StarFadeEnd)
 }
 
 func (p Print) withDefaults() Print {
@@ -138,7 +216,30 @@ func Scene(d *chart.Design, h chart.Homography, pr Print) simcam.Scene {
 		}
 		s.Polygons = append(s.Polygons, simcam.Polygon{Pts: pts, Level: pr.Paper * pr.Dark})
 	}
+	// The step wedge: patches of their designed reflectance (a printer that
+	// honours sRGB prints them so: core/chart's paint.go).
+	for k, r := range d.Wedge.Steps {
+		x, y, pw, ph := d.Wedge.Patch(k)
+		s.Polygons = append(s.Polygons, simcam.Polygon{Pts: [][2]float64{
+			mp(x-pw/2, y-ph/2), mp(x+pw/2, y-ph/2), mp(x+pw/2, y+ph/2), mp(x-pw/2, y+ph/2)}, Level: pr.Paper * r})
+	}
 	ink := pr.Paper * pr.Ink
+	if pr.ChartMM > 0 {
+		// The frame's corner marks (chart's layout): two arms of black
+		// ink meeting outside each corner.
+		mm := 1 / pr.ChartMM // chart units per mm
+		off := (chart.CornerOffMM + chart.CornerWidthMM/2) * mm
+		hw, arm := chart.CornerWidthMM/2*mm, chart.CornerMarkMM*mm
+		rect := func(x0, y0, x1, y1 float64) simcam.Polygon {
+			return simcam.Polygon{Pts: [][2]float64{mp(x0, y0), mp(x1, y0), mp(x1, y1), mp(x0, y1)}, Level: ink}
+		}
+		for _, sg := range [4][2]float64{{-1, -1}, {1, -1}, {1, 1}, {-1, 1}} {
+			vx, vy := sg[0]*(d.W/2+off), sg[1]*(d.H/2+off)
+			s.Polygons = append(s.Polygons,
+				rect(math.Min(vx, vx-sg[0]*arm), vy-hw, math.Max(vx, vx-sg[0]*arm), vy+hw),
+				rect(vx-hw, math.Min(vy, vy-sg[1]*arm), vx+hw, math.Max(vy, vy-sg[1]*arm)))
+		}
+	}
 	for _, m := range d.Marks {
 		sc, _ := similarity(h, m.X, m.Y)
 		// Arc step with a chord sagitta of arcTolPx at the ring's outer
@@ -165,11 +266,18 @@ func Scene(d *chart.Design, h chart.Homography, pr Print) simcam.Scene {
 		}
 	}
 	mean, amp := pr.Paper*(1+pr.Dark)/2, pr.Paper*(1-pr.Dark)/2
+	dpu := pr.DotsPerUnit()
 	for _, st := range d.Stars {
 		c := mp(st.X, st.Y)
 		sc, rot := similarity(h, st.X, st.Y)
+		fade := 0.0
+		if dpu > 0 {
+			// chart's starPattern: no modulation inside the radius where a
+			// cycle spans PrintLimitDots dots.
+			fade = chart.PrintLimitDots * float64(st.Cycles) / dpu / (2 * math.Pi) * sc
+		}
 		s.Stars = append(s.Stars, simcam.Star{X: c[0], Y: c[1], Radius: st.Radius * sc, Cycles: st.Cycles,
-			Mean: mean, Amplitude: amp, PhaseDeg: -float64(st.Cycles) * rot})
+			Mean: mean, Amplitude: amp, PhaseDeg: -float64(st.Cycles) * rot, FadePx: fade})
 	}
 	for _, g := range d.Gratings {
 		c := mp(g.X, g.Y)
@@ -184,10 +292,23 @@ func Scene(d *chart.Design, h chart.Homography, pr Print) simcam.Scene {
 		f := g.FreqPerUnit / sc
 		sd, cd := math.Sincos(dir * math.Pi / 180)
 		phase := -360 * f * (c[0]*cd + c[1]*sd)
+		ga := amp
+		if dpu > 0 {
+			// chart's gratingPattern: each dot holds the sine's mean over
+			// the dot, sinc(f p) times its amplitude.
+			ga *= sinc(g.FreqPerUnit / dpu)
+		}
 		s.Gratings = append(s.Gratings, simcam.Grating{Corners: corners, FreqCyPx: f, DirectionDeg: dir,
-			Mean: mean, Amplitude: amp, PhaseDeg: math.Mod(phase, 360)})
+			Mean: mean, Amplitude: ga, PhaseDeg: math.Mod(phase, 360)})
 	}
 	return s
+}
+
+func sinc(x float64) float64 {
+	if x == 0 {
+		return 1
+	}
+	return math.Sin(math.Pi*x) / (math.Pi * x)
 }
 
 // similarity returns the scale (px per chart unit, the square root of the

@@ -53,7 +53,11 @@ type Camera struct {
 	Colour      bool         // write RGB with equal channels (else grey)
 	JPEGQuality int          // 0 = lossless PNG from Encode; 1..100 = JPEG
 	Sharpen     *UnsharpMask // optional in-camera sharpening of encoded values
-	ExifAPP1    []byte       // optional "Exif\0\0"+TIFF payload, APP1 after SOI in JPEG output
+	// Curve, if set, is a camera's own tone curve applied to every encoded
+	// value in [0, 1] after the transfer function and before sharpening
+	// (an S-curve, say); it should map [0, 1] onto [0, 1] monotonically.
+	Curve    func(v float64) float64
+	ExifAPP1 []byte // optional "Exif\0\0"+TIFF payload, APP1 after SOI in JPEG output
 }
 
 // MaxPixels is the largest frame (W * H) a Camera renders.
@@ -119,6 +123,9 @@ func validLens(l Lens) error {
 func validField(f *FieldLens) error {
 	if !finite(f.PitchUM) || f.PitchUM <= 0 {
 		return invalidf("field lens pitch %v um must be > 0", f.PitchUM)
+	}
+	if !finite(f.ExtraSigmaPx) || f.ExtraSigmaPx < 0 {
+		return invalidf("field lens extra blur %v px must be finite and >= 0", f.ExtraSigmaPx)
 	}
 	for _, v := range append(append([]float64{f.CentreX, f.CentreY, f.TiltPerMM, f.TiltDeg}, f.SigmaT...), f.SigmaS...) {
 		if !finite(v) {

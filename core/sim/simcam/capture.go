@@ -123,6 +123,9 @@ func (c *Camera) encodeImage(p *plane.Plane) image.Image {
 		if encode {
 			x = srgb.FromLinear(x)
 		}
+		if c.Curve != nil {
+			x = math.Min(math.Max(c.Curve(x), 0), 1)
+		}
 		v[i] = x
 	}
 	if s := c.Sharpen; s != nil && s.Amount > 0 {

@@ -46,6 +46,12 @@ type FieldLens struct {
 	TiltPerMM        float64   // relative width change per mm along TiltDeg
 	TiltDeg          float64   // direction of increasing softness, degrees
 	Diffraction      *Airy     // optional diffraction, cascaded with the Gaussian
+	// ExtraSigmaPx is an isotropic Gaussian of this standard deviation
+	// (px) cascaded everywhere, a blur that does not come from the lens
+	// (a printed chart's ink spread and dot size, say: core/sim/chartsim).
+	// Gaussians cascade by adding their covariances (Goodman ch. 2), so
+	// it adds ExtraSigmaPx^2 to both widths' squares.
+	ExtraSigmaPx float64
 }
 
 // HeightMM returns the image height of (x, y) px: its distance from the
@@ -81,6 +87,9 @@ func (l FieldLens) Sigmas(x, y float64) (sigmaT, sigmaS float64) {
 // gaussian returns the Gaussian part of the PSF at (x, y).
 func (l FieldLens) gaussian(x, y float64) Gaussian {
 	st, ss := l.Sigmas(x, y)
+	if e := l.ExtraSigmaPx; e > 0 {
+		st, ss = math.Sqrt(st*st+e*e), math.Sqrt(ss*ss+e*e)
+	}
 	return Gaussian{Sigma1: st, Sigma2: ss, AngleDeg: l.RadialDeg(x, y)}
 }
 
@@ -104,7 +113,8 @@ func (l *FieldLens) covAt(x, y float64) cov {
 	if r > 0 {
 		ux, uy = dx/r, dy/r
 	}
-	a, b := st*st, ss*ss
+	e2 := l.ExtraSigmaPx * l.ExtraSigmaPx
+	a, b := st*st+e2, ss*ss+e2
 	return cov{a*ux*ux + b*uy*uy, (a - b) * ux * uy, a*uy*uy + b*ux*ux}
 }
 

@@ -56,7 +56,11 @@ func starPattern(s Star) pattern {
 			}
 			lv := s.Mean
 			if r > 0 {
-				lv += s.Amplitude * math.Cos(n*math.Atan2(dy, dx)+ph)
+				a := s.Amplitude
+				if s.FadePx > 0 {
+					a *= math.Min(math.Max((r-s.FadePx)/(0.25*s.FadePx), 0), 1)
+				}
+				lv += a * math.Cos(n*math.Atan2(dy, dx)+ph)
 			}
 			return (lv - bg) * cov
 		},

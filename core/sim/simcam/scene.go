@@ -38,11 +38,17 @@ type Polygon struct {
 // level(r, phi) = Mean + Amplitude * cos(Cycles * phi + PhaseDeg), phi the
 // angle from +x towards +y. At radius r its local frequency is
 // Cycles / (2 pi r) cycles/pixel.
+//
+// FadePx models a printed star whose printer cannot resolve its centre:
+// for r < FadePx the level is Mean, and the amplitude rises linearly from 0
+// at FadePx to full at 1.25 FadePx (core/chart's starPattern prints its
+// stars so). 0 keeps the full amplitude to the centre.
 type Star struct {
 	X, Y, Radius    float64
 	Cycles          int
 	Mean, Amplitude float64
 	PhaseDeg        float64
+	FadePx          float64
 }
 
 // Grating is a sine grating filling the rectangle Corners (vertices in
@@ -124,6 +130,9 @@ func (s Scene) Validate() error {
 		}
 		if st.Cycles < 1 {
 			return invalidf("star %d has %d cycles, need at least 1", i, st.Cycles)
+		}
+		if !finite(st.FadePx) || st.FadePx < 0 || st.FadePx > st.Radius {
+			return invalidf("star %d fade radius %v px out of range [0, radius]", i, st.FadePx)
 		}
 	}
 	for i, g := range s.Gratings {
