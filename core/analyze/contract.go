@@ -34,7 +34,7 @@ type Image struct {
 	Height      int        `json:"height"`
 	PitchUM     float64    `json:"pitch_um"`
 	PitchSource string     `json:"pitch_source"` // "user", "sensor size" or "Exif focal-plane resolution"
-	PitchFrom   string     `json:"pitch_from"`   // its code: "user", "sensor", "exif" or "fallback" (core/note)
+	PitchFrom   string     `json:"pitch_from"`   // its code: "user", "sensor" or "exif" (core/note)
 	CentrePx    [2]float64 `json:"center_px"`
 	CornerMM    float64    `json:"corner_mm"` // largest image height in the frame, mm
 	Format      string     `json:"format"`
