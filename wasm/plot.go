@@ -9,7 +9,6 @@ import (
 	"syscall/js"
 
 	"sagitta/core/analyze"
-	"sagitta/core/field"
 	"sagitta/core/plot"
 	"sagitta/core/series"
 )
@@ -30,7 +29,7 @@ type plotOptions struct {
 //	sagittaPlot(kind, data, options) -> {svg string | png Uint8Array, table {caption, columns, rows}}
 //
 // kind and data (JSON): "field", "astigmatism", "map": a photo's summary
-// (field.Summary); "compare": [{label, summary}, ...]; "target": {image
+// (analyze.Summary, converted to field.Summary for core/plot); "compare": [{label, summary}, ...]; "target": {image
 // (analyze.Image), id (a measurement id)}; "series": an aperture series
 // (series.Aperture, from sagittaSeries).
 func plotJS(args []js.Value) (any, error) {
@@ -47,10 +46,11 @@ func plotJS(args []js.Value) (any, error) {
 	var fig *plot.Figure
 	switch kind := args[0].String(); kind {
 	case "field", "astigmatism", "map":
-		var s field.Summary
-		if err := json.Unmarshal(data, &s); err != nil {
+		var sj analyze.Summary
+		if err := json.Unmarshal(data, &sj); err != nil {
 			return nil, fmt.Errorf("plot %s: %v", kind, err)
 		}
+		s := *sj.Field()
 		fo := plot.FieldOptions{Label: opt.Label, Band: opt.Band}
 		switch kind {
 		case "field":
@@ -62,8 +62,8 @@ func plotJS(args []js.Value) (any, error) {
 		}
 	case "compare":
 		var in []struct {
-			Label   string         `json:"label"`
-			Summary *field.Summary `json:"summary"`
+			Label   string           `json:"label"`
+			Summary *analyze.Summary `json:"summary"`
 		}
 		if err := json.Unmarshal(data, &in); err != nil {
 			return nil, fmt.Errorf("plot compare: %v", err)
@@ -72,7 +72,11 @@ func plotJS(args []js.Value) (any, error) {
 		// in the legend; it draws no curve.
 		photos := make([]plot.Photo, 0, len(in))
 		for _, p := range in {
-			photos = append(photos, plot.Photo{Label: p.Label, Summary: p.Summary})
+			if p.Summary != nil {
+				photos = append(photos, plot.Photo{Label: p.Label, Summary: p.Summary.Field()})
+			} else {
+				photos = append(photos, plot.Photo{Label: p.Label})
+			}
 		}
 		fig = plot.Compare(photos, plot.CompareOptions{FreqsLPMM: opt.FreqsLPMM, Band: opt.Band})
 	case "series":

@@ -251,7 +251,7 @@ func pitch(s Settings, widthPx int, tags exif.Tags) (float64, string, note.Code,
 		return p, "Exif focal-plane resolution", note.PitchExif, nil
 	}
 	if s.FallbackSensorMM[0] > 0 {
-		return s.FallbackSensorMM[0] * 1000 / float64(widthPx), "sensor size", note.PitchFallback, nil
+		return s.FallbackSensorMM[0] * 1000 / float64(widthPx), "sensor size", note.PitchSensor, nil
 	}
 	return 0, "", "", errors.New("analyze: the pixel pitch is unknown: give it in um, or the sensor size in mm")
 }

@@ -4,12 +4,12 @@ package analyze
 // (`sagitta analyze --json`), the page receives from the core, and
 // Resummarise reads back, with the key of each field beside it. README's
 // section "The JSON contract" points here. The domain packages (edge,
-// sine, exif, chart) keep their own structs without JSON tags; this file
+// sine, exif, chart, field) keep their own structs without JSON tags; this file
 // converts them at the boundary (the mirror types at its end). Go names
 // spell "centre"; the keys keep their historic "center_px" and
 // "center_unc_px". The codes beside sentences are listed in core/note.
-// (The field summary, field.Summary, and the chart and planner options
-// still carry their own tags: core/plot and the wasm glue read them.)
+// (The printable chart's and the planner's options, read by the wasm glue,
+// still carry their own tags in core/chart and core/plan.)
 
 import (
 	"sagitta/core/chart"
@@ -34,7 +34,7 @@ type Image struct {
 	Height      int        `json:"height"`
 	PitchUM     float64    `json:"pitch_um"`
 	PitchSource string     `json:"pitch_source"` // "user", "sensor size" or "Exif focal-plane resolution"
-	PitchFrom   string     `json:"pitch_from"`   // its code: "user", "sensor", "exif" or "fallback" (core/note)
+	PitchFrom   string     `json:"pitch_from"`   // its code: "user", "sensor" or "exif" (core/note)
 	CentrePx    [2]float64 `json:"center_px"`
 	CornerMM    float64    `json:"corner_mm"` // largest image height in the frame, mm
 	Format      string     `json:"format"`
@@ -61,7 +61,7 @@ type Image struct {
 
 	// Summary describes sharpness across the frame (field curves, MTF50
 	// map, astigmatism, balance); see field.Summary.
-	Summary *field.Summary `json:"summary"`
+	Summary *Summary `json:"summary"`
 
 	// Chart is set when the photo shows Sagitta's printed chart (chart.go).
 	Chart *ChartResult `json:"chart,omitempty"`
@@ -403,3 +403,229 @@ func marks(ms []FoundMark) []chart.FoundMark {
 }
 
 func setupOf(s chart.Setup) Setup { return Setup(s) }
+
+// Summary is the field summary (field.Summary, where each key is explained): sharpness
+// across the frame.
+type Summary struct {
+	FreqsLPMM    []float64      `json:"freqs_lp_mm"`
+	PitchUM      float64        `json:"pitch_um"`
+	CentrePx     [2]float64     `json:"center_px"`
+	WidthPx      int            `json:"width_px"`
+	HeightPx     int            `json:"height_px"`
+	CornerMM     float64        `json:"corner_mm"`
+	Smoother     string         `json:"smoother"`
+	Points       []SummaryPoint `json:"points"`
+	Curves       []FieldCurve   `json:"curves"`
+	MTF50Curves  []FieldCurve   `json:"mtf50_curves"`
+	Astigmatism  []Astigmatism  `json:"astigmatism"`
+	Map          *FieldMap      `json:"map"`
+	Balance      Balance        `json:"balance"`
+	Zones        []Zone         `json:"zones"`
+	Cautions     []string       `json:"cautions"`
+	Warnings     []string       `json:"warnings"`
+	WarningCodes []string       `json:"warning_codes"`
+}
+
+// SummaryPoint is a measurement in the summary (field.SummaryPoint).
+type SummaryPoint struct {
+	ID          int               `json:"id"`
+	Kind        string            `json:"kind"`
+	XPx         float64           `json:"x_px"`
+	YPx         float64           `json:"y_px"`
+	HeightMM    float64           `json:"height_mm"`
+	Orientation field.Orientation `json:"orientation"`
+	MTF         []Number          `json:"mtf"`
+	MTF50LPMM   Number            `json:"mtf50_lp_mm"`
+	Weight      []Number          `json:"weight"`
+}
+
+// FieldCurve is a field curve (field.Curve): one quantity against image height.
+type FieldCurve struct {
+	Orientation field.Orientation `json:"orientation"`
+	Quantity    string            `json:"quantity"`
+	FreqLPMM    float64           `json:"freq_lp_mm"`
+	Points      int               `json:"points"`
+	HMinMM      float64           `json:"h_min_mm"`
+	HMaxMM      float64           `json:"h_max_mm"`
+	Span        float64           `json:"span"`
+	Degree      int               `json:"degree"`
+	ResidualSD  float64           `json:"residual_sd"`
+	HeightMM    []float64         `json:"height_mm"`
+	Value       []Number          `json:"value"`
+	BandLo      []Number          `json:"band_lo"`
+	BandHi      []Number          `json:"band_hi"`
+}
+
+// Astigmatism is the sagittal-tangential gap against height (field.Astigmatism).
+type Astigmatism struct {
+	FreqLPMM       float64   `json:"freq_lp_mm"`
+	HeightMM       []float64 `json:"height_mm"`
+	Gap            []Number  `json:"gap"`
+	BandLo         []Number  `json:"band_lo"`
+	BandHi         []Number  `json:"band_hi"`
+	MaxGap         float64   `json:"max_gap"`
+	MaxGapHeightMM float64   `json:"max_gap_height_mm"`
+	MaxGapSE       float64   `json:"max_gap_se"`
+	Notable        bool      `json:"notable"`
+	Text           string    `json:"text"`
+	Caution        string    `json:"caution"`
+}
+
+// FieldMap is MTF50 over the frame on a grid (field.Map).
+type FieldMap struct {
+	Cols           int      `json:"cols"`
+	Rows           int      `json:"rows"`
+	CellWPx        float64  `json:"cell_w_px"`
+	CellHPx        float64  `json:"cell_h_px"`
+	MTF50LPMM      []Number `json:"mtf50_lp_mm"`
+	SagittalLPMM   []Number `json:"sagittal_lp_mm"`
+	TangentialLPMM []Number `json:"tangential_lp_mm"`
+	Min            float64  `json:"min_lp_mm"`
+	Max            float64  `json:"max_lp_mm"`
+	Points         int      `json:"points"`
+	MaskDistancePx float64  `json:"mask_distance_px"`
+	RadiusPx       float64  `json:"radius_px"`
+	Method         string   `json:"method"`
+}
+
+// Balance compares opposite parts of the frame (field.Balance).
+type Balance struct {
+	Verdict      string        `json:"verdict"`
+	Text         string        `json:"text"`
+	Caution      string        `json:"caution"`
+	FromHeightMM float64       `json:"from_height_mm"`
+	Pairs        []BalancePair `json:"pairs"`
+	Quarters     []PartOffset  `json:"quarters"`
+
+	score float64
+}
+
+// BalancePair is one pair of opposite parts (field.BalancePair).
+type BalancePair struct {
+	A       string     `json:"a"`
+	B       string     `json:"b"`
+	ByFreq  []PairDiff `json:"by_freq"`
+	Verdict string     `json:"verdict"`
+	Text    string     `json:"text"`
+}
+
+// PairDiff is a pair's difference at one frequency (field.PairDiff).
+type PairDiff struct {
+	FreqLPMM float64 `json:"freq_lp_mm"`
+	Diff     Number  `json:"diff"`
+	SE       Number  `json:"se"`
+	NA       int     `json:"n_a"`
+	NB       int     `json:"n_b"`
+	Notable  bool    `json:"notable"`
+}
+
+// PartOffset is one quarter's offset (field.PartOffset).
+type PartOffset struct {
+	Part   string       `json:"part"`
+	ByFreq []MeanOffset `json:"by_freq"`
+}
+
+// MeanOffset is a quarter's mean offset at one frequency (field.MeanOffset).
+type MeanOffset struct {
+	FreqLPMM float64 `json:"freq_lp_mm"`
+	Offset   Number  `json:"offset"`
+	SE       Number  `json:"se"`
+	N        int     `json:"n"`
+}
+
+// The field summary at the boundary. Every struct but the four that hold
+// others converts in one step.
+
+func convert[S, T any](s []S, f func(S) T) []T {
+	if s == nil {
+		return nil
+	}
+	out := make([]T, len(s))
+	for i := range s {
+		out[i] = f(s[i])
+	}
+	return out
+}
+
+// SummaryOf converts the field summary to the contract's; nil stays nil.
+func SummaryOf(s *field.Summary) *Summary {
+	if s == nil {
+		return nil
+	}
+	out := &Summary{
+		FreqsLPMM: s.FreqsLPMM, PitchUM: s.PitchUM, CentrePx: s.CentrePx,
+		WidthPx: s.WidthPx, HeightPx: s.HeightPx, CornerMM: s.CornerMM, Smoother: s.Smoother,
+		Points:      convert(s.Points, func(p field.SummaryPoint) SummaryPoint { return SummaryPoint(p) }),
+		Curves:      convert(s.Curves, func(c field.Curve) FieldCurve { return FieldCurve(c) }),
+		MTF50Curves: convert(s.MTF50Curves, func(c field.Curve) FieldCurve { return FieldCurve(c) }),
+		Astigmatism: convert(s.Astigmatism, func(a field.Astigmatism) Astigmatism { return Astigmatism(a) }),
+		Balance: Balance{
+			Verdict: s.Balance.Verdict, Text: s.Balance.Text, Caution: s.Balance.Caution, FromHeightMM: s.Balance.FromHeightMM,
+			Pairs: convert(s.Balance.Pairs, func(p field.BalancePair) BalancePair {
+				return BalancePair{A: p.A, B: p.B, Verdict: p.Verdict, Text: p.Text,
+					ByFreq: convert(p.ByFreq, func(d field.PairDiff) PairDiff { return PairDiff(d) })}
+			}),
+			Quarters: convert(s.Balance.Quarters, func(q field.PartOffset) PartOffset {
+				return PartOffset{Part: q.Part, ByFreq: convert(q.ByFreq, func(m field.MeanOffset) MeanOffset { return MeanOffset(m) })}
+			}),
+		},
+		Zones:    convert(s.Zones, func(z field.Zone) Zone { return Zone(z) }),
+		Cautions: s.Cautions, Warnings: s.Warnings, WarningCodes: s.WarningCodes,
+	}
+	if s.Map != nil {
+		m := FieldMap(*s.Map)
+		out.Map = &m
+	}
+	return out
+}
+
+// Zone is one third of the distance from the optical centre to the
+// farthest corner with its median figures (field.Zone, where each is
+// explained): the numbers of the page's Compare table and of an aperture
+// series.
+type Zone struct {
+	Name       string   `json:"name"`
+	FromMM     float64  `json:"from_mm"`
+	ToMM       float64  `json:"to_mm"`
+	All        []Number `json:"all"`
+	Sagittal   []Number `json:"sagittal"`
+	Tangential []Number `json:"tangential"`
+	N          []int    `json:"n"`
+	AllSE      []Number `json:"all_se"`
+	MTF50LPMM  Number   `json:"mtf50_lp_mm"`
+	MTF50SE    Number   `json:"mtf50_se"`
+	MTF50N     int      `json:"mtf50_n"`
+}
+
+// Field converts the contract's summary back to core/field's (core/plot
+// draws from it); nil stays nil.
+func (s *Summary) Field() *field.Summary {
+	if s == nil {
+		return nil
+	}
+	out := &field.Summary{
+		FreqsLPMM: s.FreqsLPMM, PitchUM: s.PitchUM, CentrePx: s.CentrePx,
+		WidthPx: s.WidthPx, HeightPx: s.HeightPx, CornerMM: s.CornerMM, Smoother: s.Smoother,
+		Points:      convert(s.Points, func(p SummaryPoint) field.SummaryPoint { return field.SummaryPoint(p) }),
+		Curves:      convert(s.Curves, func(c FieldCurve) field.Curve { return field.Curve(c) }),
+		MTF50Curves: convert(s.MTF50Curves, func(c FieldCurve) field.Curve { return field.Curve(c) }),
+		Astigmatism: convert(s.Astigmatism, func(a Astigmatism) field.Astigmatism { return field.Astigmatism(a) }),
+		Balance: field.Balance{
+			Verdict: s.Balance.Verdict, Text: s.Balance.Text, Caution: s.Balance.Caution, FromHeightMM: s.Balance.FromHeightMM,
+			Pairs: convert(s.Balance.Pairs, func(p BalancePair) field.BalancePair {
+				return field.BalancePair{A: p.A, B: p.B, Verdict: p.Verdict, Text: p.Text,
+					ByFreq: convert(p.ByFreq, func(d PairDiff) field.PairDiff { return field.PairDiff(d) })}
+			}),
+			Quarters: convert(s.Balance.Quarters, func(q PartOffset) field.PartOffset {
+				return field.PartOffset{Part: q.Part, ByFreq: convert(q.ByFreq, func(m MeanOffset) field.MeanOffset { return field.MeanOffset(m) })}
+			}),
+		},
+		Zones:    convert(s.Zones, func(z Zone) field.Zone { return field.Zone(z) }),
+		Cautions: s.Cautions, Warnings: s.Warnings, WarningCodes: s.WarningCodes,
+	}
+	if s.Map != nil {
+		m := field.Map(*s.Map)
+		out.Map = &m
+	}
+	return out
+}

@@ -333,8 +333,8 @@ func TestPitch(t *testing.T) {
 		{"user", Settings{PitchUM: 4.3, SensorMM: [2]float64{36, 24}}, good, 4.3, "user", note.PitchUser},
 		{"sensor", Settings{SensorMM: [2]float64{36, 24}, FallbackSensorMM: [2]float64{24, 16}}, good, 6, "sensor size", note.PitchSensor},
 		{"Exif", Settings{FallbackSensorMM: [2]float64{24, 16}}, good, 6, "Exif focal-plane resolution", note.PitchExif},
-		{"fallback: Exif out of range", Settings{FallbackSensorMM: [2]float64{24, 16}}, bad, 4, "sensor size", note.PitchFallback},
-		{"fallback: no Exif", Settings{FallbackSensorMM: [2]float64{24, 16}}, exif.Tags{}, 4, "sensor size", note.PitchFallback},
+		{"fallback: Exif out of range", Settings{FallbackSensorMM: [2]float64{24, 16}}, bad, 4, "sensor size", note.PitchSensor},
+		{"fallback: no Exif", Settings{FallbackSensorMM: [2]float64{24, 16}}, exif.Tags{}, 4, "sensor size", note.PitchSensor},
 		{"none", Settings{}, bad, 0, "", ""},
 	}
 	const tol = 1e-9

@@ -52,8 +52,8 @@ func summarise(img *Image, geo field.Geometry, base []note.Note) error {
 		}
 	}
 	img.Warnings, img.WarningCodes = note.Split(append(slices.Clip(base), derivedWarnings(img)...))
-	var err error
-	img.Summary, err = field.Summarise(geo, fieldPoints(img.Measurements), img.FreqsLPMM)
+	sum, err := field.Summarise(geo, fieldPoints(img.Measurements), img.FreqsLPMM)
+	img.Summary = SummaryOf(sum)
 	return err
 }
 

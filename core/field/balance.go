@@ -44,18 +44,18 @@ const (
 // its sign.
 type Balance struct {
 	// Verdict is "balanced", "unbalanced" or "not enough measurements".
-	Verdict string `json:"verdict"`
+	Verdict string
 	// Text says it in words first and numbers second.
-	Text string `json:"text"`
+	Text string
 	// Caution is the set-up caution that belongs with this verdict.
-	Caution string `json:"caution"`
+	Caution string
 	// FromHeightMM is where the compared outer field begins, mm.
-	FromHeightMM float64 `json:"from_height_mm"`
+	FromHeightMM float64
 	// Pairs are the four comparisons.
-	Pairs []BalancePair `json:"pairs"`
+	Pairs []BalancePair
 	// Quarters gives each quarter of the frame's offset from the whole
 	// frame's curves, for a picture of where the softness lies.
-	Quarters []PartOffset `json:"quarters"`
+	Quarters []PartOffset
 
 	score float64 // of the pair quoted in a balanced Text
 }
@@ -64,41 +64,41 @@ type Balance struct {
 type BalancePair struct {
 	// A and B name the parts ("left", "right", "top", "bottom",
 	// "top-left", ...). Differences are A minus B.
-	A string `json:"a"`
-	B string `json:"b"`
+	A string
+	B string
 	// ByFreq holds the comparison at each field frequency.
-	ByFreq []PairDiff `json:"by_freq"`
+	ByFreq []PairDiff
 	// Verdict and Text as for Balance.
-	Verdict string `json:"verdict"`
-	Text    string `json:"text"`
+	Verdict string
+	Text    string
 }
 
 // PairDiff is the difference between two parts at one frequency.
 type PairDiff struct {
-	FreqLPMM float64 `json:"freq_lp_mm"`
+	FreqLPMM float64
 	// Diff is A's mean residual minus B's (positive: A sharper), MTF.
-	Diff Number `json:"diff"`
+	Diff Number
 	// SE is the standard error of Diff.
-	SE Number `json:"se"`
+	SE Number
 	// NA and NB are the measurements behind each side.
-	NA int `json:"n_a"`
-	NB int `json:"n_b"`
+	NA int
+	NB int
 	// Notable is true when |Diff| exceeds NotableSE * SE and NotableGap.
-	Notable bool `json:"notable"`
+	Notable bool
 }
 
 // PartOffset is one part's mean residual from the frame's curves.
 type PartOffset struct {
-	Part   string       `json:"part"`
-	ByFreq []MeanOffset `json:"by_freq"`
+	Part   string
+	ByFreq []MeanOffset
 }
 
 // MeanOffset is a mean residual with its standard error and count.
 type MeanOffset struct {
-	FreqLPMM float64 `json:"freq_lp_mm"`
-	Offset   Number  `json:"offset"`
-	SE       Number  `json:"se"`
-	N        int     `json:"n"`
+	FreqLPMM float64
+	Offset   Number
+	SE       Number
+	N        int
 }
 
 // balanceCaution goes with every balance verdict.

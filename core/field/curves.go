@@ -154,27 +154,27 @@ func sampleHeights(lo, hi float64) []float64 {
 // frequency, over the heights both curves cover.
 type Astigmatism struct {
 	// FreqLPMM is the field frequency, lp/mm.
-	FreqLPMM float64 `json:"freq_lp_mm"`
+	FreqLPMM float64
 	// HeightMM are the sample heights, mm, over the common range of the two
 	// curves; Gap is sagittal minus tangential MTF there, BandLo and BandHi
 	// the gap minus and plus two standard errors (the two curves' errors
 	// combined as independent).
-	HeightMM []float64 `json:"height_mm"`
-	Gap      []Number  `json:"gap"`
-	BandLo   []Number  `json:"band_lo"`
-	BandHi   []Number  `json:"band_hi"`
+	HeightMM []float64
+	Gap      []Number
+	BandLo   []Number
+	BandHi   []Number
 	// MaxGap is the gap of largest size (signed: positive = sagittal
 	// higher), MaxGapHeightMM where it occurs, MaxGapSE its standard error.
-	MaxGap         float64 `json:"max_gap"`
-	MaxGapHeightMM float64 `json:"max_gap_height_mm"`
-	MaxGapSE       float64 `json:"max_gap_se"`
+	MaxGap         float64
+	MaxGapHeightMM float64
+	MaxGapSE       float64
 	// Notable is true when the largest gap exceeds both NotableSE standard
 	// errors and NotableGap.
-	Notable bool `json:"notable"`
+	Notable bool
 	// Text says it in words first, numbers second.
-	Text string `json:"text"`
+	Text string
 	// Caution is the set-up caution that belongs with this result.
-	Caution string `json:"caution"`
+	Caution string
 }
 
 // astigmatismCaution goes with every astigmatism result.

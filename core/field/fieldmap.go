@@ -31,29 +31,29 @@ type Map struct {
 	// Cols and Rows are the grid size; cell (c, r) covers x in
 	// [c*CellWPx, (c+1)*CellWPx) and y in [r*CellHPx, (r+1)*CellHPx), px,
 	// and its value is taken at its centre.
-	Cols    int     `json:"cols"`
-	Rows    int     `json:"rows"`
-	CellWPx float64 `json:"cell_w_px"`
-	CellHPx float64 `json:"cell_h_px"`
+	Cols    int
+	Rows    int
+	CellWPx float64
+	CellHPx float64
 	// MTF50LPMM holds the cells' MTF50 in lp/mm, the mean of the sagittal
 	// and tangential values (or the one that exists), row by row from the
 	// top left (index r*Cols + c); null marks a masked cell.
-	MTF50LPMM []Number `json:"mtf50_lp_mm"`
+	MTF50LPMM []Number
 	// SagittalLPMM and TangentialLPMM are the same for each orientation.
-	SagittalLPMM   []Number `json:"sagittal_lp_mm"`
-	TangentialLPMM []Number `json:"tangential_lp_mm"`
+	SagittalLPMM   []Number
+	TangentialLPMM []Number
 	// Min and Max are the smallest and largest value of MTF50LPMM, lp/mm:
 	// the ends of its colour scale.
-	Min float64 `json:"min_lp_mm"`
-	Max float64 `json:"max_lp_mm"`
+	Min float64
+	Max float64
 	// Points is the number of measurements behind the map.
-	Points int `json:"points"`
+	Points int
 	// MaskDistancePx is the distance from the nearest measurement beyond
 	// which a cell is masked, px; RadiusPx the reach of each measurement.
-	MaskDistancePx float64 `json:"mask_distance_px"`
-	RadiusPx       float64 `json:"radius_px"`
+	MaskDistancePx float64
+	RadiusPx       float64
 	// Method names the interpolation.
-	Method string `json:"method"`
+	Method string
 }
 
 // mapSite is one measurement on the map.

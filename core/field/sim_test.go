@@ -113,7 +113,7 @@ func TestFieldCurvesAgainstTruth(t *testing.T) {
 		s, limit = fullShoot(11), 2*0.007
 	}
 	img := s.run(t)
-	sum := img.Summary
+	sum := img.Summary.Field()
 	lens := s.lens()
 	if len(sum.Curves) != 4 {
 		t.Fatalf("%d field curves, want 4 (2 orientations x 2 frequencies); warnings %v", len(sum.Curves), sum.Warnings)
@@ -175,7 +175,7 @@ func TestBalanceDetectsDecentring(t *testing.T) {
 		for _, seed := range seeds {
 			s := smallShoot(seed)
 			s.tiltPerMM, s.tiltDeg = tc.tilt, tc.deg
-			b := s.run(t).Summary.Balance
+			b := s.run(t).Summary.Field().Balance
 			var diffs []string
 			for _, p := range b.Pairs {
 				for _, d := range p.ByFreq {

@@ -27,65 +27,65 @@ type Point struct {
 type Summary struct {
 	// FreqsLPMM are the field frequencies, lp/mm on the sensor, in the order
 	// of every per-frequency list below.
-	FreqsLPMM []float64 `json:"freqs_lp_mm"`
+	FreqsLPMM []float64
 	// PitchUM is the pixel pitch, micrometres.
-	PitchUM float64 `json:"pitch_um"`
+	PitchUM float64
 	// CentrePx is the optical centre, px.
-	CentrePx [2]float64 `json:"center_px"`
+	CentrePx [2]float64
 	// WidthPx and HeightPx are the photo's size, px.
-	WidthPx  int `json:"width_px"`
-	HeightPx int `json:"height_px"`
+	WidthPx  int
+	HeightPx int
 	// CornerMM is the image height of the farthest frame corner, mm: the
 	// right end of every height axis.
-	CornerMM float64 `json:"corner_mm"`
+	CornerMM float64
 	// Smoother names the method behind every smooth curve.
-	Smoother string `json:"smoother"`
+	Smoother string
 	// Points are the measurements, as used by every part of the summary.
-	Points []SummaryPoint `json:"points"`
+	Points []SummaryPoint
 	// Curves holds the field curves: MTF at each field frequency against
 	// image height, one per orientation (sagittal, tangential) and frequency,
 	// ordered by frequency then orientation. A curve is absent when its
 	// orientation has too few points (see Warnings).
-	Curves []Curve `json:"curves"`
+	Curves []Curve
 	// MTF50Curves holds MTF50 (lp/mm) against image height, one per
 	// orientation.
-	MTF50Curves []Curve `json:"mtf50_curves"`
+	MTF50Curves []Curve
 	// Astigmatism holds sagittal minus tangential MTF against image height,
 	// one per field frequency at which both curves exist.
-	Astigmatism []Astigmatism `json:"astigmatism"`
+	Astigmatism []Astigmatism
 	// Map is MTF50 over the frame on a grid; nil without measurements.
-	Map *Map `json:"map"`
+	Map *Map
 	// Balance compares opposite halves and quadrants of the frame.
-	Balance Balance `json:"balance"`
+	Balance Balance
 	// Zones are the centre, mid-field and corner thirds of the image height
 	// with their median MTF at each field frequency (all orientations,
 	// sagittal, tangential): the numbers of the page's Compare table.
-	Zones []Zone `json:"zones"`
+	Zones []Zone
 	// Cautions are the set-up cautions to show beside any verdict.
-	Cautions []string `json:"cautions"`
+	Cautions []string
 	// Warnings say what could not be summarised and why; WarningCodes
 	// are their codes, aligned (core/note).
-	Warnings     []string `json:"warnings"`
-	WarningCodes []string `json:"warning_codes"`
+	Warnings     []string
+	WarningCodes []string
 }
 
 // SummaryPoint is a measurement in the summary: its place, orientation and
 // values, and how much the smoother trusted it.
 type SummaryPoint struct {
-	ID          int         `json:"id"`
-	Kind        string      `json:"kind"` // "edge" or "star"
-	XPx         float64     `json:"x_px"`
-	YPx         float64     `json:"y_px"`
-	HeightMM    float64     `json:"height_mm"`
-	Orientation Orientation `json:"orientation"`
+	ID          int
+	Kind        string // "edge" or "star"
+	XPx         float64
+	YPx         float64
+	HeightMM    float64
+	Orientation Orientation
 	// MTF is the response at each field frequency (null = not measured).
-	MTF []Number `json:"mtf"`
+	MTF []Number
 	// MTF50LPMM is MTF50 in lp/mm (null = not reached).
-	MTF50LPMM Number `json:"mtf50_lp_mm"`
+	MTF50LPMM Number
 	// Weight is the robustness weight (0..1) the field curve at each field
 	// frequency gave the point: 0 means it was treated as an outlier. Null
 	// for mixed points, which are not in any curve.
-	Weight []Number `json:"weight"`
+	Weight []Number
 }
 
 // Curve is a smooth curve of one quantity against image height, sampled
@@ -94,33 +94,33 @@ type SummaryPoint struct {
 // corner.
 type Curve struct {
 	// Orientation is sagittal or tangential.
-	Orientation Orientation `json:"orientation"`
+	Orientation Orientation
 	// Quantity is "mtf" (MTF at FreqLPMM) or "mtf50_lp_mm" (MTF50 in lp/mm).
-	Quantity string `json:"quantity"`
+	Quantity string
 	// FreqLPMM is the field frequency for Quantity "mtf"; 0 otherwise.
-	FreqLPMM float64 `json:"freq_lp_mm"`
+	FreqLPMM float64
 	// Points is the number of measurements the curve was fitted to.
-	Points int `json:"points"`
+	Points int
 	// HMinMM and HMaxMM are the smallest and largest image height of those
 	// measurements, mm: the curve's extent.
-	HMinMM float64 `json:"h_min_mm"`
-	HMaxMM float64 `json:"h_max_mm"`
+	HMinMM float64
+	HMaxMM float64
 	// Span is the fraction of the points in each local fit and Degree the
 	// degree of the local polynomial (1 line, 2 parabola), both chosen by
 	// cross-validation.
-	Span   float64 `json:"span"`
-	Degree int     `json:"degree"`
+	Span   float64
+	Degree int
 	// ResidualSD is the robust standard deviation of the points about the
 	// curve: the spread between repeated measurements at one height.
-	ResidualSD float64 `json:"residual_sd"`
+	ResidualSD float64
 	// HeightMM are the sample heights, mm, evenly spaced over
 	// [HMinMM, HMaxMM]; Value the curve there; BandLo and BandHi the curve
 	// minus and plus two standard errors (about a 95 % pointwise band for
 	// the curve, not for single measurements, smoothing bias not included).
-	HeightMM []float64 `json:"height_mm"`
-	Value    []Number  `json:"value"`
-	BandLo   []Number  `json:"band_lo"`
-	BandHi   []Number  `json:"band_hi"`
+	HeightMM []float64
+	Value    []Number
+	BandLo   []Number
+	BandHi   []Number
 }
 
 // Summarise builds the summary of a photo's measurements. freqsLPMM are the

@@ -11,28 +11,28 @@ var zoneNames = [3]string{"centre", "mid-field", "corner"}
 // measurements in it. Medians resist the odd poorly placed edge.
 type Zone struct {
 	// Name is "centre", "mid-field" or "corner".
-	Name string `json:"name"`
+	Name string
 	// FromMM and ToMM bound the zone's image heights, mm (FromMM included,
 	// ToMM excluded except for the corner zone).
-	FromMM float64 `json:"from_mm"`
-	ToMM   float64 `json:"to_mm"`
+	FromMM float64
+	ToMM   float64
 	// All, Sagittal and Tangential are the median MTF at each field
 	// frequency (in Summary.FreqsLPMM's order) of every measurement in the
 	// zone, of the sagittal ones and of the tangential ones; null when
 	// there is none.
-	All        []Number `json:"all"`
-	Sagittal   []Number `json:"sagittal"`
-	Tangential []Number `json:"tangential"`
+	All        []Number
+	Sagittal   []Number
+	Tangential []Number
 	// N is the number of measurements behind All at each frequency.
-	N []int `json:"n"`
+	N []int
 	// AllSE is the standard error of each All median (see medianSE).
-	AllSE []Number `json:"all_se"`
+	AllSE []Number
 	// MTF50LPMM is the median MTF50 (lp/mm) of every measurement in the
 	// zone, MTF50SE its standard error and MTF50N the count behind it
 	// (measurements whose MTF50 was not reached are left out).
-	MTF50LPMM Number `json:"mtf50_lp_mm"`
-	MTF50SE   Number `json:"mtf50_se"`
-	MTF50N    int    `json:"mtf50_n"`
+	MTF50LPMM Number
+	MTF50SE   Number
+	MTF50N    int
 }
 
 // zones sorts the points into the three zones of image height and takes

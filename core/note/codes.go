@@ -124,13 +124,13 @@ const (
 const (
 	// PitchUser: the pitch given by the user.
 	PitchUser Code = "user"
-	// PitchSensor: the sensor width given by the user over the image width.
+	// PitchSensor: a sensor width over the image width: the one given, or
+	// the fallback sensor's when the file says nothing (as pitch_source,
+	// which says "sensor size" for both, so that the page's result equals
+	// the tool's given that sensor).
 	PitchSensor Code = "sensor"
 	// PitchExif: the Exif focal-plane resolution.
 	PitchExif Code = "exif"
-	// PitchFallback: the fallback sensor's width (the sensor to assume when
-	// the file says nothing) over the image width.
-	PitchFallback Code = "fallback"
 )
 
 // Where the tone came from, in Image.tone_from (tone_source words it).

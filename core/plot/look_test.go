@@ -46,13 +46,13 @@ func TestLook(t *testing.T) {
 		imgs = append(imgs, img)
 	}
 	img := imgs[1]
-	s := img.Summary
+	s := img.Summary.Field()
 	far := img.Measurements[len(img.Measurements)-1]
 	figs := map[string]*plot.Figure{
 		"field-curves": plot.FieldCurves(s, plot.FieldOptions{Label: "tilted", Band: true}),
 		"map":          plot.Map(s, plot.MapOptions{Label: "tilted"}),
 		"astigmatism":  plot.Astigmatism(s, plot.FieldOptions{Label: "tilted", Band: true}),
-		"compare":      plot.Compare([]plot.Photo{{Label: "centred", Summary: imgs[0].Summary}, {Label: "tilted", Summary: s}}, plot.CompareOptions{}),
+		"compare":      plot.Compare([]plot.Photo{{Label: "centred", Summary: imgs[0].Summary.Field()}, {Label: "tilted", Summary: s}}, plot.CompareOptions{}),
 		"target":       plot.Target(plot.TargetFromMeasurement(far, img), plot.TargetOptions{}),
 		"target-lpmm":  plot.Target(plot.TargetFromMeasurement(img.Measurements[0], img), plot.TargetOptions{LPMM: true}),
 	}

@@ -80,5 +80,5 @@ func summaryOf(img *analyze.Image) (*field.Summary, error) {
 		}
 		return nil, errorf("%s has no field summary (nothing was measured across the frame)", name)
 	}
-	return img.Summary, nil
+	return img.Summary.Field(), nil
 }

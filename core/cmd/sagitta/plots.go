@@ -30,11 +30,12 @@ func writePlots(dir string, res analyze.Result) error {
 			continue
 		}
 		name := plotName(img.File, used)
-		photos = append(photos, plot.Photo{Label: img.File, Summary: img.Summary})
+		sum := img.Summary.Field()
+		photos = append(photos, plot.Photo{Label: img.File, Summary: sum})
 		figs := []namedFigure{
-			{"field-curves", plot.FieldCurves(img.Summary, plot.FieldOptions{Label: img.File, Band: true})},
-			{"mtf50-map", plot.Map(img.Summary, plot.MapOptions{Label: img.File})},
-			{"astigmatism", plot.Astigmatism(img.Summary, plot.FieldOptions{Label: img.File, Band: true})},
+			{"field-curves", plot.FieldCurves(sum, plot.FieldOptions{Label: img.File, Band: true})},
+			{"mtf50-map", plot.Map(sum, plot.MapOptions{Label: img.File})},
+			{"astigmatism", plot.Astigmatism(sum, plot.FieldOptions{Label: img.File, Band: true})},
 		}
 		// Measurements come sorted by image height: the first is the
 		// centre-most, the last the corner-most.
