@@ -54,10 +54,17 @@ func search(freq []float64, f float64) int {
 // AtNyquist returns the response at 0.5 cycles/pixel.
 func (c Curve) AtNyquist() float64 { return c.At(Nyquist) }
 
-// Peak returns the largest response and the frequency where it occurs.
+// Peak returns the largest response at or below the Nyquist frequency and
+// the frequency where it occurs. Above Nyquist a sampled image holds only
+// aliases and noise (Shannon's sampling theorem; Goodman, Introduction to
+// Fourier Optics, 3rd ed., ch. 2), so a maximum there is no property of the
+// lens and must not capture MTF50P.
 func (c Curve) Peak() (value, freq float64) {
 	value = math.Inf(-1)
 	for i, v := range c.Value {
+		if c.Freq[i] > Nyquist+1e-12 {
+			break
+		}
 		if v > value {
 			value, freq = v, c.Freq[i]
 		}
@@ -67,17 +74,24 @@ func (c Curve) Peak() (value, freq float64) {
 
 // Crossing returns the lowest frequency above the curve's peak at which the
 // response falls to level, by linear interpolation between samples, or NaN
-// if it never does within the sampled range.
+// if it does not fall to it at or below the Nyquist frequency (a crossing
+// beyond Nyquist is not reported: the search ends there, see Peak).
 func (c Curve) Crossing(level float64) float64 {
 	_, pf := c.Peak()
 	for i := 1; i < len(c.Value); i++ {
+		if c.Freq[i-1] >= Nyquist-1e-12 {
+			break
+		}
 		if c.Freq[i] <= pf {
 			continue
 		}
 		v0, v1 := c.Value[i-1], c.Value[i]
 		if v0 >= level && v1 < level {
 			t := (v0 - level) / (v0 - v1)
-			return c.Freq[i-1] + t*(c.Freq[i]-c.Freq[i-1])
+			if f := c.Freq[i-1] + t*(c.Freq[i]-c.Freq[i-1]); f <= Nyquist+1e-12 {
+				return f
+			}
+			return math.NaN()
 		}
 	}
 	return math.NaN()
