@@ -26,7 +26,19 @@ import "math"
 //     the whole region. The flat part is widened while the profile still
 //     carries signal above its noise, so long tails (flare) are kept and
 //     noise beyond them is not.
-//  4. Noise-bias removal: the expected noise power in |X(f)|^2, computed
+//  4. Shading removed first: illumination fall-off multiplies the scene by a
+//     slowly varying factor, which tilts both plateaus in proportion to
+//     their levels; left in, the tilt enters the line spread function as
+//     a constant that the window (widened while the profile still carries
+//     signal) keeps taking in, and the MTF reads low when the light side
+//     faces the optical centre. A plane a + b u + c d is fitted to each
+//     plateau (u along the edge, d from it); the part of the slopes
+//     proportional to the level, g = (c_light - c_dark) / (a_light - a_dark)
+//     and likewise along u, is the relative gradient of the illumination,
+//     and every pixel is divided by 1 + g_u u + g_d d. A slope common to
+//     both plateaus (the slowly falling tail of a line spread function,
+//     diffraction or flare) is left alone: it belongs to the lens.
+//  5. Noise-bias removal: the expected noise power in |X(f)|^2, computed
 //     exactly from the plateau noise and the window, is subtracted before
 //     the square root, removing the upward bias that noise gives a
 //     magnitude spectrum at high frequencies.
@@ -55,18 +67,19 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 	if reach < 3 {
 		return ErrNoEdge
 	}
-	pts := merge(d, s.v)
-
-	// Plateaus, noise and the coarse profile.
+	// Plateaus, noise and the coarse profile, after removing the shading
+	// (illumination fall-off) common to both plateaus.
 	core := math.Min(coreWidth(f), reach-1)
-	dark, light, _, _ := plateaus(d, s.v, core)
+	v := unshade(s.u, d, s.v, core)
+	pts := merge(d, v)
+	dark, light, _, _ := plateaus(d, v, core)
 	step := light - dark
 	if !(step > 0) {
 		return ErrNoEdge
 	}
 	m.Dark, m.Light = dark, light
 	m.NoiseRMS = math.Sqrt(0.5 * (sdDark*sdDark + sdLight*sdLight))
-	esf, perBin := coarse(d, s.v, -reach, reach)
+	esf, perBin := coarse(d, v, -reach, reach)
 	lsfX, lsfV := derivative(esf)
 
 	// Window: centre at the line spread function's centroid, flat part
@@ -233,6 +246,92 @@ func merge(d, v []float64) []point {
 		}
 	}
 	return out
+}
+
+// unshade returns v divided by the illumination gradient fitted to the two
+// plateaus (pixels farther than core px from the edge; see point 4 at the
+// top of this file), or v itself when a plateau is too small to fit.
+func unshade(u, d, v []float64, core float64) []float64 {
+	var a, b planeStats
+	for i := range d {
+		switch {
+		case d[i] < -core:
+			a.add(u[i], d[i], v[i])
+		case d[i] > core:
+			b.add(u[i], d[i], v[i])
+		}
+	}
+	ca, okA := a.coef()
+	cb, okB := b.coef()
+	if !okA || !okB || !(cb[0]-ca[0] > 0) {
+		return v
+	}
+	gu := (cb[1] - ca[1]) / (cb[0] - ca[0])
+	gd := (cb[2] - ca[2]) / (cb[0] - ca[0])
+	out := make([]float64, len(v))
+	for i := range v {
+		k := 1 + gu*u[i] + gd*d[i]
+		if !(k > 0.2) { // no plausible fall-off: leave the profile as it is
+			return v
+		}
+		out[i] = v[i] / k
+	}
+	return out
+}
+
+// planeStats accumulates a least-squares plane v = c0 + c1 x + c2 y.
+type planeStats struct {
+	n float64
+	m [3][3]float64 // normal matrix
+	r [3]float64    // right-hand side
+}
+
+func (p *planeStats) add(x, y, v float64) {
+	p.n++
+	e := [3]float64{1, x, y}
+	for i := range 3 {
+		for j := range 3 {
+			p.m[i][j] += e[i] * e[j]
+		}
+		p.r[i] += e[i] * v
+	}
+}
+
+// coef solves the normal equations by Gaussian elimination with partial
+// pivoting; ok is false for fewer than 8 points or a singular system.
+func (p *planeStats) coef() (c [3]float64, ok bool) {
+	if p.n < 8 {
+		return c, false
+	}
+	m, r := p.m, p.r
+	for k := range 3 {
+		piv := k
+		for i := k + 1; i < 3; i++ {
+			if math.Abs(m[i][k]) > math.Abs(m[piv][k]) {
+				piv = i
+			}
+		}
+		m[k], m[piv] = m[piv], m[k]
+		r[k], r[piv] = r[piv], r[k]
+		if math.Abs(m[k][k]) <= 1e-9*p.n {
+			return c, false
+		}
+		for i := k + 1; i < 3; i++ {
+			t := m[i][k] / m[k][k]
+			for j := k; j < 3; j++ {
+				m[i][j] -= t * m[k][j]
+			}
+			r[i] -= t * r[k]
+		}
+	}
+	for k := 2; k >= 0; k-- {
+		s := r[k]
+		for j := k + 1; j < 3; j++ {
+			s -= m[k][j] * c[j]
+		}
+		c[k] = s / m[k][k]
+	}
+	return c, true
 }
 
 // plateaus estimates the dark and light levels and their noise from the
