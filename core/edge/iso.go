@@ -35,7 +35,11 @@ import (
 //     Bin spacing along the edge normal is cos(slant)/4 px, which sets the
 //     frequency scale. (The transform is evaluated directly at the output
 //     frequencies: the same transform as the zero-padded DFT.)
-func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64) error {
+//
+// The standard error of each value follows from the plateau noise (noise
+// rms sd per pixel, so sd^2 / n in a bin of n pixels) propagated through the
+// central difference, the window and the transform as in stieltjes.
+func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64, sd float64) error {
 	tx, ty, nx, ny := r.axes()
 	vertical := math.Abs(ty) >= math.Abs(tx) // edge nearer the vertical: rows cross it
 	// get(line, pos) reads the image with the line index along the edge's
@@ -201,26 +205,46 @@ func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64) error 
 	cosSlant := 1 / math.Sqrt(1+b*b)
 	dx := cosSlant / nb // bin spacing along the normal, px
 	val := make([]float64, len(freq))
+	se := make([]float64, len(freq))
 	var x0 float64
 	for _, v := range lsf {
 		x0 += v
 	}
+	win := make([]float64, nBins)
+	for k := range win {
+		win[k] = 0.54 + 0.46*math.Cos(math.Pi*(float64(k)-cen)/halfWin)
+	}
+	er, ei := make([]float64, nBins), make([]float64, nBins)
 	for j, f := range freq {
 		var re, im float64
 		for k, v := range lsf {
 			s, c := math.Sincos(-2 * math.Pi * f * (float64(k) - cen) * dx)
+			er[k], ei[k] = c, s
 			re += v * c
 			im += v * s
 		}
+		var pn float64
+		for k := 1; k < nBins-1; k++ {
+			// Bin k enters lsf[k-1] with +1/2 and lsf[k+1] with -1/2.
+			ar := 0.5 * (win[k-1]*er[k-1] - win[k+1]*er[k+1])
+			ai := 0.5 * (win[k-1]*ei[k-1] - win[k+1]*ei[k+1])
+			pn += sd * sd / math.Max(cnt[k], 1) * (ar*ar + ai*ai)
+		}
 		mag := math.Hypot(re, im) / x0
+		e := math.Sqrt(pn/2) / x0
 		arg := 2 * math.Pi * f * dx
 		if arg > 0 {
-			corr := math.Sin(arg) / arg
-			mag /= math.Max(corr, 0.1)
+			corr := math.Max(math.Sin(arg)/arg, 0.1)
+			mag /= corr
+			e /= corr
 		}
 		val[j] = mag
+		if j > 0 {
+			se[j] = e
+		}
 	}
 	m.Curve.Freq, m.Curve.Value = freq, val
+	m.SE = se
 	// Profiles for display, normalised like the refined ones.
 	lo, hi := esf[0], esf[nBins-1]
 	if hi < lo {

@@ -62,6 +62,9 @@ type Options struct {
 	Method   Method
 	FreqStep float64 // spacing of the output curve, cycles/pixel (default 0.01)
 	MaxFreq  float64 // highest frequency of the output curve, cycles/pixel (default 1)
+	// FNumber and PitchUM, when both are known (> 0), let the sharpening
+	// check compare the curve with the diffraction limit (sharpen.go).
+	FNumber, PitchUM float64
 }
 
 func (o Options) grid() []float64 {
@@ -93,7 +96,7 @@ const (
 	FlagCurved       Flag = "curved-edge"    // the edge bows by more than 0.5 px over the region
 	FlagCritical     Flag = "critical-angle" // the slant samples the edge profile coarsely
 	FlagNoisy        Flag = "noisy"          // step below 20x the noise rms
-	FlagSharpened    Flag = "sharpened"      // edge profile overshoots by more than 5 % of the step
+	FlagSharpened    Flag = "sharpened"      // physical signs of sharpening beyond the noise (sharpen.go)
 )
 
 // Profile is a sampled curve across the edge: X in px along the normal
@@ -120,9 +123,16 @@ type Measurement struct {
 	BowPx     float64     `json:"bow_px"`     // deviation of the edge from a straight line over the region, px
 	PhasePx   float64     `json:"phase_px"`   // effective spacing of the edge profile's samples, px
 	Overshoot float64     `json:"overshoot"`  // largest excursion of the edge profile beyond its plateaus, fraction of the step
-	ESF       Profile     `json:"esf"`
-	LSF       Profile     `json:"lsf"`
-	Flags     []Flag      `json:"flags"`
+	// SE is the standard error of each Curve value from the plateau noise
+	// (refined: propagated through the transform, see stieltjes; iso: the
+	// same propagation through its bins and window).
+	SE []float64 `json:"mtf_se"`
+	// Sharpening holds the physical signs of sharpening found on the edge
+	// (sharpen.go); Signs is empty when none was found.
+	Sharpening Sharpening `json:"sharpening"`
+	ESF        Profile    `json:"esf"`
+	LSF        Profile    `json:"lsf"`
+	Flags      []Flag     `json:"flags"`
 }
 
 // ErrNoEdge is returned when a region holds no measurable straight edge.
@@ -146,7 +156,7 @@ func Measure(p *plane.Plane, r Region, opt Options) (*Measurement, error) {
 	var err error
 	switch opt.Method {
 	case ISO:
-		err = measureISO(m, p, r, freq)
+		err = measureISO(m, p, r, freq, math.Sqrt(0.5*(nDark*nDark+nLight*nLight)))
 	default:
 		err = measureRefined(m, fit, s, freq, nDark, nLight)
 	}
@@ -154,6 +164,10 @@ func Measure(p *plane.Plane, r Region, opt Options) (*Measurement, error) {
 		return nil, err
 	}
 	assess(m, s, fit, nDark, nLight)
+	judgeSharpening(m, s, fit, nDark, nLight, opt)
+	if len(m.Sharpening.Signs) > 0 {
+		m.Flags = append(m.Flags, FlagSharpened)
+	}
 	return m, nil
 }
 

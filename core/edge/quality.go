@@ -17,7 +17,6 @@ const (
 	maxPhasePx      = 0.2  // coarser phase sampling gets FlagCritical
 	minSNR          = 20   // lower step/noise gets FlagNoisy
 	minRatio        = 1.5  // lower light/dark gets FlagLowContrast
-	maxOvershoot    = 0.05 // larger profile overshoot gets FlagSharpened
 	clipFraction    = 0.02 // share of plateau pixels at a limit that counts as clipping
 	darkClipLevel   = 1e-6 // linear value at or below which a pixel sits at the bottom code
 	phaseReachPx    = 3.0  // the phase spacing is judged within this distance of the edge
@@ -95,7 +94,6 @@ func assess(m *Measurement, s samples, f lineFit, sdD, sdL float64) {
 	add(m.BowPx > maxBowPx, FlagCurved)
 	add(m.PhasePx > maxPhasePx, FlagCritical)
 	add(m.SNR < minSNR, FlagNoisy)
-	add(m.Overshoot > maxOvershoot, FlagSharpened)
 	if m.Flags == nil {
 		m.Flags = []Flag{}
 	}

@@ -138,16 +138,18 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 		t := math.Min(math.Max((p.v-dark)/step, 0), 1)
 		nv[i] = ((1-t)*sdDark*sdDark + t*sdLight*sdLight) / p.n
 	}
-	val := stieltjes(mid, wts, dv, nv, freq)
+	val, se := stieltjes(mid, wts, dv, nv, freq)
 	if val == nil {
 		return ErrNoEdge
 	}
 	for j, fr := range freq {
 		if corr := sinc(fr * h); corr > 0.5 {
 			val[j] /= corr
+			se[j] /= corr
 		}
 	}
 	m.Curve.Freq, m.Curve.Value = freq, val
+	m.SE = se
 	m.ESF, m.LSF = profiles(esf, lsfX, lsfV, dark, step, centre, b)
 	return nil
 }
@@ -159,14 +161,20 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 // so it contributes nv[j] |w[j-1] e(m[j-1]) - w[j] e(m[j])|^2. Phasors
 // advance by recurrence from one frequency to the next. It returns nil if
 // X(0) is not positive.
-func stieltjes(mid, wts, dv, nv, freq []float64) []float64 {
+//
+// It also returns the standard error of each value: noise of total power
+// P_n(f) in X(f) (complex, circular) puts half of it along the signal's
+// phasor, so |X| scatters by sqrt(P_n / 2) (first-order error propagation;
+// the noise on X(0) is negligible, the window being flat where the edge
+// changes), divided by X(0) as the value is.
+func stieltjes(mid, wts, dv, nv, freq []float64) (out, se []float64) {
 	k := len(mid)
 	var x0 float64
 	for i := range mid {
 		x0 += wts[i] * dv[i]
 	}
 	if !(x0 > 0) {
-		return nil
+		return nil, nil
 	}
 	step := 0.0
 	if len(freq) > 1 {
@@ -181,7 +189,8 @@ func stieltjes(mid, wts, dv, nv, freq []float64) []float64 {
 		s, c := math.Sincos(-2 * math.Pi * step * m)
 		sr[i], si[i] = c, s
 	}
-	out := make([]float64, len(freq))
+	out = make([]float64, len(freq))
+	se = make([]float64, len(freq))
 	for j := range freq {
 		if j > 0 {
 			for i := range zr {
@@ -210,10 +219,11 @@ func stieltjes(mid, wts, dv, nv, freq []float64) []float64 {
 				pn += nv[i] * (ar*ar + ai*ai)
 			}
 			p = math.Max(p-pn, 0)
+			se[j] = math.Sqrt(pn/2) / x0
 		}
 		out[j] = math.Sqrt(p) / x0
 	}
-	return out
+	return out, se
 }
 
 // merge averages the samples that fall into the same bin of finePx along
