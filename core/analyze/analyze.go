@@ -110,7 +110,10 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	}
 
 	progress(StageMeasuring, 0.3)
-	results := measureAll(ctx, dec, cands, chk.method, s.Workers, func(done int) {
+	// The comparison of edges with the diffraction limit depends on the
+	// pitch, so it is made when the records are placed (place), not here.
+	eopt := edge.Options{Method: chk.method}
+	results := measureAll(ctx, dec, cands, eopt, s.Workers, func(done int) {
 		progress(StageMeasuring, 0.3+0.6*float64(done)/float64(max(len(cands), 1)))
 	})
 	if err := ctx.Err(); err != nil {
@@ -222,6 +225,10 @@ func noTargets(rej []Rejected) error {
 	return fmt.Errorf("analyze: %w: %d candidates set aside, most often because: %s", ErrNoTargets, len(rej), best)
 }
 
+// fallbackSource is the pitch source of the fallback sensor size: a guess,
+// which the sharpening check does not compare with the diffraction limit.
+const fallbackSource = "assumed sensor size"
+
 // pitch chooses the pixel pitch of an image widthPx wide: the user's value,
 // else the sensor width over the image width, else the Exif focal-plane
 // resolution, else the fallback sensor's width over the image width.
@@ -236,7 +243,7 @@ func pitch(s Settings, widthPx int, tags exif.Tags) (float64, string, error) {
 		return p, "Exif focal-plane resolution", nil
 	}
 	if s.FallbackSensorMM[0] > 0 {
-		return s.FallbackSensorMM[0] * 1000 / float64(widthPx), "sensor size", nil
+		return s.FallbackSensorMM[0] * 1000 / float64(widthPx), fallbackSource, nil
 	}
 	return 0, "", errors.New("analyze: the pixel pitch is unknown: give it in um, or the sensor size in mm")
 }
@@ -248,7 +255,7 @@ type outcome struct {
 
 // measureAll measures every candidate, in parallel over workers goroutines
 // (in WebAssembly GOMAXPROCS is 1 and this runs sequentially).
-func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candidate, method edge.Method, workers int, done func(int)) []outcome {
+func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candidate, opt edge.Options, workers int, done func(int)) []outcome {
 	out := make([]outcome, len(cands))
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
@@ -263,7 +270,7 @@ func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candida
 		go func() {
 			defer wg.Done()
 			for i := range next {
-				out[i] = measureOne(dec, cands[i].Region, method)
+				out[i] = measureOne(dec, cands[i].Region, opt)
 				mu.Lock()
 				finished++
 				mu.Unlock()
@@ -289,13 +296,13 @@ func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candida
 
 // measureOne measures one region, turning a panic into an error so one bad
 // target cannot take the photo's analysis down.
-func measureOne(dec *decode.Image, r edge.Region, method edge.Method) (o outcome) {
+func measureOne(dec *decode.Image, r edge.Region, opt edge.Options) (o outcome) {
 	defer func() {
 		if p := recover(); p != nil {
 			o = outcome{err: fmt.Errorf("internal error: %v", p)}
 		}
 	}()
-	m, err := edge.Measure(dec.Lum, r, edge.Options{Method: method})
+	m, err := edge.Measure(dec.Lum, r, opt)
 	return outcome{m, err}
 }
 
@@ -348,17 +355,33 @@ func record(m *edge.Measurement, r edge.Region) Measurement {
 		Overshoot: m.Overshoot,
 		ESF:       m.ESF,
 		LSF:       m.LSF,
+		StdErr:    m.SE,
 	}
+	sh := m.Sharpening
+	rec.Sharpening = &sh
 	if m.Dark > 0 {
 		rec.Contrast = Number(m.Light / m.Dark)
 	} else {
 		rec.Contrast = Number(math.Inf(1))
 	}
 	for _, f := range m.Flags {
-		rec.Warnings = append(rec.Warnings, flagText[f])
+		text := flagText[f]
+		if f == edge.FlagSharpened {
+			text = sharpenedText(sh.MTF50Lift)
+		}
+		rec.Warnings = append(rec.Warnings, text)
 		rec.Flags = append(rec.Flags, string(f))
 	}
 	return rec
+}
+
+// sharpenedText is the warning of a sharpened edge, with the estimated
+// lift of MTF50 when there is one.
+func sharpenedText(lift float64) string {
+	if lift > 0 {
+		return flagText[edge.FlagSharpened] + fmt.Sprintf(" (MTF50 lifted by about %.0f %%)", 100*lift)
+	}
+	return flagText[edge.FlagSharpened]
 }
 
 // flagText words each quality flag for people.
@@ -370,5 +393,5 @@ var flagText = map[edge.Flag]string{
 	edge.FlagCurved:       "the edge is curved",
 	edge.FlagCritical:     "the slant samples the edge coarsely (near a critical angle)",
 	edge.FlagNoisy:        "noisy",
-	edge.FlagSharpened:    "the edge overshoots: in-camera sharpening inflates this MTF",
+	edge.FlagSharpened:    "signs of in-camera sharpening beyond the noise (the edge's profile dips below its plateaus, or its MTF exceeds what optics can transfer; very strong JPEG compression can also ring): sharpening inflates this MTF",
 }

@@ -19,7 +19,7 @@ type Image struct {
 	Width       int        `json:"width"`
 	Height      int        `json:"height"`
 	PitchUM     float64    `json:"pitch_um"`
-	PitchSource string     `json:"pitch_source"` // "user", "sensor size" or "Exif focal-plane resolution"
+	PitchSource string     `json:"pitch_source"` // "user", "sensor size", "Exif focal-plane resolution" or "assumed sensor size"
 	CenterPx    [2]float64 `json:"center_px"`
 	CornerMM    float64    `json:"corner_mm"` // largest image height in the frame, mm
 	Format      string     `json:"format"`
@@ -60,17 +60,22 @@ type Measurement struct {
 	Orientation field.Orientation `json:"orientation"`
 	// RadiusAngleDeg is the angle between the direction of measurement and
 	// the radius (0 = tangential, 90 = sagittal).
-	RadiusAngleDeg Number    `json:"radius_angle_deg"`
-	NormalDeg      float64   `json:"normal_deg"`
-	MTF50          Number    `json:"mtf50_cy_px"`
-	MTF50P         Number    `json:"mtf50p_cy_px"`
-	MTFNyquist     Number    `json:"mtf_nyquist"`
-	MTF50LPMM      Number    `json:"mtf50_lp_mm"`
-	MTFAtFreqs     []Number  `json:"mtf_at_freqs"` // at Image.FreqsLPMM
-	Freq           []float64 `json:"freq_cy_px"`
-	MTF            []float64 `json:"mtf"`
-	Warnings       []string  `json:"warnings"`
-	Flags          []string  `json:"flags"` // machine-readable quality flags behind the warnings
+	RadiusAngleDeg Number   `json:"radius_angle_deg"`
+	NormalDeg      float64  `json:"normal_deg"`
+	MTF50          Number   `json:"mtf50_cy_px"`
+	MTF50P         Number   `json:"mtf50p_cy_px"`
+	MTFNyquist     Number   `json:"mtf_nyquist"`
+	MTF50LPMM      Number   `json:"mtf50_lp_mm"`
+	MTFAtFreqs     []Number `json:"mtf_at_freqs"` // at Image.FreqsLPMM
+	// MTFAtFreqsSE and MTF50SE are the standard errors of MTFAtFreqs and
+	// MTF50 from the noise (mtf_std_err interpolated; MTF50's from the
+	// error at the crossing over the curve's slope there).
+	MTFAtFreqsSE []Number  `json:"mtf_at_freqs_se"`
+	MTF50SE      Number    `json:"mtf50_se_cy_px"`
+	Freq         []float64 `json:"freq_cy_px"`
+	MTF          []float64 `json:"mtf"`
+	Warnings     []string  `json:"warnings"`
+	Flags        []string  `json:"flags"` // machine-readable quality flags behind the warnings
 
 	Region    [4][2]float64 `json:"region_px"` // corners of the measured area
 	LengthPx  float64       `json:"length_px"`
@@ -80,11 +85,14 @@ type Measurement struct {
 	Overshoot float64       `json:"overshoot"`
 	ESF       edge.Profile  `json:"esf"`
 	LSF       edge.Profile  `json:"lsf"`
+	// Sharpening (edges only) holds the physical signs of sharpening found
+	// and the estimated lift of MTF50 (see edge.Sharpening).
+	Sharpening *edge.Sharpening `json:"sharpening,omitempty"`
 
 	// Sine-pattern records only (see sine.go).
 	PatternID    int            `json:"pattern_id,omitempty"`     // id in Image.Stars or Image.Gratings
 	MeasuredCyPx *[2]float64    `json:"measured_cy_px,omitempty"` // frequencies actually measured; outside, freq_cy_px holds no data
-	StdErr       []float64      `json:"mtf_std_err,omitempty"`    // standard error of each mtf value
+	StdErr       []float64      `json:"mtf_std_err,omitempty"`    // standard error of each mtf value (edges too)
 	Agreement    *StarAgreement `json:"agreement,omitempty"`      // stars: against nearby edges
 
 	// On Sagitta's chart (chart.go): the target's id ("sq12", "star0"), the

@@ -4,8 +4,10 @@ import (
 	"errors"
 	"math"
 	"sort"
+	"strings"
 
 	"sagitta/core/curve"
+	"sagitta/core/edge"
 	"sagitta/core/field"
 )
 
@@ -36,6 +38,7 @@ func summarise(img *Image, geo field.Geometry, base []string) error {
 	}
 	for i := range img.Measurements {
 		place(&img.Measurements[i], geo, img.FreqsLPMM)
+		diffractionCheck(&img.Measurements[i], img)
 	}
 	sort.SliceStable(img.Measurements, func(a, b int) bool {
 		return img.Measurements[a].HeightMM < img.Measurements[b].HeightMM
@@ -82,15 +85,72 @@ func place(m *Measurement, geo field.Geometry, freqs []float64) {
 	m.MTFNyquist = Number(c.AtNyquist())
 	m.MTF50LPMM = Number(curve.LPPerMM(float64(m.MTF50), geo.PitchUM))
 	m.MTFAtFreqs = make([]Number, len(freqs))
+	m.MTFAtFreqsSE = make([]Number, len(freqs))
+	var se curve.Curve
+	if len(m.StdErr) == len(m.Freq) {
+		se = curve.Curve{Freq: m.Freq, Value: m.StdErr}
+	}
 	for k, f := range freqs {
 		fc := curve.CyPerPx(f, geo.PitchUM)
-		v := math.NaN()
+		v, e := math.NaN(), math.NaN()
 		if fc >= lo && fc <= hi {
 			v = c.At(fc)
+			if se.Freq != nil {
+				e = se.At(fc)
+			}
 		}
 		m.MTFAtFreqs[k] = Number(v)
+		m.MTFAtFreqsSE[k] = Number(e)
+	}
+	m.MTF50SE = Number(math.NaN())
+	if se.Freq != nil && finite(float64(m.MTF50)) {
+		m.MTF50SE = Number(c.MTF50SE(m.StdErr))
 	}
 }
+
+// diffractionCheck sets or clears the sign "above-diffraction-limit" of an
+// edge record (and with the signs the flag "sharpened" and its warning)
+// for the image's pitch and its Exif f-number, when the pitch is not a
+// guess (see edge.Sharpening). It is idempotent, so Resummarise gives what
+// Run gives.
+func diffractionCheck(m *Measurement, img *Image) {
+	if m.Kind != "edge" || m.Sharpening == nil {
+		return
+	}
+	sh := new(edge.Sharpening) // a copy: Resummarise must not change its input
+	*sh = *m.Sharpening
+	m.Sharpening = sh
+	signs := sh.Signs[:0:0]
+	for _, s := range sh.Signs {
+		if s != edge.SignDiffraction {
+			signs = append(signs, s)
+		}
+	}
+	if img.PitchSource != fallbackSource &&
+		edge.AboveDiffraction(curve.Curve{Freq: m.Freq, Value: m.MTF}, m.StdErr, m.NormalDeg, img.Exif.FNumber, img.PitchUM) {
+		signs = append(signs, edge.SignDiffraction)
+	}
+	sh.Signs = signs
+	flag := string(edge.FlagSharpened)
+	flags, warns := m.Flags[:0:0], m.Warnings[:0:0]
+	for _, f := range m.Flags {
+		if f != flag {
+			flags = append(flags, f)
+		}
+	}
+	for _, w := range m.Warnings {
+		if !strings.HasPrefix(w, flagText[edge.FlagSharpened]) {
+			warns = append(warns, w)
+		}
+	}
+	if len(signs) > 0 {
+		flags = append(flags, flag)
+		warns = append(warns, sharpenedText(sh.MTF50Lift))
+	}
+	m.Flags, m.Warnings = flags, warns
+}
+
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
 // derivedWarnings are the image's warnings that summarise derives, in this
 // order: the chart's set-up checks, the disagreement of stars and edges,

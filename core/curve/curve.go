@@ -97,6 +97,25 @@ func (c Curve) Crossing(level float64) float64 {
 	return math.NaN()
 }
 
+// MTF50SE returns the standard error of MTF50 for standard errors se of
+// the values (same length as Value), by first-order propagation: an error
+// e in the values near the crossing moves it by e / |dMTF/df|, the slope
+// taken over +-0.02 cy/px around it. It returns NaN when MTF50 is not
+// found or the curve does not fall there.
+func (c Curve) MTF50SE(se []float64) float64 {
+	f50 := c.MTF50()
+	if math.IsNaN(f50) || len(se) != len(c.Freq) {
+		return math.NaN()
+	}
+	const h = 0.02
+	lo := math.Max(f50-h, c.Freq[0])
+	slope := (c.At(lo) - c.At(f50+h)) / (f50 + h - lo)
+	if !(slope > 0) {
+		return math.NaN()
+	}
+	return Curve{Freq: c.Freq, Value: se}.At(f50) / slope
+}
+
 // MTF50 is the frequency (cycles/pixel) where the response first falls to
 // 0.5 of its zero-frequency value (common practice).
 func (c Curve) MTF50() float64 { return c.Crossing(0.5) }

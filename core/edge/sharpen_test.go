@@ -1,7 +1,9 @@
 package edge
 
 import (
+	"bytes"
 	"fmt"
+	"image/jpeg"
 	"math"
 	"math/rand/v2"
 	"strings"
@@ -177,6 +179,33 @@ func TestUnsharpenedNotFlagged(t *testing.T) {
 						flagged++
 						t.Logf("false alarm: %s angle %g full well %g seed %d: signs %v lobe %.4f (%.1f se) snr %.0f", l.name, ang, fw, seed, m.Sharpening.Signs, m.Sharpening.LobeDepth, m.Sharpening.LobeZ, m.SNR)
 					}
+				}
+			}
+		}
+	}
+	// JPEG compression at qualities 75 to 95 rings at edges (up to 1 % of
+	// the step) but does not sharpen them.
+	for _, q := range []int{95, 85, 75} {
+		for _, sg := range []float64{0.5, 1} {
+			for seed := range uint64(seeds) {
+				cam := simcam.Camera{W: size, H: size, Lens: simcam.Fixed{PSF: simcam.Gaussian{Sigma1: sg, Sigma2: sg}},
+					Encoding: simcam.SRGB8, FullWellE: 30000, Seed: seed, JPEGQuality: q}
+				b, err := cam.Encode(simcam.HalfPlaneScene(size, size, 7, 0.08, 0.6))
+				if err != nil {
+					t.Fatal(err)
+				}
+				img, err := jpeg.Decode(bytes.NewReader(b))
+				if err != nil {
+					t.Fatal(err)
+				}
+				m, err := Measure(linearFromSRGB8(t, img), centred(size, 7, 60, 30), Options{})
+				if err != nil {
+					t.Fatal(err)
+				}
+				total++
+				if hasFlag(m, FlagSharpened) {
+					flagged++
+					t.Logf("false alarm: JPEG quality %d sigma %g seed %d: signs %v lobe %.4f (%.1f se)", q, sg, seed, m.Sharpening.Signs, m.Sharpening.LobeDepth, m.Sharpening.LobeZ)
 				}
 			}
 		}
