@@ -15,6 +15,7 @@ import (
 	"fmt"
 	"math"
 	"runtime"
+	"strings"
 	"sync"
 
 	"sagitta/core/decode"
@@ -222,6 +223,10 @@ func noTargets(rej []Rejected) error {
 			best, n = reason, c
 		}
 	}
+	if strings.HasPrefix(best, clippedReason) {
+		return fmt.Errorf("analyze: %w: %d candidates set aside, most often because: %s. %s", ErrNoTargets, len(rej), best,
+			exposureAdvice(&Image{Rejected: rej}).Text)
+	}
 	return fmt.Errorf("analyze: %w: %d candidates set aside, most often because: %s", ErrNoTargets, len(rej), best)
 }
 
@@ -312,7 +317,7 @@ func unusable(m *edge.Measurement) string {
 	for _, f := range m.Flags {
 		switch f {
 		case edge.FlagClippedDark, edge.FlagClippedLight:
-			return "clipped: the " + map[edge.Flag]string{edge.FlagClippedDark: "dark", edge.FlagClippedLight: "light"}[f] + " side reaches the limit of the file's values"
+			return clippedReason + "the " + map[edge.Flag]string{edge.FlagClippedDark: "dark", edge.FlagClippedLight: "light"}[f] + " side reaches the limit of the file's values"
 		}
 	}
 	if m.BowPx > maxBowPx {
@@ -320,6 +325,9 @@ func unusable(m *edge.Measurement) string {
 	}
 	return ""
 }
+
+// clippedReason begins the reason of an edge set aside for clipping.
+const clippedReason = "clipped: "
 
 // maxBowPx is the bow beyond which an edge is not taken as straight.
 const maxBowPx = 2.0
@@ -343,19 +351,20 @@ func plainError(err error) string {
 func record(m *edge.Measurement, r edge.Region) Measurement {
 	rec := Measurement{
 		Kind: "edge", XPx: m.X, YPx: m.Y,
-		NormalDeg: m.NormalDeg,
-		Freq:      m.Curve.Freq,
-		MTF:       m.Curve.Value,
-		Warnings:  []string{},
-		Flags:     []string{},
-		Region:    r.Corners(),
-		LengthPx:  m.LengthPx,
-		SlantDeg:  m.SlantDeg,
-		SNR:       Number(m.SNR),
-		Overshoot: m.Overshoot,
-		ESF:       m.ESF,
-		LSF:       m.LSF,
-		StdErr:    m.SE,
+		NormalDeg:  m.NormalDeg,
+		Freq:       m.Curve.Freq,
+		MTF:        m.Curve.Value,
+		Warnings:   []string{},
+		Flags:      []string{},
+		Region:     r.Corners(),
+		LengthPx:   m.LengthPx,
+		SlantDeg:   m.SlantDeg,
+		SNR:        Number(m.SNR),
+		Overshoot:  m.Overshoot,
+		ESF:        m.ESF,
+		LSF:        m.LSF,
+		StdErr:     m.SE,
+		DarkLinear: m.Dark, LightLinear: m.Light,
 	}
 	sh := m.Sharpening
 	rec.Sharpening = &sh
@@ -388,6 +397,7 @@ func sharpenedText(lift float64) string {
 var flagText = map[edge.Flag]string{
 	edge.FlagClippedDark:  "the dark side is clipped",
 	edge.FlagClippedLight: "the light side is clipped",
+	edge.FlagAtLimit:      "a side sits at the limit of the file's values (measured, but there is no room left above or below it)",
 	edge.FlagLowContrast:  "low contrast",
 	edge.FlagShortEdge:    "short edge",
 	edge.FlagCurved:       "the edge is curved",

@@ -33,6 +33,9 @@ type Image struct {
 	Measurements []Measurement `json:"measurements"`
 	Rejected     []Rejected    `json:"rejected"`
 	Warnings     []string      `json:"warnings"`
+	// Exposure is advice on the photo's exposure (also among Warnings),
+	// null when the exposure is fine (see ExposureAdvice).
+	Exposure *ExposureAdvice `json:"exposure"`
 
 	// Stars and Gratings detail the sine patterns behind the records of
 	// kind "star" and "grating" (see sine.go); Agreement compares stars
@@ -83,8 +86,12 @@ type Measurement struct {
 	SNR       Number        `json:"snr"`
 	Contrast  Number        `json:"contrast"` // light/dark ratio, linear
 	Overshoot float64       `json:"overshoot"`
-	ESF       edge.Profile  `json:"esf"`
-	LSF       edge.Profile  `json:"lsf"`
+	// DarkLinear and LightLinear are an edge's plateau levels (linear,
+	// 1 = full scale).
+	DarkLinear  float64      `json:"dark_linear,omitempty"`
+	LightLinear float64      `json:"light_linear,omitempty"`
+	ESF         edge.Profile `json:"esf"`
+	LSF         edge.Profile `json:"lsf"`
 	// Sharpening (edges only) holds the physical signs of sharpening found
 	// and the estimated lift of MTF50 (see edge.Sharpening).
 	Sharpening *edge.Sharpening `json:"sharpening,omitempty"`

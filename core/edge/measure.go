@@ -89,8 +89,9 @@ type Flag string
 // Quality flags. Each marks a condition under which the measured curve may
 // mislead; thresholds are documented in quality.go.
 const (
-	FlagClippedDark  Flag = "clipped-dark"   // the dark side touches the bottom code value
-	FlagClippedLight Flag = "clipped-light"  // the light side touches full scale
+	FlagClippedDark  Flag = "clipped-dark"   // the dark side lost signal below the bottom code value (see judgeClip)
+	FlagClippedLight Flag = "clipped-light"  // the light side lost signal above full scale (see judgeClip)
+	FlagAtLimit      Flag = "at-limit"       // a plateau sits at a limit of the file's values without loss (a caution)
 	FlagLowContrast  Flag = "low-contrast"   // light/dark ratio below 1.5
 	FlagShortEdge    Flag = "short-edge"     // fewer than 40 px of edge length
 	FlagCurved       Flag = "curved-edge"    // the edge bows by more than 0.5 px over the region
