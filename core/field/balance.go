@@ -318,11 +318,15 @@ func area(name string) string {
 	return "half"
 }
 
-// mostTelling returns the comparison (pooled, sagittal or tangential) whose
-// largest difference is largest relative to its threshold, with the
-// orientation's name ("" for pooled) and the index of its frequency (-1 if
-// none could be compared). A notable difference wins over one that is not.
+// mostTelling returns the comparison that speaks for a pair, with the
+// orientation's name ("" for pooled) and the index of its most telling
+// frequency (-1 if none could be compared): the pooled one when it is
+// notable or no orientation alone is, else the orientation whose
+// difference is largest relative to its threshold.
 func mostTelling(bp BalancePair) (ds []PairDiff, name string, best int) {
+	if i := bestFreqOf(bp.ByFreq); i >= 0 && bp.ByFreq[i].Notable {
+		return bp.ByFreq, "", i
+	}
 	best = -1
 	bestScore := -1.0
 	for _, c := range []struct {
