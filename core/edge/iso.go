@@ -46,7 +46,7 @@ import (
 // The standard error of each value follows from the plateau noise (noise
 // rms sd per pixel, so sd^2 / n in a bin of n pixels) propagated through the
 // central difference, the window and the transform as in stieltjes.
-func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64, sd float64) error {
+func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64, sd float64, shape noiseShape) error {
 	tx, ty, nx, ny := r.axes()
 	vertical := math.Abs(ty) >= math.Abs(tx) // edge nearer the vertical: rows cross it
 	// get(line, pos) reads the image with the line index along the edge's
@@ -260,6 +260,7 @@ func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64, sd flo
 			ai := 0.5 * (win[k-1]*ei[k-1] - win[k+1]*ei[k+1])
 			pn += sd * sd / math.Max(cnt[k], 1) * (ar*ar + ai*ai)
 		}
+		pn *= math.Max(shape.factor(f), 1) // conservative, as in stieltjes
 		mag := math.Hypot(re, im) / x0
 		e := math.Sqrt(pn/2) / x0
 		arg := 2 * math.Pi * f * dx

@@ -154,12 +154,15 @@ func Measure(p *plane.Plane, r Region, opt Options) (*Measurement, error) {
 	geometry(m, r, fit, s, flipped)
 	freq := opt.grid()
 	nDark, nLight := pairNoise(p, r, fit, flipped, coreWidth(fit))
+	shape := measureNoiseShape(p, r, fit, flipped, coreWidth(fit))
+	nDark *= shape.sdScale()
+	nLight *= shape.sdScale()
 	var err error
 	switch opt.Method {
 	case ISO:
-		err = measureISO(m, p, r, freq, math.Sqrt(0.5*(nDark*nDark+nLight*nLight)))
+		err = measureISO(m, p, r, freq, math.Sqrt(0.5*(nDark*nDark+nLight*nLight)), shape)
 	default:
-		err = measureRefined(m, fit, s, freq, nDark, nLight)
+		err = measureRefined(m, fit, s, freq, nDark, nLight, shape)
 	}
 	if err != nil {
 		return nil, err

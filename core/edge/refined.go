@@ -54,7 +54,7 @@ type point struct {
 	n    float64 // number of pixels merged
 }
 
-func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark, sdLight float64) error {
+func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark, sdLight float64, shape noiseShape) error {
 	n := len(s.v)
 	d := make([]float64, n)
 	reach := math.Inf(1) // distance to the nearest end of the sampled profile
@@ -138,7 +138,7 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 		t := math.Min(math.Max((p.v-dark)/step, 0), 1)
 		nv[i] = ((1-t)*sdDark*sdDark + t*sdLight*sdLight) / p.n
 	}
-	val, se := stieltjes(mid, wts, dv, nv, freq)
+	val, se := stieltjes(mid, wts, dv, nv, freq, shape.factor)
 	if val == nil {
 		return ErrNoEdge
 	}
@@ -167,7 +167,12 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 // phasor, so |X| scatters by sqrt(P_n / 2) (first-order error propagation;
 // the noise on X(0) is negligible, the window being flat where the edge
 // changes), divided by X(0) as the value is.
-func stieltjes(mid, wts, dv, nv, freq []float64) (out, se []float64) {
+//
+// shape(f) scales the noise power for noise that is not white (see
+// noisepsd.go): the variances nv are those of the pixels' own noise, and
+// shape(f) is the noise spectrum at f relative to white noise of that
+// variance (1 for white noise).
+func stieltjes(mid, wts, dv, nv, freq []float64, shape func(float64) float64) (out, se []float64) {
 	k := len(mid)
 	var x0 float64
 	for i := range mid {
@@ -218,8 +223,13 @@ func stieltjes(mid, wts, dv, nv, freq []float64) (out, se []float64) {
 				}
 				pn += nv[i] * (ar*ar + ai*ai)
 			}
-			p = math.Max(p-pn, 0)
-			se[j] = math.Sqrt(pn/2) / x0
+			// The shaped power is subtracted; the standard error takes
+			// the larger of the shaped and the white power, because the
+			// shaping leaves out what the window's taper leaks between
+			// frequencies (see noisepsd.go).
+			ps := pn * shape(freq[j])
+			p = math.Max(p-ps, 0)
+			se[j] = math.Sqrt(math.Max(pn, ps)/2) / x0
 		}
 		out[j] = math.Sqrt(p) / x0
 	}
