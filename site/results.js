@@ -525,7 +525,7 @@ function cautions(r) {
     'A poor result first means: repeat the shot and check the set-up. Only a result that repeats says something about the lens, and a repair or warranty question belongs with the maker\'s service.',
   ];
   if (r.summary && r.summary.cautions) items.splice(0, items.length, ...r.summary.cautions);
-  if (r.measurements.some((m) => (m.flags || []).includes('sharpened'))) items.push('Some edges overshoot: sharpening in the camera or the converter raises these numbers. Compare only photos processed the same way.');
+  if (r.measurements.some((m) => (m.flags || []).includes('sharpened'))) items.push('Some edges show signs of sharpening (their profile dips below its plateaus, or their MTF exceeds what optics can transfer): sharpening in the camera or the converter raises these numbers. Compare only photos processed the same way.');
   if (r.format === 'jpeg') items.push('JPEG files carry the camera\'s processing and compression. A raw file converted without sharpening measures the lens more faithfully.');
   for (const t of items) ul.append(el('li', {}, t));
   sec.append(ul);
