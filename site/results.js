@@ -294,9 +294,12 @@ function renderDetail() {
   row('Position', `${fmt(m.x_px, 1)}, ${fmt(m.y_px, 1)} px`);
   row('From the centre', `${fmt(m.height_mm, 2)} mm (${Math.round((100 * m.height_mm) / r.corner_mm)} % of the way to a corner)`);
   row('Orientation', `${m.orientation}: measured ${fmt(m.radius_angle_deg, 0)}° from the radius`);
-  row('MTF50', fmtFreq(m.mtf50_cy_px, units, r));
+  // Standard errors from the noise, where the core gives them.
+  const pm = (se, d) => (Number.isFinite(se) ? ` ± ${se < 0.5 * 10 ** -d ? '<' + 10 ** -d : fmt(se, d)}` : '');
+  const se50 = Number.isFinite(m.mtf50_se_cy_px) && Number.isFinite(m.mtf50_cy_px) && m.mtf50_cy_px > 0 ? m.mtf50_se_cy_px / m.mtf50_cy_px : NaN;
+  row('MTF50', fmtFreq(m.mtf50_cy_px, units, r) + (Number.isFinite(se50) ? ` ± ${fmt(100 * se50, 1)} %` : ''));
   row('MTF50P', fmtFreq(m.mtf50p_cy_px, units, r));
-  r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, fmt(m.mtf_at_freqs[i], 3)));
+  r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, fmt(m.mtf_at_freqs[i], 3) + pm((m.mtf_at_freqs_se || [])[i], 3)));
   row('MTF at Nyquist', fmt(m.mtf_nyquist, 3));
   if (m.kind === 'edge') {
     row('Edge', `${fmt(m.length_px, 0)} px long, slanted ${fmt(m.slant_deg, 1)}°, contrast ${fmt(m.contrast, 1)}:1` + (Number.isFinite(m.snr) ? `, signal/noise ${fmt(m.snr, 0)}` : ''));
