@@ -191,6 +191,8 @@ func placeFrame(img *Image, s Settings, freqs []float64) (field.Geometry, error)
 	if err != nil {
 		return field.Geometry{}, err
 	}
+	_, fromExif := exifPitch(img.Exif)
+	img.PitchAssumed = !(s.PitchUM > 0 || s.SensorMM[0] > 0 || fromExif)
 	geo := field.NewGeometry(img.Width, img.Height, img.PitchUM)
 	if s.CenterPx != nil {
 		geo.CenterX, geo.CenterY = s.CenterPx[0], s.CenterPx[1]
@@ -230,10 +232,6 @@ func noTargets(rej []Rejected) error {
 	return fmt.Errorf("analyze: %w: %d candidates set aside, most often because: %s", ErrNoTargets, len(rej), best)
 }
 
-// fallbackSource is the pitch source of the fallback sensor size: a guess,
-// which the sharpening check does not compare with the diffraction limit.
-const fallbackSource = "assumed sensor size"
-
 // pitch chooses the pixel pitch of an image widthPx wide: the user's value,
 // else the sensor width over the image width, else the Exif focal-plane
 // resolution, else the fallback sensor's width over the image width.
@@ -244,13 +242,20 @@ func pitch(s Settings, widthPx int, tags exif.Tags) (float64, string, error) {
 	case s.SensorMM[0] > 0:
 		return s.SensorMM[0] * 1000 / float64(widthPx), "sensor size", nil
 	}
-	if p, ok := tags.PixelPitchUM(); ok && p > 0.3 && p < 50 {
+	if p, ok := exifPitch(tags); ok {
 		return p, "Exif focal-plane resolution", nil
 	}
 	if s.FallbackSensorMM[0] > 0 {
-		return s.FallbackSensorMM[0] * 1000 / float64(widthPx), fallbackSource, nil
+		return s.FallbackSensorMM[0] * 1000 / float64(widthPx), "sensor size", nil
 	}
 	return 0, "", errors.New("analyze: the pixel pitch is unknown: give it in um, or the sensor size in mm")
+}
+
+// exifPitch returns the pixel pitch the Exif focal-plane resolution gives,
+// if it is usable.
+func exifPitch(tags exif.Tags) (float64, bool) {
+	p, ok := tags.PixelPitchUM()
+	return p, ok && p > 0.3 && p < 50
 }
 
 type outcome struct {

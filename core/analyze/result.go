@@ -15,20 +15,23 @@ type Result struct {
 
 // Image is the analysis of one photo.
 type Image struct {
-	File        string     `json:"file"`
-	Width       int        `json:"width"`
-	Height      int        `json:"height"`
-	PitchUM     float64    `json:"pitch_um"`
-	PitchSource string     `json:"pitch_source"` // "user", "sensor size", "Exif focal-plane resolution" or "assumed sensor size"
-	CenterPx    [2]float64 `json:"center_px"`
-	CornerMM    float64    `json:"corner_mm"` // largest image height in the frame, mm
-	Format      string     `json:"format"`
-	BitDepth    int        `json:"bit_depth"`
-	Tone        string     `json:"tone"`
-	ToneSource  string     `json:"tone_source"`
-	Method      string     `json:"method"`
-	FreqsLPMM   []float64  `json:"freqs_lp_mm"` // the field frequencies used for summaries
-	Exif        exif.Tags  `json:"exif"`
+	File        string  `json:"file"`
+	Width       int     `json:"width"`
+	Height      int     `json:"height"`
+	PitchUM     float64 `json:"pitch_um"`
+	PitchSource string  `json:"pitch_source"` // "user", "sensor size" or "Exif focal-plane resolution"
+	// PitchAssumed is true when the pitch comes from the fallback sensor
+	// size (a guess), not from the user, a sensor size given or Exif.
+	PitchAssumed bool       `json:"pitch_assumed"`
+	CenterPx     [2]float64 `json:"center_px"`
+	CornerMM     float64    `json:"corner_mm"` // largest image height in the frame, mm
+	Format       string     `json:"format"`
+	BitDepth     int        `json:"bit_depth"`
+	Tone         string     `json:"tone"`
+	ToneSource   string     `json:"tone_source"`
+	Method       string     `json:"method"`
+	FreqsLPMM    []float64  `json:"freqs_lp_mm"` // the field frequencies used for summaries
+	Exif         exif.Tags  `json:"exif"`
 
 	Measurements []Measurement `json:"measurements"`
 	Rejected     []Rejected    `json:"rejected"`

@@ -329,8 +329,8 @@ func TestPitch(t *testing.T) {
 		{"user", Settings{PitchUM: 4.3, SensorMM: [2]float64{36, 24}}, good, 4.3, "user"},
 		{"sensor", Settings{SensorMM: [2]float64{36, 24}, FallbackSensorMM: [2]float64{24, 16}}, good, 6, "sensor size"},
 		{"Exif", Settings{FallbackSensorMM: [2]float64{24, 16}}, good, 6, "Exif focal-plane resolution"},
-		{"fallback: Exif out of range", Settings{FallbackSensorMM: [2]float64{24, 16}}, bad, 4, "assumed sensor size"},
-		{"fallback: no Exif", Settings{FallbackSensorMM: [2]float64{24, 16}}, exif.Tags{}, 4, "assumed sensor size"},
+		{"fallback: Exif out of range", Settings{FallbackSensorMM: [2]float64{24, 16}}, bad, 4, "sensor size"},
+		{"fallback: no Exif", Settings{FallbackSensorMM: [2]float64{24, 16}}, exif.Tags{}, 4, "sensor size"},
 		{"none", Settings{}, bad, 0, ""},
 	}
 	const tol = 1e-9

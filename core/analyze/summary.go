@@ -130,7 +130,7 @@ func diffractionCheck(m *Measurement, img *Image) {
 			signs = append(signs, s)
 		}
 	}
-	if img.PitchSource != fallbackSource &&
+	if !img.PitchAssumed &&
 		edge.AboveDiffraction(curve.Curve{Freq: m.Freq, Value: m.MTF}, m.StdErr, m.NormalDeg, img.Exif.FNumber, img.PitchUM) {
 		signs = append(signs, edge.SignDiffraction)
 	}
