@@ -289,9 +289,12 @@ function renderDetail() {
   row('Position', `${fmt(m.x_px, 1)}, ${fmt(m.y_px, 1)} px`);
   row('Distance from the optical centre', `${fmt(m.height_mm, 2)} mm (${Math.round((100 * m.height_mm) / r.corner_mm)} % of the way to a corner)`);
   row('Orientation', `${m.orientation}: measured ${fmt(m.radius_angle_deg, 0)}° from the radius`);
-  row('MTF50', fmtFreq(m.mtf50_cy_px, units, r), 'MTF50');
+  // Standard errors from the noise, where the core gives them.
+  const pm = (se, d) => (Number.isFinite(se) ? ` ± ${se < 0.5 * 10 ** -d ? '<' + 10 ** -d : fmt(se, d)}` : '');
+  const se50 = Number.isFinite(m.mtf50_se_cy_px) && Number.isFinite(m.mtf50_cy_px) && m.mtf50_cy_px > 0 ? m.mtf50_se_cy_px / m.mtf50_cy_px : NaN;
+  row('MTF50', fmtFreq(m.mtf50_cy_px, units, r) + (Number.isFinite(se50) ? ` ± ${fmt(100 * se50, 1)} %` : ''), 'MTF50');
   row('MTF50P', fmtFreq(m.mtf50p_cy_px, units, r), 'MTF50P');
-  r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, Number.isFinite(m.mtf_at_freqs[i]) || !m.measured_cy_px ? fmt(m.mtf_at_freqs[i], 3)
+  r.freqs_lp_mm.forEach((f, i) => row(`MTF at ${f} lp/mm`, Number.isFinite(m.mtf_at_freqs[i]) || !m.measured_cy_px ? fmt(m.mtf_at_freqs[i], 3) + pm((m.mtf_at_freqs_se || [])[i], 3)
     : `n/a: beyond the frequencies this ${m.kind === 'star' ? 'star' : 'set of gratings'} measured (${fmtFreq(m.measured_cy_px[0], 'lpmm', r, false)}–${fmtFreq(m.measured_cy_px[1], 'lpmm', r)})`));
   row('MTF at Nyquist', fmt(m.mtf_nyquist, 3), 'Nyquist');
   // Raw photos: the edge on each colour plane of the mosaic (the curve above is green's).
@@ -542,7 +545,7 @@ function cautions(r) {
     'A poor result first means: repeat the shot and check the set-up. Only a result that repeats says something about the lens, and a repair or warranty question belongs with the maker\'s service.',
   ];
   if (r.summary && r.summary.cautions) items.splice(0, items.length, ...r.summary.cautions);
-  if (r.measurements.some((m) => (m.flags || []).includes('sharpened'))) items.push('Some edges overshoot: sharpening in the camera or the converter raises these numbers. Compare only photos processed the same way.');
+  if (r.measurements.some((m) => (m.flags || []).includes('sharpened'))) items.push('Some edges show signs of sharpening (their profile dips below its plateaus, or their MTF exceeds what optics can transfer): sharpening in the camera or the converter raises these numbers. Compare only photos processed the same way.');
   if (r.format === 'jpeg') items.push('JPEG files carry the camera\'s processing and compression. A raw file converted without sharpening measures the lens more faithfully.');
   for (const t of items) ul.append(el('li', {}, t));
   sec.append(ul);

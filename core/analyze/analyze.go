@@ -15,9 +15,10 @@ import (
 	"fmt"
 	"math"
 	"runtime"
-	"sagitta/core/chart"
+	"strings"
 	"sync"
 
+	"sagitta/core/chart"
 	"sagitta/core/decode"
 	"sagitta/core/edge"
 	"sagitta/core/edgefind"
@@ -120,7 +121,10 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	}
 
 	progress(StageMeasuring, 0.3)
-	results := measureAll(ctx, dec, cands, chk.method, s.Workers, func(done int) {
+	// The comparison of edges with the diffraction limit depends on the
+	// pitch, so it is made when the records are placed (place), not here.
+	eopt := edge.Options{Method: chk.method}
+	results := measureAll(ctx, dec, cands, eopt, s.Workers, func(done int) {
 		progress(StageMeasuring, 0.3+0.6*float64(done)/float64(max(len(cands), 1)))
 	})
 	if err := ctx.Err(); err != nil {
@@ -202,6 +206,8 @@ func placeFrame(img *Image, s Settings, freqs []float64) (field.Geometry, error)
 	if err != nil {
 		return field.Geometry{}, err
 	}
+	_, fromExif := exifPitch(img.Exif.tags())
+	img.PitchAssumed = !(s.PitchUM > 0 || s.SensorMM[0] > 0 || fromExif)
 	geo := field.NewGeometry(img.Width, img.Height, img.PitchUM)
 	if s.CentrePx != nil {
 		geo.CentreX, geo.CentreY = s.CentrePx[0], s.CentrePx[1]
@@ -234,6 +240,10 @@ func noTargets(rej []Rejected) error {
 			best, n = reason, c
 		}
 	}
+	if strings.HasPrefix(best, clippedReason) {
+		return fmt.Errorf("analyze: %w: %d candidates set aside, most often because: %s. %s", ErrNoTargets, len(rej), best,
+			exposureAdvice(&Image{Rejected: rej}).Text)
+	}
 	return fmt.Errorf("analyze: %w: %d candidates set aside, most often because: %s", ErrNoTargets, len(rej), best)
 }
 
@@ -247,13 +257,20 @@ func pitch(s Settings, widthPx int, tags exif.Tags) (float64, string, note.Code,
 	case s.SensorMM[0] > 0:
 		return s.SensorMM[0] * 1000 / float64(widthPx), "sensor size", note.PitchSensor, nil
 	}
-	if p, ok := tags.PixelPitchUM(); ok && p > 0.3 && p < 50 {
+	if p, ok := exifPitch(tags); ok {
 		return p, "Exif focal-plane resolution", note.PitchExif, nil
 	}
 	if s.FallbackSensorMM[0] > 0 {
 		return s.FallbackSensorMM[0] * 1000 / float64(widthPx), "sensor size", note.PitchSensor, nil
 	}
 	return 0, "", "", errors.New("analyze: the pixel pitch is unknown: give it in um, or the sensor size in mm")
+}
+
+// exifPitch returns the pixel pitch the Exif focal-plane resolution gives,
+// if it is usable.
+func exifPitch(tags exif.Tags) (float64, bool) {
+	p, ok := tags.PixelPitchUM()
+	return p, ok && p > 0.3 && p < 50
 }
 
 type outcome struct {
@@ -264,7 +281,7 @@ type outcome struct {
 
 // measureAll measures every candidate, in parallel over workers goroutines
 // (in WebAssembly GOMAXPROCS is 1 and this runs sequentially).
-func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candidate, method edge.Method, workers int, done func(int)) []outcome {
+func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candidate, opt edge.Options, workers int, done func(int)) []outcome {
 	out := make([]outcome, len(cands))
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
@@ -275,7 +292,7 @@ func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candida
 		if ctx.Err() != nil {
 			return // cancelled: Run returns ctx.Err() and drops out
 		}
-		out[i] = measureOne(dec, cands[i].Region, method)
+		out[i] = measureOne(dec, cands[i].Region, opt)
 		mu.Lock()
 		finished++
 		if workers == 1 || finished%8 == 0 {
@@ -288,17 +305,17 @@ func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candida
 
 // measureOne measures one region, turning a panic into an error so one bad
 // target cannot take the photo's analysis down.
-func measureOne(dec *decode.Image, r edge.Region, method edge.Method) (o outcome) {
+func measureOne(dec *decode.Image, r edge.Region, opt edge.Options) (o outcome) {
 	defer func() {
 		if p := recover(); p != nil {
 			o = outcome{err: fmt.Errorf("internal error: %v", p)}
 		}
 	}()
 	if dec.Raw != nil {
-		m, chans, err := measureRaw(dec, r, method)
+		m, chans, err := measureRaw(dec, r, opt.Method)
 		return outcome{m, chans, err}
 	}
-	m, err := edge.Measure(dec.Lum, r, edge.Options{Method: method})
+	m, err := edge.Measure(dec.Lum, r, opt)
 	return outcome{m: m, err: err}
 }
 
@@ -308,7 +325,7 @@ func unusable(m *edge.Measurement) (note.Note, bool) {
 	for _, f := range m.Flags {
 		switch f {
 		case edge.FlagClippedDark, edge.FlagClippedLight:
-			return note.New(note.Clipped, "clipped: the "+map[edge.Flag]string{edge.FlagClippedDark: "dark", edge.FlagClippedLight: "light"}[f]+" side reaches the limit of the file's values"), true
+			return note.New(note.Clipped, clippedReason+"the "+map[edge.Flag]string{edge.FlagClippedDark: "dark", edge.FlagClippedLight: "light"}[f]+" side reaches the limit of the file's values"), true
 		}
 	}
 	if m.BowPx > maxBowPx {
@@ -316,6 +333,9 @@ func unusable(m *edge.Measurement) (note.Note, bool) {
 	}
 	return note.Note{}, false
 }
+
+// clippedReason begins the reason of an edge set aside for clipping.
+const clippedReason = "clipped: "
 
 // maxBowPx is the bow beyond which an edge is not taken as straight.
 const maxBowPx = 2.0
@@ -339,39 +359,57 @@ func plainError(err error) string {
 func record(m *edge.Measurement, r edge.Region) Measurement {
 	rec := Measurement{
 		Kind: "edge", XPx: m.X, YPx: m.Y,
-		NormalDeg: m.NormalDeg,
-		Freq:      m.Curve.Freq,
-		MTF:       m.Curve.Value,
-		Warnings:  []string{},
-		Flags:     []string{},
-		Region:    r.Corners(),
-		LengthPx:  m.LengthPx,
-		SlantDeg:  m.SlantDeg,
-		SNR:       Number(m.SNR),
-		Overshoot: m.Overshoot,
-		ESF:       profileOf(m.ESF),
-		LSF:       profileOf(m.LSF),
+		NormalDeg:  m.NormalDeg,
+		Freq:       m.Curve.Freq,
+		MTF:        m.Curve.Value,
+		Warnings:   []string{},
+		Flags:      []string{},
+		Region:     r.Corners(),
+		LengthPx:   m.LengthPx,
+		SlantDeg:   m.SlantDeg,
+		SNR:        Number(m.SNR),
+		Overshoot:  m.Overshoot,
+		ESF:        profileOf(m.ESF),
+		LSF:        profileOf(m.LSF),
+		StdErr:     m.SE,
+		DarkLinear: m.Dark, LightLinear: m.Light,
 	}
+	sh := Sharpening(m.Sharpening)
+	rec.Sharpening = &sh
 	if m.Dark > 0 {
 		rec.Contrast = Number(m.Light / m.Dark)
 	} else {
 		rec.Contrast = Number(math.Inf(1))
 	}
 	for _, f := range m.Flags {
-		rec.Warnings = append(rec.Warnings, flagText[f])
+		text := flagText[f]
+		if f == edge.FlagSharpened {
+			text = sharpenedText(sh.MTF50Lift)
+		}
+		rec.Warnings = append(rec.Warnings, text)
 		rec.Flags = append(rec.Flags, string(f))
 	}
 	return rec
+}
+
+// sharpenedText is the warning of a sharpened edge, with the estimated
+// lift of MTF50 when there is one.
+func sharpenedText(lift float64) string {
+	if lift > 0 {
+		return flagText[edge.FlagSharpened] + fmt.Sprintf(" (MTF50 lifted by about %.0f %%)", 100*lift)
+	}
+	return flagText[edge.FlagSharpened]
 }
 
 // flagText words each quality flag for people.
 var flagText = map[edge.Flag]string{
 	edge.FlagClippedDark:  "the dark side is clipped",
 	edge.FlagClippedLight: "the light side is clipped",
+	edge.FlagAtLimit:      "a side sits at the limit of the file's values (measured, but there is no room left above or below it)",
 	edge.FlagLowContrast:  "low contrast",
 	edge.FlagShortEdge:    "short edge",
 	edge.FlagCurved:       "the edge is curved",
 	edge.FlagCritical:     "the slant samples the edge coarsely (near a critical angle)",
 	edge.FlagNoisy:        "noisy",
-	edge.FlagSharpened:    "the edge overshoots: in-camera sharpening inflates this MTF",
+	edge.FlagSharpened:    "signs of in-camera sharpening beyond the noise (the edge's profile dips below its plateaus, or its MTF exceeds what optics can transfer; very strong JPEG compression can also ring): sharpening inflates this MTF",
 }

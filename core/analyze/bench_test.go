@@ -63,7 +63,7 @@ func BenchmarkWholePhoto(b *testing.B) {
 	b.Run("measure", func(b *testing.B) {
 		b.ReportAllocs()
 		for i := 0; i < b.N; i++ {
-			measureAll(context.Background(), dec, cands, edge.Refined, 0, func(int) {})
+			measureAll(context.Background(), dec, cands, edge.Options{}, 0, func(int) {})
 		}
 	})
 	b.Run("all", func(b *testing.B) {

@@ -29,28 +29,34 @@ type Result struct {
 
 // Image is the analysis of one photo.
 type Image struct {
-	File        string     `json:"file"`
-	Width       int        `json:"width"`
-	Height      int        `json:"height"`
-	PitchUM     float64    `json:"pitch_um"`
-	PitchSource string     `json:"pitch_source"` // "user", "sensor size" or "Exif focal-plane resolution"
-	PitchFrom   string     `json:"pitch_from"`   // its code: "user", "sensor" or "exif" (core/note)
-	CentrePx    [2]float64 `json:"center_px"`
-	CornerMM    float64    `json:"corner_mm"` // largest image height in the frame, mm
-	Format      string     `json:"format"`
-	BitDepth    int        `json:"bit_depth"`
-	Tone        string     `json:"tone"`
-	ToneSource  string     `json:"tone_source"`
-	ToneFrom    string     `json:"tone_from"` // its code: "user", "file" or "default" (core/note)
-	ToneFit     *ToneFit   `json:"tone_fit"`  // the tone curve read from the chart's grey steps (tone.go); null without them
-	Method      string     `json:"method"`
-	FreqsLPMM   []float64  `json:"freqs_lp_mm"` // the field frequencies used for summaries
-	Exif        ExifTags   `json:"exif"`
+	File        string  `json:"file"`
+	Width       int     `json:"width"`
+	Height      int     `json:"height"`
+	PitchUM     float64 `json:"pitch_um"`
+	PitchSource string  `json:"pitch_source"` // "user", "sensor size" or "Exif focal-plane resolution"
+	PitchFrom   string  `json:"pitch_from"`   // its code: "user", "sensor" or "exif" (core/note)
+	// PitchAssumed is true when the pitch comes from the fallback sensor
+	// size (a guess), not from the user, a sensor size given or Exif.
+	PitchAssumed bool       `json:"pitch_assumed"`
+	CentrePx     [2]float64 `json:"center_px"`
+	CornerMM     float64    `json:"corner_mm"` // largest image height in the frame, mm
+	Format       string     `json:"format"`
+	BitDepth     int        `json:"bit_depth"`
+	Tone         string     `json:"tone"`
+	ToneSource   string     `json:"tone_source"`
+	ToneFrom     string     `json:"tone_from"` // its code: "user", "file" or "default" (core/note)
+	ToneFit      *ToneFit   `json:"tone_fit"`  // the tone curve read from the chart's grey steps (tone.go); null without them
+	Method       string     `json:"method"`
+	FreqsLPMM    []float64  `json:"freqs_lp_mm"` // the field frequencies used for summaries
+	Exif         ExifTags   `json:"exif"`
 
 	Measurements []Measurement `json:"measurements"`
 	Rejected     []Rejected    `json:"rejected"` // "set aside" on the page and in the text report
 	Warnings     []string      `json:"warnings"`
 	WarningCodes []string      `json:"warning_codes"` // aligned with Warnings (core/note)
+	// Exposure is advice on the photo's exposure (also among Warnings),
+	// null when the exposure is fine (see ExposureAdvice).
+	Exposure *ExposureAdvice `json:"exposure"`
 
 	// Stars and Gratings detail the sine patterns behind the records of
 	// kind "star" and "grating" (see sine.go); Agreement compares stars
@@ -81,17 +87,22 @@ type Measurement struct {
 	Orientation field.Orientation `json:"orientation"`
 	// RadiusAngleDeg is the angle between the direction of measurement and
 	// the radius (0 = tangential, 90 = sagittal).
-	RadiusAngleDeg Number    `json:"radius_angle_deg"`
-	NormalDeg      float64   `json:"normal_deg"`
-	MTF50          Number    `json:"mtf50_cy_px"`
-	MTF50P         Number    `json:"mtf50p_cy_px"`
-	MTFNyquist     Number    `json:"mtf_nyquist"`
-	MTF50LPMM      Number    `json:"mtf50_lp_mm"`
-	MTFAtFreqs     []Number  `json:"mtf_at_freqs"` // at Image.FreqsLPMM
-	Freq           []float64 `json:"freq_cy_px"`
-	MTF            []float64 `json:"mtf"`
-	Warnings       []string  `json:"warnings"`
-	Flags          []string  `json:"flags"` // machine-readable quality flags behind the warnings
+	RadiusAngleDeg Number   `json:"radius_angle_deg"`
+	NormalDeg      float64  `json:"normal_deg"`
+	MTF50          Number   `json:"mtf50_cy_px"`
+	MTF50P         Number   `json:"mtf50p_cy_px"`
+	MTFNyquist     Number   `json:"mtf_nyquist"`
+	MTF50LPMM      Number   `json:"mtf50_lp_mm"`
+	MTFAtFreqs     []Number `json:"mtf_at_freqs"` // at Image.FreqsLPMM
+	// MTFAtFreqsSE and MTF50SE are the standard errors of MTFAtFreqs and
+	// MTF50 from the noise (mtf_std_err interpolated; MTF50's from the
+	// error at the crossing over the curve's slope there).
+	MTFAtFreqsSE []Number  `json:"mtf_at_freqs_se"`
+	MTF50SE      Number    `json:"mtf50_se_cy_px"`
+	Freq         []float64 `json:"freq_cy_px"`
+	MTF          []float64 `json:"mtf"`
+	Warnings     []string  `json:"warnings"`
+	Flags        []string  `json:"flags"` // machine-readable quality flags behind the warnings
 
 	Region    [4][2]float64 `json:"region_px"` // corners of the measured area
 	LengthPx  float64       `json:"length_px"`
@@ -101,6 +112,13 @@ type Measurement struct {
 	Overshoot float64       `json:"overshoot"`
 	ESF       Profile       `json:"esf"`
 	LSF       Profile       `json:"lsf"`
+	// DarkLinear and LightLinear are an edge's plateau levels (linear,
+	// 1 = full scale).
+	DarkLinear  float64 `json:"dark_linear,omitempty"`
+	LightLinear float64 `json:"light_linear,omitempty"`
+	// Sharpening (edges only) holds the physical signs of sharpening found
+	// and the estimated lift of MTF50 (edge.Sharpening).
+	Sharpening *Sharpening `json:"sharpening,omitempty"`
 
 	// Channels holds a raw photo's edge measured on each colour plane
 	// (raw.go); the record's own curve is then green's.
@@ -109,7 +127,7 @@ type Measurement struct {
 	// Sine-pattern records only (see sine.go).
 	PatternID    int            `json:"pattern_id,omitempty"`     // id in Image.Stars or Image.Gratings
 	MeasuredCyPx *[2]float64    `json:"measured_cy_px,omitempty"` // frequencies actually measured; outside, freq_cy_px holds no data
-	StdErr       []float64      `json:"mtf_std_err,omitempty"`    // standard error of each mtf value
+	StdErr       []float64      `json:"mtf_std_err,omitempty"`    // standard error of each mtf value (edges too)
 	Agreement    *StarAgreement `json:"agreement,omitempty"`      // stars: against nearby edges
 
 	// On Sagitta's chart (chart.go): the target's id ("sq12", "star0"), the
@@ -502,11 +520,13 @@ type Balance struct {
 
 // BalancePair is one pair of opposite parts (field.BalancePair).
 type BalancePair struct {
-	A       string     `json:"a"`
-	B       string     `json:"b"`
-	ByFreq  []PairDiff `json:"by_freq"`
-	Verdict string     `json:"verdict"`
-	Text    string     `json:"text"`
+	A            string     `json:"a"`
+	B            string     `json:"b"`
+	ByFreq       []PairDiff `json:"by_freq"`
+	BySagittal   []PairDiff `json:"by_freq_sagittal"`
+	ByTangential []PairDiff `json:"by_freq_tangential"`
+	Verdict      string     `json:"verdict"`
+	Text         string     `json:"text"`
 }
 
 // PairDiff is a pair's difference at one frequency (field.PairDiff).
@@ -562,8 +582,9 @@ func SummaryOf(s *field.Summary) *Summary {
 		Balance: Balance{
 			Verdict: s.Balance.Verdict, Text: s.Balance.Text, Caution: s.Balance.Caution, FromHeightMM: s.Balance.FromHeightMM,
 			Pairs: convert(s.Balance.Pairs, func(p field.BalancePair) BalancePair {
+				d := func(d field.PairDiff) PairDiff { return PairDiff(d) }
 				return BalancePair{A: p.A, B: p.B, Verdict: p.Verdict, Text: p.Text,
-					ByFreq: convert(p.ByFreq, func(d field.PairDiff) PairDiff { return PairDiff(d) })}
+					ByFreq: convert(p.ByFreq, d), BySagittal: convert(p.BySagittal, d), ByTangential: convert(p.ByTangential, d)}
 			}),
 			Quarters: convert(s.Balance.Quarters, func(q field.PartOffset) PartOffset {
 				return PartOffset{Part: q.Part, ByFreq: convert(q.ByFreq, func(m field.MeanOffset) MeanOffset { return MeanOffset(m) })}
@@ -577,6 +598,17 @@ func SummaryOf(s *field.Summary) *Summary {
 		out.Map = &m
 	}
 	return out
+}
+
+// Sharpening is what an edge shows of sharpening (edge.Sharpening, where
+// each is explained): the signs found ("negative-lobes", "rise",
+// "above-diffraction-limit"), the deepest lobe in standard errors and as a
+// fraction of the step, and the estimated lift of MTF50.
+type Sharpening struct {
+	Signs     []string `json:"signs"`
+	LobeZ     float64  `json:"lobe_z"`
+	LobeDepth float64  `json:"lobe_depth"`
+	MTF50Lift float64  `json:"mtf50_lift"`
 }
 
 // Zone is one third of the distance from the optical centre to the
@@ -613,8 +645,9 @@ func (s *Summary) Field() *field.Summary {
 		Balance: field.Balance{
 			Verdict: s.Balance.Verdict, Text: s.Balance.Text, Caution: s.Balance.Caution, FromHeightMM: s.Balance.FromHeightMM,
 			Pairs: convert(s.Balance.Pairs, func(p BalancePair) field.BalancePair {
+				d := func(d PairDiff) field.PairDiff { return field.PairDiff(d) }
 				return field.BalancePair{A: p.A, B: p.B, Verdict: p.Verdict, Text: p.Text,
-					ByFreq: convert(p.ByFreq, func(d PairDiff) field.PairDiff { return field.PairDiff(d) })}
+					ByFreq: convert(p.ByFreq, d), BySagittal: convert(p.BySagittal, d), ByTangential: convert(p.ByTangential, d)}
 			}),
 			Quarters: convert(s.Balance.Quarters, func(q PartOffset) field.PartOffset {
 				return field.PartOffset{Part: q.Part, ByFreq: convert(q.ByFreq, func(m MeanOffset) field.MeanOffset { return field.MeanOffset(m) })}

@@ -12,7 +12,8 @@ import (
 //
 //	file, id, kind, x_px, y_px, height_mm, orientation, normal_deg,
 //	mtf50_cy_px, mtf50p_cy_px, mtf50_lp_mm, mtf_nyquist,
-//	mtf_at_F_lp_mm for each field frequency F of the first image, snr, warnings
+//	mtf_at_F_lp_mm for each field frequency F of the first image, snr, warnings,
+//	mtf50_se_cy_px, mtf_at_F_lp_mm_se for each F (standard errors)
 //
 // Numbers have fixed decimals; values that are not finite are written "n/a".
 // The command-line tool (`sagitta analyze --csv`) and the web page both call
@@ -28,7 +29,10 @@ func WriteCSV(w io.Writer, res Result) error {
 	for _, f := range freqs {
 		head = append(head, "mtf_at_"+strconv.FormatFloat(f, 'g', -1, 64)+"_lp_mm")
 	}
-	head = append(head, "snr", "warnings")
+	head = append(head, "snr", "warnings", "mtf50_se_cy_px")
+	for _, f := range freqs {
+		head = append(head, "mtf_at_"+strconv.FormatFloat(f, 'g', -1, 64)+"_lp_mm_se")
+	}
 	if err := cw.Write(head); err != nil {
 		return err
 	}
@@ -41,7 +45,14 @@ func WriteCSV(w io.Writer, res Result) error {
 			for _, v := range m.MTFAtFreqs {
 				row = append(row, fixed(float64(v), 4))
 			}
-			row = append(row, fixed(float64(m.SNR), 1), strings.Join(m.Warnings, "; "))
+			row = append(row, fixed(float64(m.SNR), 1), strings.Join(m.Warnings, "; "), fixed(float64(m.MTF50SE), 4))
+			for k := range freqs {
+				v := math.NaN()
+				if k < len(m.MTFAtFreqsSE) {
+					v = float64(m.MTFAtFreqsSE[k])
+				}
+				row = append(row, fixed(v, 4))
+			}
 			if err := cw.Write(row); err != nil {
 				return err
 			}

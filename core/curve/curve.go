@@ -54,10 +54,17 @@ func search(freq []float64, f float64) int {
 // AtNyquist returns the response at 0.5 cycles/pixel.
 func (c Curve) AtNyquist() float64 { return c.At(Nyquist) }
 
-// Peak returns the largest response and the frequency where it occurs.
+// Peak returns the largest response at or below the Nyquist frequency and
+// the frequency where it occurs. Above Nyquist a sampled image holds only
+// aliases and noise (Shannon's sampling theorem; Goodman, Introduction to
+// Fourier Optics, 3rd ed., ch. 2), so a maximum there is no property of the
+// lens and must not capture MTF50P.
 func (c Curve) Peak() (value, freq float64) {
 	value = math.Inf(-1)
 	for i, v := range c.Value {
+		if c.Freq[i] > Nyquist+1e-12 {
+			break
+		}
 		if v > value {
 			value, freq = v, c.Freq[i]
 		}
@@ -67,20 +74,46 @@ func (c Curve) Peak() (value, freq float64) {
 
 // Crossing returns the lowest frequency above the curve's peak at which the
 // response falls to level, by linear interpolation between samples, or NaN
-// if it never does within the sampled range.
+// if it does not fall to it at or below the Nyquist frequency (a crossing
+// beyond Nyquist is not reported: the search ends there, see Peak).
 func (c Curve) Crossing(level float64) float64 {
 	_, pf := c.Peak()
 	for i := 1; i < len(c.Value); i++ {
+		if c.Freq[i-1] >= Nyquist-1e-12 {
+			break
+		}
 		if c.Freq[i] <= pf {
 			continue
 		}
 		v0, v1 := c.Value[i-1], c.Value[i]
 		if v0 >= level && v1 < level {
 			t := (v0 - level) / (v0 - v1)
-			return c.Freq[i-1] + t*(c.Freq[i]-c.Freq[i-1])
+			if f := c.Freq[i-1] + t*(c.Freq[i]-c.Freq[i-1]); f <= Nyquist+1e-12 {
+				return f
+			}
+			return math.NaN()
 		}
 	}
 	return math.NaN()
+}
+
+// MTF50SE returns the standard error of MTF50 for standard errors se of
+// the values (same length as Value), by first-order propagation: an error
+// e in the values near the crossing moves it by e / |dMTF/df|, the slope
+// taken over +-0.02 cy/px around it. It returns NaN when MTF50 is not
+// found or the curve does not fall there.
+func (c Curve) MTF50SE(se []float64) float64 {
+	f50 := c.MTF50()
+	if math.IsNaN(f50) || len(se) != len(c.Freq) {
+		return math.NaN()
+	}
+	const h = 0.02
+	lo := math.Max(f50-h, c.Freq[0])
+	slope := (c.At(lo) - c.At(f50+h)) / (f50 + h - lo)
+	if !(slope > 0) {
+		return math.NaN()
+	}
+	return Curve{Freq: c.Freq, Value: se}.At(f50) / slope
 }
 
 // MTF50 is the frequency (cycles/pixel) where the response first falls to

@@ -62,6 +62,9 @@ type Options struct {
 	Method   Method
 	FreqStep float64 // spacing of the output curve, cycles/pixel (default 0.01)
 	MaxFreq  float64 // highest frequency of the output curve, cycles/pixel (default 1)
+	// FNumber and PitchUM, when both are known (> 0), let the sharpening
+	// check compare the curve with the diffraction limit (sharpen.go).
+	FNumber, PitchUM float64
 }
 
 func (o Options) grid() []float64 {
@@ -86,14 +89,15 @@ type Flag string
 // Quality flags. Each marks a condition under which the measured curve may
 // mislead; thresholds are documented in quality.go.
 const (
-	FlagClippedDark  Flag = "clipped-dark"   // the dark side touches the bottom code value
-	FlagClippedLight Flag = "clipped-light"  // the light side touches full scale
+	FlagClippedDark  Flag = "clipped-dark"   // the dark side lost signal below the bottom code value (see judgeClip)
+	FlagClippedLight Flag = "clipped-light"  // the light side lost signal above full scale (see judgeClip)
+	FlagAtLimit      Flag = "at-limit"       // a plateau sits at a limit of the file's values without loss (a caution)
 	FlagLowContrast  Flag = "low-contrast"   // light/dark ratio below 1.5
 	FlagShortEdge    Flag = "short-edge"     // fewer than 40 px of edge length
 	FlagCurved       Flag = "curved-edge"    // the edge bows by more than 0.5 px over the region
 	FlagCritical     Flag = "critical-angle" // the slant samples the edge profile coarsely
 	FlagNoisy        Flag = "noisy"          // step below 20x the noise rms
-	FlagSharpened    Flag = "sharpened"      // edge profile overshoots by more than 5 % of the step
+	FlagSharpened    Flag = "sharpened"      // physical signs of sharpening beyond the noise (sharpen.go)
 )
 
 // Profile is a sampled curve across the edge: X in px along the normal
@@ -120,9 +124,16 @@ type Measurement struct {
 	BowPx     float64 // deviation of the edge from a straight line over the region, px
 	PhasePx   float64 // effective spacing of the edge profile's samples, px
 	Overshoot float64 // largest excursion of the edge profile beyond its plateaus, fraction of the step
-	ESF       Profile
-	LSF       Profile
-	Flags     []Flag
+	// SE is the standard error of each Curve value from the plateau noise
+	// (refined: propagated through the transform, see stieltjes; iso: the
+	// same propagation through its bins and window).
+	SE []float64
+	// Sharpening holds the physical signs of sharpening found on the edge
+	// (sharpen.go); Signs is empty when none was found.
+	Sharpening Sharpening
+	ESF        Profile
+	LSF        Profile
+	Flags      []Flag
 }
 
 // ErrNoEdge is returned when a region holds no measurable straight edge.
@@ -143,17 +154,24 @@ func Measure(p *plane.Plane, r Region, opt Options) (*Measurement, error) {
 	geometry(m, r, fit, s, flipped)
 	freq := opt.grid()
 	nDark, nLight := pairNoise(p, r, fit, flipped, coreWidth(fit))
+	shape := measureNoiseShape(p, r, fit, flipped, coreWidth(fit))
+	nDark *= shape.sdScale()
+	nLight *= shape.sdScale()
 	var err error
 	switch opt.Method {
 	case ISO:
-		err = measureISO(m, p, r, freq)
+		err = measureISO(m, p, r, freq, math.Sqrt(0.5*(nDark*nDark+nLight*nLight)), shape)
 	default:
-		err = measureRefined(m, fit, s, freq, nDark, nLight)
+		err = measureRefined(m, fit, s, freq, nDark, nLight, shape)
 	}
 	if err != nil {
 		return nil, err
 	}
 	assess(m, s, fit, nDark, nLight)
+	judgeSharpening(m, s, fit, nDark, nLight, opt)
+	if len(m.Sharpening.Signs) > 0 {
+		m.Flags = append(m.Flags, FlagSharpened)
+	}
 	return m, nil
 }
 

@@ -77,7 +77,9 @@ func MeasureSites(p *plane.Plane, sites Sites, r Region, opt Options) (*Measurem
 	geometry(m, r, fit, s, flipped)
 	freq := opt.grid()
 	nDark, nLight := pairNoiseSites(p, r, fit, flipped, coreWidth(fit), sites)
-	if err := measureRefined(m, fit, s, freq, nDark, nLight); err != nil {
+	// The mosaic's noise shape is not estimated: white noise is assumed
+	// (the zero noiseShape), as the sites of one plane are not neighbours.
+	if err := measureRefined(m, fit, s, freq, nDark, nLight, noiseShape{}); err != nil {
 		return nil, err
 	}
 	assess(m, s, fit, nDark, nLight)

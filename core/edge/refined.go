@@ -26,7 +26,19 @@ import "math"
 //     the whole region. The flat part is widened while the profile still
 //     carries signal above its noise, so long tails (flare) are kept and
 //     noise beyond them is not.
-//  4. Noise-bias removal: the expected noise power in |X(f)|^2, computed
+//  4. Shading removed first: illumination fall-off multiplies the scene by a
+//     slowly varying factor, which tilts both plateaus in proportion to
+//     their levels; left in, the tilt enters the line spread function as
+//     a constant that the window (widened while the profile still carries
+//     signal) keeps taking in, and the MTF reads low when the light side
+//     faces the optical centre. A plane a + b u + c d is fitted to each
+//     plateau (u along the edge, d from it); the part of the slopes
+//     proportional to the level, g = (c_light - c_dark) / (a_light - a_dark)
+//     and likewise along u, is the relative gradient of the illumination,
+//     and every pixel is divided by 1 + g_u u + g_d d. A slope common to
+//     both plateaus (the slowly falling tail of a line spread function,
+//     diffraction or flare) is left alone: it belongs to the lens.
+//  5. Noise-bias removal: the expected noise power in |X(f)|^2, computed
 //     exactly from the plateau noise and the window, is subtracted before
 //     the square root, removing the upward bias that noise gives a
 //     magnitude spectrum at high frequencies.
@@ -42,7 +54,7 @@ type point struct {
 	n    float64 // number of pixels merged
 }
 
-func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark, sdLight float64) error {
+func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark, sdLight float64, shape noiseShape) error {
 	n := len(s.v)
 	d := make([]float64, n)
 	reach := math.Inf(1) // distance to the nearest end of the sampled profile
@@ -55,18 +67,19 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 	if reach < 3 {
 		return ErrNoEdge
 	}
-	pts := merge(d, s.v)
-
-	// Plateaus, noise and the coarse profile.
+	// Plateaus, noise and the coarse profile, after removing the shading
+	// (illumination fall-off) common to both plateaus.
 	core := math.Min(coreWidth(f), reach-1)
-	dark, light, _, _ := plateaus(d, s.v, core)
+	v := unshade(s.u, d, s.v, core)
+	pts := merge(d, v)
+	dark, light, _, _ := plateaus(d, v, core)
 	step := light - dark
 	if !(step > 0) {
 		return ErrNoEdge
 	}
 	m.Dark, m.Light = dark, light
 	m.NoiseRMS = math.Sqrt(0.5 * (sdDark*sdDark + sdLight*sdLight))
-	esf, perBin := coarse(d, s.v, -reach, reach)
+	esf, perBin := coarse(d, v, -reach, reach)
 	lsfX, lsfV := derivative(esf)
 
 	// Window: centre at the line spread function's centroid, flat part
@@ -125,16 +138,18 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 		t := math.Min(math.Max((p.v-dark)/step, 0), 1)
 		nv[i] = ((1-t)*sdDark*sdDark + t*sdLight*sdLight) / p.n
 	}
-	val := stieltjes(mid, wts, dv, nv, freq)
+	val, se := stieltjes(mid, wts, dv, nv, freq, shape.factor)
 	if val == nil {
 		return ErrNoEdge
 	}
 	for j, fr := range freq {
 		if corr := sinc(fr * h); corr > 0.5 {
 			val[j] /= corr
+			se[j] /= corr
 		}
 	}
 	m.Curve.Freq, m.Curve.Value = freq, val
+	m.SE = se
 	m.ESF, m.LSF = profiles(esf, lsfX, lsfV, dark, step, centre, b)
 	return nil
 }
@@ -146,14 +161,25 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 // so it contributes nv[j] |w[j-1] e(m[j-1]) - w[j] e(m[j])|^2. Phasors
 // advance by recurrence from one frequency to the next. It returns nil if
 // X(0) is not positive.
-func stieltjes(mid, wts, dv, nv, freq []float64) []float64 {
+//
+// It also returns the standard error of each value: noise of total power
+// P_n(f) in X(f) (complex, circular) puts half of it along the signal's
+// phasor, so |X| scatters by sqrt(P_n / 2) (first-order error propagation;
+// the noise on X(0) is negligible, the window being flat where the edge
+// changes), divided by X(0) as the value is.
+//
+// shape(f) scales the noise power for noise that is not white (see
+// noisepsd.go): the variances nv are those of the pixels' own noise, and
+// shape(f) is the noise spectrum at f relative to white noise of that
+// variance (1 for white noise).
+func stieltjes(mid, wts, dv, nv, freq []float64, shape func(float64) float64) (out, se []float64) {
 	k := len(mid)
 	var x0 float64
 	for i := range mid {
 		x0 += wts[i] * dv[i]
 	}
 	if !(x0 > 0) {
-		return nil
+		return nil, nil
 	}
 	step := 0.0
 	if len(freq) > 1 {
@@ -168,7 +194,8 @@ func stieltjes(mid, wts, dv, nv, freq []float64) []float64 {
 		s, c := math.Sincos(-2 * math.Pi * step * m)
 		sr[i], si[i] = c, s
 	}
-	out := make([]float64, len(freq))
+	out = make([]float64, len(freq))
+	se = make([]float64, len(freq))
 	for j := range freq {
 		if j > 0 {
 			for i := range zr {
@@ -196,11 +223,17 @@ func stieltjes(mid, wts, dv, nv, freq []float64) []float64 {
 				}
 				pn += nv[i] * (ar*ar + ai*ai)
 			}
-			p = math.Max(p-pn, 0)
+			// The shaped power is subtracted; the standard error takes
+			// the larger of the shaped and the white power, because the
+			// shaping leaves out what the window's taper leaks between
+			// frequencies (see noisepsd.go).
+			ps := pn * shape(freq[j])
+			p = math.Max(p-ps, 0)
+			se[j] = math.Sqrt(math.Max(pn, ps)/2) / x0
 		}
 		out[j] = math.Sqrt(p) / x0
 	}
-	return out
+	return out, se
 }
 
 // merge averages the samples that fall into the same bin of finePx along
@@ -233,6 +266,92 @@ func merge(d, v []float64) []point {
 		}
 	}
 	return out
+}
+
+// unshade returns v divided by the illumination gradient fitted to the two
+// plateaus (pixels farther than core px from the edge; see point 4 at the
+// top of this file), or v itself when a plateau is too small to fit.
+func unshade(u, d, v []float64, core float64) []float64 {
+	var a, b planeStats
+	for i := range d {
+		switch {
+		case d[i] < -core:
+			a.add(u[i], d[i], v[i])
+		case d[i] > core:
+			b.add(u[i], d[i], v[i])
+		}
+	}
+	ca, okA := a.coef()
+	cb, okB := b.coef()
+	if !okA || !okB || !(cb[0]-ca[0] > 0) {
+		return v
+	}
+	gu := (cb[1] - ca[1]) / (cb[0] - ca[0])
+	gd := (cb[2] - ca[2]) / (cb[0] - ca[0])
+	out := make([]float64, len(v))
+	for i := range v {
+		k := 1 + gu*u[i] + gd*d[i]
+		if !(k > 0.2) { // no plausible fall-off: leave the profile as it is
+			return v
+		}
+		out[i] = v[i] / k
+	}
+	return out
+}
+
+// planeStats accumulates a least-squares plane v = c0 + c1 x + c2 y.
+type planeStats struct {
+	n float64
+	m [3][3]float64 // normal matrix
+	r [3]float64    // right-hand side
+}
+
+func (p *planeStats) add(x, y, v float64) {
+	p.n++
+	e := [3]float64{1, x, y}
+	for i := range 3 {
+		for j := range 3 {
+			p.m[i][j] += e[i] * e[j]
+		}
+		p.r[i] += e[i] * v
+	}
+}
+
+// coef solves the normal equations by Gaussian elimination with partial
+// pivoting; ok is false for fewer than 8 points or a singular system.
+func (p *planeStats) coef() (c [3]float64, ok bool) {
+	if p.n < 8 {
+		return c, false
+	}
+	m, r := p.m, p.r
+	for k := range 3 {
+		piv := k
+		for i := k + 1; i < 3; i++ {
+			if math.Abs(m[i][k]) > math.Abs(m[piv][k]) {
+				piv = i
+			}
+		}
+		m[k], m[piv] = m[piv], m[k]
+		r[k], r[piv] = r[piv], r[k]
+		if math.Abs(m[k][k]) <= 1e-9*p.n {
+			return c, false
+		}
+		for i := k + 1; i < 3; i++ {
+			t := m[i][k] / m[k][k]
+			for j := k; j < 3; j++ {
+				m[i][j] -= t * m[k][j]
+			}
+			r[i] -= t * r[k]
+		}
+	}
+	for k := 2; k >= 0; k-- {
+		s := r[k]
+		for j := k + 1; j < 3; j++ {
+			s -= m[k][j] * c[j]
+		}
+		c[k] = s / m[k][k]
+	}
+	return c, true
 }
 
 // plateaus estimates the dark and light levels and their noise from the

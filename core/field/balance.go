@@ -66,8 +66,14 @@ type BalancePair struct {
 	// "top-left", ...). Differences are A minus B.
 	A string
 	B string
-	// ByFreq holds the comparison at each field frequency.
+	// ByFreq holds the comparison at each field frequency, sagittal and
+	// tangential residuals pooled.
 	ByFreq []PairDiff
+	// BySagittal and ByTangential hold it for each orientation alone: a
+	// decentred lens can soften one orientation on a side and sharpen the
+	// other, which the pooled comparison averages away.
+	BySagittal   []PairDiff
+	ByTangential []PairDiff
 	// Verdict and Text as for Balance.
 	Verdict string
 	Text    string
@@ -128,6 +134,10 @@ type residual struct{ dx, dy, e float64 }
 func balance(geo Geometry, pts []Point, fs *fitSet, freqs []float64) Balance {
 	b := Balance{FromHeightMM: OuterFraction * geo.CornerMM(), Caution: balanceCaution, Pairs: []BalancePair{}, Quarters: []PartOffset{}}
 	res := make([][]residual, len(freqs))
+	var byOr [2][][]residual // the same, per orientation
+	for o := range orientations {
+		byOr[o] = make([][]residual, len(freqs))
+	}
 	for k := range freqs {
 		for o := range orientations {
 			f := fs.mtf[o][k]
@@ -139,23 +149,30 @@ func balance(geo Geometry, pts []Point, fs *fitSet, freqs []float64) Balance {
 				if j < 0 || p.HeightMM < b.FromHeightMM || f.sm.rw[j] == 0 {
 					continue
 				}
-				res[k] = append(res[k], residual{p.X - geo.CentreX, p.Y - geo.CentreY, f.sm.y[j] - f.sm.fit[j]})
+				r := residual{p.X - geo.CentreX, p.Y - geo.CentreY, f.sm.y[j] - f.sm.fit[j]}
+				res[k] = append(res[k], r)
+				byOr[o][k] = append(byOr[o][k], r)
 			}
 		}
 	}
-	for _, pr := range [][2]part{{left, right}, {top, bottom}, {topLeft, bottomRight}, {topRight, bottomLeft}} {
-		bp := BalancePair{A: pr[0].name, B: pr[1].name, ByFreq: []PairDiff{}}
+	compare := func(rs [][]residual, a, bb part) []PairDiff {
+		out := []PairDiff{}
 		for k, f := range freqs {
-			ma, sa, na := meanSE(res[k], pr[0])
-			mb, sb, nb := meanSE(res[k], pr[1])
+			ma, sa, na := meanSE(rs[k], a)
+			mb, sb, nb := meanSE(rs[k], bb)
 			d := PairDiff{FreqLPMM: f, NA: na, NB: nb, Diff: Number(math.NaN()), SE: Number(math.NaN())}
 			if na >= MinSidePoints && nb >= MinSidePoints {
 				diff, se := ma-mb, math.Hypot(sa, sb)
 				d.Diff, d.SE = Number(diff), Number(se)
 				d.Notable = math.Abs(diff) > NotableSE*se && math.Abs(diff) >= NotableGap
 			}
-			bp.ByFreq = append(bp.ByFreq, d)
+			out = append(out, d)
 		}
+		return out
+	}
+	for _, pr := range [][2]part{{left, right}, {top, bottom}, {topLeft, bottomRight}, {topRight, bottomLeft}} {
+		bp := BalancePair{A: pr[0].name, B: pr[1].name, ByFreq: compare(res, pr[0], pr[1]),
+			BySagittal: compare(byOr[0], pr[0], pr[1]), ByTangential: compare(byOr[1], pr[0], pr[1])}
 		bp.Verdict, bp.Text = pairText(bp)
 		b.Pairs = append(b.Pairs, bp)
 	}
@@ -196,12 +213,16 @@ func balance(geo Geometry, pts []Point, fs *fitSet, freqs []float64) Balance {
 		b.Text = worst.Text
 		for _, p := range b.Pairs {
 			if p.Verdict == VerdictUnbalanced && p.A != worst.A {
-				d := p.ByFreq[bestFreq(p)]
+				ds, orient, i := mostTelling(p)
+				d := ds[i]
 				soft := p.A
 				if d.Diff > 0 {
 					soft = p.B
 				}
-				also = append(also, fmt.Sprintf("%s %s by %.2f at %s lp/mm", soft, area(p.A), math.Abs(float64(d.Diff)), fmtNum(d.FreqLPMM)))
+				if orient != "" {
+					orient = " (" + orient + ")"
+				}
+				also = append(also, fmt.Sprintf("%s %s%s by %.2f at %s lp/mm", soft, area(p.A), orient, math.Abs(float64(d.Diff)), fmtNum(d.FreqLPMM)))
 			}
 		}
 		if len(also) > 0 {
@@ -245,11 +266,11 @@ func meanSE(rs []residual, p part) (mean, se float64, n int) {
 // pairScore is how telling a comparison is: its largest difference over
 // the threshold for reporting it (1 = just notable).
 func pairScore(bp BalancePair) float64 {
-	i := bestFreq(bp)
+	ds, _, i := mostTelling(bp)
 	if i < 0 {
 		return -1
 	}
-	d := bp.ByFreq[i]
+	d := ds[i]
 	return math.Abs(float64(d.Diff)) / math.Max(NotableSE*float64(d.SE), NotableGap)
 }
 
@@ -265,11 +286,19 @@ func leadScore(bp BalancePair) float64 {
 	return pairScore(bp)
 }
 
-// bestFreq returns the index of the frequency whose difference is largest
-// relative to its threshold, or -1 if none could be compared.
-func bestFreq(bp BalancePair) int {
+// other names the other orientation.
+func other(orient string) string {
+	if orient == "sagittal" {
+		return "tangential"
+	}
+	return "sagittal"
+}
+
+// bestFreqOf returns the index of the frequency whose difference is
+// largest relative to its threshold, or -1 if none could be compared.
+func bestFreqOf(ds []PairDiff) int {
 	best, score := -1, -1.0
-	for i, d := range bp.ByFreq {
+	for i, d := range ds {
 		if !finite(float64(d.Diff)) {
 			continue
 		}
@@ -289,14 +318,48 @@ func area(name string) string {
 	return "half"
 }
 
+// mostTelling returns the comparison that speaks for a pair, with the
+// orientation's name ("" for pooled) and the index of its most telling
+// frequency (-1 if none could be compared): the pooled one when it is
+// notable or no orientation alone is, else the orientation whose
+// difference is largest relative to its threshold.
+func mostTelling(bp BalancePair) (ds []PairDiff, name string, best int) {
+	if i := bestFreqOf(bp.ByFreq); i >= 0 && bp.ByFreq[i].Notable {
+		return bp.ByFreq, "", i
+	}
+	best = -1
+	bestScore := -1.0
+	for _, c := range []struct {
+		name string
+		ds   []PairDiff
+	}{{"", bp.ByFreq}, {"sagittal", bp.BySagittal}, {"tangential", bp.ByTangential}} {
+		i := bestFreqOf(c.ds)
+		if i < 0 {
+			continue
+		}
+		d := c.ds[i]
+		s := math.Abs(float64(d.Diff)) / math.Max(NotableSE*float64(d.SE), NotableGap)
+		if d.Notable {
+			s += 1e6 // notable first
+		}
+		if c.name != "" && !d.Notable {
+			continue // the pooled comparison speaks for a balanced pair
+		}
+		if s > bestScore {
+			ds, name, best, bestScore = c.ds, c.name, i, s
+		}
+	}
+	return ds, name, best
+}
+
 // pairText words one comparison: the verdict, then the numbers of the most
-// telling frequency.
+// telling frequency (and orientation, when one alone differs).
 func pairText(bp BalancePair) (verdict, text string) {
-	best := bestFreq(bp)
+	ds, orient, best := mostTelling(bp)
 	if best < 0 {
 		return VerdictTooFew, fmt.Sprintf("Too few measurements to compare %s and %s.", bp.A, bp.B)
 	}
-	d := bp.ByFreq[best]
+	d := ds[best]
 	diff, se := float64(d.Diff), float64(d.SE)
 	nums := fmt.Sprintf("%.3f +/- %.3f, one standard error; %d measurements %s, %d %s",
 		math.Abs(diff), se, d.NA, bp.A, d.NB, bp.B)
@@ -304,6 +367,10 @@ func pairText(bp BalancePair) (verdict, text string) {
 		soft, sharp := bp.A, bp.B
 		if diff > 0 {
 			soft, sharp = bp.B, bp.A
+		}
+		if orient != "" {
+			return VerdictUnbalanced, fmt.Sprintf("%s %s softer in %s detail than the %s towards the edge of the frame, by %.2f at %s lp/mm, more than the spread between edges explains (%s); a decentred lens can trade %s for %s detail on one side.",
+				capitalise(soft), area(bp.A), orient, sharp, math.Abs(diff), fmtNum(d.FreqLPMM), nums, orient, other(orient))
 		}
 		return VerdictUnbalanced, fmt.Sprintf("%s %s softer than the %s towards the edge of the frame, by %.2f at %s lp/mm, more than the spread between edges explains (%s).",
 			capitalise(soft), area(bp.A), sharp, math.Abs(diff), fmtNum(d.FreqLPMM), nums)

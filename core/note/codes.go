@@ -184,3 +184,13 @@ const (
 	// tone curve (why in the text).
 	ToneStepsUnread Code = "tone-steps-unread"
 )
+
+// Exposure advice, in Image.exposure.code and Image.warnings.
+const (
+	// Overexposed: the paper is at the top of the file's values: shoot
+	// darker.
+	Overexposed Code = "overexposed"
+	// Underexposed: the paper sits low in the file's values: shoot
+	// brighter.
+	Underexposed Code = "underexposed"
+)

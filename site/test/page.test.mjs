@@ -173,7 +173,11 @@ test('a TIFF is measured and shown from the worker\'s preview', async () => {
   assert.equal(r.bit_depth, 16);
   // The file has no Exif: the page assumed its default sensor format, full frame.
   assert.equal(r.pitch_source, 'sensor size');
-  assert.equal(diff({ images: [r] }, JSON.parse(cli(['--json', '--sensor', '36x24'], [tif])), 1e-6), '');
+  assert.equal(r.pitch_assumed, true);
+  // The tool is told the same sensor, so it does not call the pitch assumed.
+  const tool = JSON.parse(cli(['--json', '--sensor', '36x24'], [tif]));
+  tool.images[0].pitch_assumed = true;
+  assert.equal(diff({ images: [r] }, tool, 1e-6), '');
   await page.waitForTimeout(300);
   // The viewer shows the picture: its canvas holds both dark and light pixels.
   const spread = await page.evaluate(() => {

@@ -1,0 +1,170 @@
+package edge
+
+import (
+	"math"
+
+	"sagitta/core/plane"
+)
+
+// Noise that is not white. Demosaicing, noise reduction and sharpening
+// correlate the noise of neighbouring pixels, so its power spectrum is not
+// flat: smoothing moves power from high to low frequencies, sharpening the
+// other way. The noise power that the refined estimator subtracts, and the
+// standard errors it states, assume independent pixels; noiseShape
+// measures how far that is off.
+//
+// The noise's autocovariance C(l) is estimated on each plateau for lags l
+// of up to maxLag px (pixel values less a plane fitted to the plateau, both
+// pixels of a pair on the same plateau); its Fourier transform is the noise
+// power spectrum (Wiener-Khinchin theorem; J. S. Bendat and A. G. Piersol,
+// Random Data, 4th ed., ch. 5). A sum over the pixels of a slanted edge
+// sees it along the edge normal n: noise that would add a power P_w(f) if
+// it were white adds P_w(f) R(f), R(f) = sum_l rho(l) cos(2 pi f (l . n)),
+// rho = C / C(0) (pairs of pixels at lag l carry phasors that differ by
+// 2 pi f (l . n) and weights that are nearly equal, the window and the bins
+// varying slowly over a few pixels). This leaves out what the window's
+// taper leaks from one frequency to the next, which matters where the
+// spectrum is steep: the refined estimator subtracts the shaped power and
+// states standard errors from the larger of the shaped and the white
+// power. The pair-difference noise estimate
+// measures C(0) - C(s) for the neighbour step s, so the pixels' own
+// variance is that over 1 - rho(s).
+const maxLag = 3
+
+// noiseShape holds the measured correlation of the plateau noise.
+type noiseShape struct {
+	ok     bool
+	rho    map[[2]int]float64 // autocorrelation at lags (lx, ly), both signs
+	rhoS   float64            // at the pair step of pairNoise
+	nx, ny float64            // edge normal in image axes
+}
+
+// factor returns R(f), the noise power at f relative to white noise of the
+// pixels' own variance (1 when the shape could not be measured).
+func (n noiseShape) factor(f float64) float64 {
+	if !n.ok {
+		return 1
+	}
+	var r float64
+	for l, c := range n.rho {
+		r += c * math.Cos(2*math.Pi*f*(float64(l[0])*n.nx+float64(l[1])*n.ny))
+	}
+	return math.Max(r, 0)
+}
+
+// sdScale returns 1 / sqrt(1 - rho(s)): the factor from the pair-difference
+// noise estimate to the pixels' own noise rms.
+func (n noiseShape) sdScale() float64 {
+	if !n.ok {
+		return 1
+	}
+	return 1 / math.Sqrt(1-n.rhoS)
+}
+
+// measureNoiseShape estimates the plateau noise's autocorrelation in region
+// r of p (edge fit f, mirrored if flipped; plateaus beyond core px).
+func measureNoiseShape(p *plane.Plane, r Region, f lineFit, flipped bool, core float64) noiseShape {
+	tx, ty, nx, ny := r.axes()
+	if flipped {
+		nx, ny = -nx, -ny
+	}
+	ex := math.Abs(r.HalfLen*tx) + math.Abs(r.HalfWidth*nx)
+	ey := math.Abs(r.HalfLen*ty) + math.Abs(r.HalfWidth*ny)
+	x0 := max(int(math.Floor(r.X-ex-0.5)), 0)
+	x1 := min(int(math.Ceil(r.X+ex-0.5)), p.W-1)
+	y0 := max(int(math.Floor(r.Y-ey-0.5)), 0)
+	y1 := min(int(math.Ceil(r.Y+ey-0.5)), p.H-1)
+	w, h := x1-x0+1, y1-y0+1
+	if w < 2*maxLag+2 || h < 2*maxLag+2 {
+		return noiseShape{}
+	}
+	side := make([]int8, w*h)
+	var fit [2]planeStats
+	for y := y0; y <= y1; y++ {
+		for x := x0; x <= x1; x++ {
+			dx, dy := float64(x)+0.5-r.X, float64(y)+0.5-r.Y
+			u, wv := dx*tx+dy*ty, dx*nx+dy*ny
+			if math.Abs(u) > r.HalfLen || math.Abs(wv) > r.HalfWidth {
+				continue
+			}
+			d := f.dist(u, wv)
+			k := -1
+			switch {
+			case d < -core:
+				k = 0
+			case d > core:
+				k = 1
+			}
+			if k < 0 {
+				continue
+			}
+			side[(y-y0)*w+x-x0] = int8(k + 1)
+			fit[k].add(dx, dy, float64(p.At(x, y)))
+		}
+	}
+	var coef [2][3]float64
+	for k := range 2 {
+		c, ok := fit[k].coef()
+		if !ok {
+			return noiseShape{}
+		}
+		coef[k] = c
+	}
+	res := make([]float64, w*h)
+	for y := y0; y <= y1; y++ {
+		for x := x0; x <= x1; x++ {
+			i := (y-y0)*w + x - x0
+			if k := side[i]; k > 0 {
+				c := coef[k-1]
+				res[i] = float64(p.At(x, y)) - c[0] - c[1]*(float64(x)+0.5-r.X) - c[2]*(float64(y)+0.5-r.Y)
+			}
+		}
+	}
+	cov := func(lx, ly int) (float64, float64) {
+		var s, n float64
+		for y := max(0, -ly); y < h-max(0, ly); y++ {
+			for x := max(0, -lx); x < w-max(0, lx); x++ {
+				i, j := y*w+x, (y+ly)*w+x+lx
+				if side[i] > 0 && side[i] == side[j] {
+					s += res[i] * res[j]
+					n++
+				}
+			}
+		}
+		return s, n
+	}
+	s0, n0 := cov(0, 0)
+	if n0 < 200 || s0 <= 0 {
+		return noiseShape{}
+	}
+	c0 := s0 / n0
+	ns := noiseShape{ok: true, rho: map[[2]int]float64{}, nx: nx, ny: ny}
+	// Only lags whose correlation stands out of its sampling noise
+	// (about 1 / sqrt(n)) are kept, so white noise gives R = 1 exactly.
+	for ly := -maxLag; ly <= maxLag; ly++ {
+		for lx := -maxLag; lx <= maxLag; lx++ {
+			if ly < 0 || ly == 0 && lx < 0 {
+				continue
+			}
+			s, n := cov(lx, ly)
+			if n < 100 {
+				continue
+			}
+			rho := s / n / c0
+			if lx != 0 || ly != 0 {
+				if math.Abs(rho) < 3/math.Sqrt(n) {
+					rho = 0
+				}
+				ns.rho[[2]int{-lx, -ly}] = rho
+			}
+			ns.rho[[2]int{lx, ly}] = rho
+		}
+	}
+	// The pair step of pairNoise: along the pixel axis nearer the edge.
+	step := [2]int{1, 0}
+	if math.Abs(ty) > math.Abs(tx) {
+		step = [2]int{0, 1}
+	}
+	ns.rhoS = math.Min(ns.rho[step], 0.95)
+	return ns
+}
