@@ -46,7 +46,55 @@ import (
 // The standard error of each value follows from the plateau noise (noise
 // rms sd per pixel, so sd^2 / n in a bin of n pixels) propagated through the
 // central difference, the window and the transform as in stieltjes.
+//
+// One function per published step: the plane is already linear light
+// (core/decode applies the file's tone curve, the inverse of its OECF,
+// before any step here); isoLines (1); isoCentroid and isoFitEdge (2);
+// isoWholeCycles (3); isoBin (4); isoDerivative and isoWindow (5); isoDFT
+// and isoDerivativeCorrection (6); isoProfiles, the curves shown.
 func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64, sd float64, shape noiseShape) error {
+	lines, nPix := isoLines(p, r)
+	if len(lines) < 8 || nPix < 8 {
+		return ErrNoEdge
+	}
+	edgeAt, b, err := isoFitEdge(lines, nPix)
+	if err != nil {
+		return err
+	}
+	if lines, err = isoWholeCycles(lines, b); err != nil {
+		return err
+	}
+	esf, cnt := isoBin(lines, edgeAt, nPix)
+	lsf := isoDerivative(esf)
+	cen, halfWin, err := isoWindow(lsf)
+	if err != nil {
+		return err
+	}
+	dx := 1 / math.Sqrt(1+b*b) / isoOversample // bin spacing along the normal, px
+	val, se := isoDFT(lsf, cnt, cen, halfWin, dx, freq, sd, shape)
+	isoDerivativeCorrection(val, se, freq, dx)
+	m.Curve.Freq, m.Curve.Value = freq, val
+	m.SE = se
+	m.ESF, m.LSF = isoProfiles(esf, lsf, cen, dx)
+	return nil
+}
+
+// isoOversample is the number of bins per pixel of the edge spread
+// function (ISO 12233:2017, edge-based SFR annex: 4x oversampling).
+const isoOversample = 4
+
+// isoLine is one line of pixels across the edge: its index along the
+// edge's major axis, the position of its first pixel across it, and the
+// pixel values.
+type isoLine struct {
+	idx, start int
+	vals       []float64
+}
+
+// isoLines takes the lines across the edge (step 1): pixel rows for an
+// edge nearer vertical, columns for one nearer horizontal, each a window of
+// nPix pixels centred where the region's nominal edge crosses it.
+func isoLines(p *plane.Plane, r Region) (lines []isoLine, nPix int) {
 	tx, ty, nx, ny := r.axes()
 	vertical := math.Abs(ty) >= math.Abs(tx) // edge nearer the vertical: rows cross it
 	// get(line, pos) reads the image with the line index along the edge's
@@ -66,17 +114,12 @@ func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64, sd flo
 		across = math.Abs(ny)
 	}
 	half := int(math.Floor(r.HalfWidth / across)) // window half-length along a line, px
-	nPix := 2 * half
+	nPix = 2 * half
 	span := r.HalfLen * math.Abs(1/math.Sqrt(1+slope*slope)) // lines covered, either side
 	first := int(math.Ceil(cy - span - 0.5))
 	last := int(math.Floor(cy + span - 0.5))
 	first = max(first, 0)
 	last = min(last, nLineMax-1)
-	type line struct {
-		idx, start int
-		vals       []float64
-	}
-	var lines []line
 	for i := first; i <= last; i++ {
 		c := cx + (float64(i)+0.5-cy)*slope // crossing, continuous coordinate
 		start := int(math.Round(c - float64(half)))
@@ -87,33 +130,43 @@ func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64, sd flo
 		for j := range vals {
 			vals[j] = get(i, start+j)
 		}
-		lines = append(lines, line{i, start, vals})
+		lines = append(lines, isoLine{i, start, vals})
 	}
-	if len(lines) < 8 || nPix < 8 {
-		return ErrNoEdge
+	return lines, nPix
+}
+
+// isoCentroid is the edge location on one line (step 2): the centroid of
+// the derivative [-1/2, +1/2] weighted by a Hamming window centred at
+// centre. deriv is scratch space of nPix values.
+func isoCentroid(l isoLine, centre float64, nPix int, deriv []float64) (float64, bool) {
+	// Derivative d[j] = v[j+1] - v[j] at position start + j + 1
+	// (between pixel centres start+j+0.5 and start+j+1.5).
+	var s, sw float64
+	for j := 0; j+1 < nPix; j++ {
+		deriv[j] = l.vals[j+1] - l.vals[j]
+		pos := float64(l.start+j) + 1
+		w := hamming(pos-centre, float64(nPix)/2)
+		s += deriv[j] * w * pos
+		sw += deriv[j] * w
 	}
-	// Steps 2: centroid per line, twice.
+	if sw == 0 {
+		return 0, false
+	}
+	return s / sw, true
+}
+
+// isoFitEdge fits the edge through the lines' centroids (step 2): a
+// straight line twice (the second time with each centroid window centred
+// on the first line), then a second-order polynomial twice (ISO
+// 12233:2017), about the middle line for conditioning. It returns the
+// edge's position on each line and the slope at the middle, which sets the
+// phase cycles and the bin spacing.
+func isoFitEdge(lines []isoLine, nPix int) (edgeAt func(isoLine) float64, slope float64, err error) {
 	deriv := make([]float64, nPix)
-	locate := func(l line, centre float64) (float64, bool) {
-		// Derivative d[j] = v[j+1] - v[j] at position start + j + 1
-		// (between pixel centres start+j+0.5 and start+j+1.5).
-		var s, sw float64
-		for j := 0; j+1 < nPix; j++ {
-			deriv[j] = l.vals[j+1] - l.vals[j]
-			pos := float64(l.start+j) + 1
-			w := hamming(pos-centre, float64(nPix)/2)
-			s += deriv[j] * w * pos
-			sw += deriv[j] * w
-		}
-		if sw == 0 {
-			return 0, false
-		}
-		return s / sw, true
-	}
-	fitLine := func(centre func(l line) float64) (a, b float64, ok bool) {
+	fitLine := func(centre func(l isoLine) float64) (a, b float64, ok bool) {
 		var st lineStats
 		for _, l := range lines {
-			if loc, ok := locate(l, centre(l)); ok {
+			if loc, ok := isoCentroid(l, centre(l), nPix, deriv); ok {
 				st.add(float64(l.idx)+0.5, loc)
 			}
 		}
@@ -123,52 +176,60 @@ func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64, sd flo
 		a, b = st.coef()
 		return a, b, true
 	}
-	a, b, ok := fitLine(func(l line) float64 { return float64(l.start) + float64(nPix)/2 })
+	a, b, ok := fitLine(func(l isoLine) float64 { return float64(l.start) + float64(nPix)/2 })
 	if !ok {
-		return ErrNoEdge
+		return nil, 0, ErrNoEdge
 	}
-	a, b, ok = fitLine(func(l line) float64 { return a + b*(float64(l.idx)+0.5) })
+	a, b, ok = fitLine(func(l isoLine) float64 { return a + b*(float64(l.idx)+0.5) })
 	if !ok {
-		return ErrNoEdge
+		return nil, 0, ErrNoEdge
 	}
-	// Second-order polynomial of the locations (ISO 12233:2017), about the
-	// middle line ym for conditioning, centroids windowed on the line
-	// first and then on the polynomial itself.
 	ym := 0.5 * (float64(lines[0].idx) + float64(lines[len(lines)-1].idx) + 1)
-	edgeAt := func(l line) float64 { return a + b*(float64(l.idx)+0.5) }
+	edgeAt = func(l isoLine) float64 { return a + b*(float64(l.idx)+0.5) }
 	for range 2 {
 		var ps planeStats
 		for _, l := range lines {
-			if loc, ok := locate(l, edgeAt(l)); ok {
+			if loc, ok := isoCentroid(l, edgeAt(l), nPix, deriv); ok {
 				y := float64(l.idx) + 0.5 - ym
 				ps.add(y, y*y, loc)
 			}
 		}
 		c, ok := ps.coef()
 		if !ok {
-			return ErrNoEdge
+			return nil, 0, ErrNoEdge
 		}
-		edgeAt = func(l line) float64 {
+		edgeAt = func(l isoLine) float64 {
 			y := float64(l.idx) + 0.5 - ym
 			return c[0] + c[1]*y + c[2]*y*y
 		}
-		b = c[1] // slope at the middle, for the phase cycles and the bin spacing
+		b = c[1]
 	}
-	// Step 3: whole phase cycles.
+	return edgeAt, b, nil
+}
+
+// isoWholeCycles keeps the middle lines that make a whole number of phase
+// cycles of the slant b (step 3), so every bin receives data evenly.
+func isoWholeCycles(lines []isoLine, b float64) ([]isoLine, error) {
 	cycles := math.Floor(float64(len(lines)) * math.Abs(b))
 	if cycles < 1 {
-		return errTooFewPhases
+		return nil, errTooFewPhases
 	}
 	use := int(math.Round(cycles / math.Abs(b)))
 	use = min(use, len(lines))
 	skip := (len(lines) - use) / 2
-	lines = lines[skip : skip+use]
-	// Step 4: 4x binning of the distance along the line.
-	const nb = 4
+	return lines[skip : skip+use], nil
+}
+
+// isoBin puts each pixel at its distance from the fitted edge along the
+// line into bins of 1/isoOversample px (step 4): the bin means are the
+// oversampled edge spread function, an empty bin the average of its
+// nearest filled neighbours; cnt holds each bin's pixel count.
+func isoBin(lines []isoLine, edgeAt func(isoLine) float64, nPix int) (esf, cnt []float64) {
+	const nb = isoOversample
 	nBins := nb * nPix
 	off := nBins / 2
 	sum := make([]float64, nBins)
-	cnt := make([]float64, nBins)
+	cnt = make([]float64, nBins)
 	for _, l := range lines {
 		edge := edgeAt(l)
 		for j, v := range l.vals {
@@ -180,7 +241,7 @@ func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64, sd flo
 			}
 		}
 	}
-	esf := make([]float64, nBins)
+	esf = make([]float64, nBins)
 	for k := range esf {
 		if cnt[k] > 0 {
 			esf[k] = sum[k] / cnt[k]
@@ -207,7 +268,14 @@ func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64, sd flo
 			}
 		}
 	}
-	// Step 5: central difference, Hamming window at the centroid.
+	return esf, cnt
+}
+
+// isoDerivative is the line spread function (step 5): the central
+// difference [-1/2, 0, +1/2] of the edge spread function, its ends copied
+// from their neighbours, made positive for a falling edge.
+func isoDerivative(esf []float64) []float64 {
+	nBins := len(esf)
 	lsf := make([]float64, nBins)
 	for k := 1; k < nBins-1; k++ {
 		lsf[k] = 0.5 * (esf[k+1] - esf[k-1])
@@ -218,24 +286,39 @@ func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64, sd flo
 			lsf[k] = -lsf[k]
 		}
 	}
+	return lsf
+}
+
+// isoWindow multiplies the line spread function by a Hamming window
+// centred on its centroid (step 5), reaching to the farther end, and
+// returns the centroid (in bins) and the window's half-width.
+func isoWindow(lsf []float64) (cen, halfWin float64, err error) {
 	var s1, s0 float64
 	for k, v := range lsf {
 		s1 += v * float64(k)
 		s0 += v
 	}
 	if s0 <= 0 {
-		return ErrNoEdge
+		return 0, 0, ErrNoEdge
 	}
-	cen := s1 / s0
-	halfWin := math.Max(cen, float64(nBins-1)-cen)
+	cen = s1 / s0
+	halfWin = math.Max(cen, float64(len(lsf)-1)-cen)
 	for k := range lsf {
 		lsf[k] *= 0.54 + 0.46*math.Cos(math.Pi*(float64(k)-cen)/halfWin)
 	}
-	// Step 6: transform, normalise, correct for the derivative.
-	cosSlant := 1 / math.Sqrt(1+b*b)
-	dx := cosSlant / nb // bin spacing along the normal, px
-	val := make([]float64, len(freq))
-	se := make([]float64, len(freq))
+	return cen, halfWin, nil
+}
+
+// isoDFT is the magnitude of the windowed line spread function's discrete
+// Fourier transform at freq (cycles/pixel; bins dx px apart, centred at
+// cen), normalised to 1 at zero frequency (step 6), with the standard
+// error of each value from the noise sd per pixel spread over the bins'
+// counts cnt, through the central difference and the window, and the
+// noise's shape (never below white).
+func isoDFT(lsf, cnt []float64, cen, halfWin, dx float64, freq []float64, sd float64, shape noiseShape) (val, se []float64) {
+	nBins := len(lsf)
+	val = make([]float64, len(freq))
+	se = make([]float64, len(freq))
 	var x0 float64
 	for _, v := range lsf {
 		x0 += v
@@ -261,22 +344,33 @@ func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64, sd flo
 			pn += sd * sd / math.Max(cnt[k], 1) * (ar*ar + ai*ai)
 		}
 		pn *= math.Max(shape.factor(f), 1) // conservative, as in stieltjes
-		mag := math.Hypot(re, im) / x0
-		e := math.Sqrt(pn/2) / x0
+		val[j] = math.Hypot(re, im) / x0
+		if j > 0 {
+			se[j] = math.Sqrt(pn/2) / x0
+		}
+	}
+	return val, se
+}
+
+// isoDerivativeCorrection divides each value and its standard error by the
+// transfer function of the central difference over bins dx px apart,
+// sin(2 pi f dx)/(2 pi f dx) (step 6), held at 0.1 or more.
+func isoDerivativeCorrection(val, se, freq []float64, dx float64) {
+	for j, f := range freq {
 		arg := 2 * math.Pi * f * dx
 		if arg > 0 {
 			corr := math.Max(math.Sin(arg)/arg, 0.1)
-			mag /= corr
-			e /= corr
-		}
-		val[j] = mag
-		if j > 0 {
-			se[j] = e
+			val[j] /= corr
+			se[j] /= corr
 		}
 	}
-	m.Curve.Freq, m.Curve.Value = freq, val
-	m.SE = se
-	// Profiles for display, normalised like the refined ones.
+}
+
+// isoProfiles returns the edge spread and line spread functions for
+// display, normalised like the refined ones: x in px from the centroid,
+// the ESF from 0 (dark) to 1 (light), the LSF to a peak of 1.
+func isoProfiles(esf, lsf []float64, cen, dx float64) (Profile, Profile) {
+	nBins := len(esf)
 	lo, hi := esf[0], esf[nBins-1]
 	if hi < lo {
 		lo, hi = hi, lo
@@ -285,19 +379,19 @@ func measureISO(m *Measurement, p *plane.Plane, r Region, freq []float64, sd flo
 	for _, v := range lsf {
 		peak = math.Max(peak, v)
 	}
-	m.ESF, m.LSF = Profile{}, Profile{}
+	var e, l Profile
 	for k := range esf {
 		x := (float64(k) - cen) * dx
-		m.ESF.X = append(m.ESF.X, x)
+		e.X = append(e.X, x)
 		v := (esf[k] - lo) / (hi - lo)
 		if esf[nBins-1] < esf[0] {
 			v = 1 - v
 		}
-		m.ESF.V = append(m.ESF.V, v)
-		m.LSF.X = append(m.LSF.X, x)
-		m.LSF.V = append(m.LSF.V, lsf[k]/peak)
+		e.V = append(e.V, v)
+		l.X = append(l.X, x)
+		l.V = append(l.V, lsf[k]/peak)
 	}
-	return nil
+	return e, l
 }
 
 var errTooFewPhases = errors.New("edge: the edge is too close to a pixel axis for a whole phase cycle (iso method)")
