@@ -51,7 +51,7 @@ test('a dropped DNG is measured on its mosaic planes, as the tool measures it', 
   assert.ok(spread > 100, `viewer canvas spread ${spread}`);
   await shot(page, '20-raw-dng');
   // A target's detail lists MTF50 per colour plane.
-  await page.click('button:has-text("Show the target nearest the centre")');
+  await page.click('button:has-text("Show the target nearest the optical centre")');
   const perColour = page.locator('dt:has-text("MTF50 by colour") + dd');
   await perColour.waitFor();
   assert.match(await perColour.textContent(), /^R .* · G .* · B /);
