@@ -80,6 +80,9 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	if err != nil {
 		return nil, err
 	}
+	if dec.Width < MinSidePx || dec.Height < MinSidePx {
+		return nil, &TooSmallError{Width: dec.Width, Height: dec.Height}
+	}
 	img = &Image{
 		File: name, Width: dec.Width, Height: dec.Height,
 		Format: dec.Format, BitDepth: dec.BitDepth,
