@@ -190,6 +190,9 @@ func placeFrame(img *Image, s Settings, freqs []float64) (field.Geometry, error)
 	if err != nil {
 		return field.Geometry{}, err
 	}
+	if img.PitchSource == "sensor size" && img.PitchUM > MaxPitchUM {
+		return field.Geometry{}, fmt.Errorf("analyze: the sensor format over this photo's %d px width makes pixels of %.0f um, more than %d um: enter the pixel pitch, or measure the photo at its full size", img.Width, img.PitchUM, MaxPitchUM)
+	}
 	geo := field.NewGeometry(img.Width, img.Height, img.PitchUM)
 	if s.CenterPx != nil {
 		geo.CenterX, geo.CenterY = s.CenterPx[0], s.CenterPx[1]

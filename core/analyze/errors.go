@@ -13,6 +13,11 @@ import (
 // few pixels of margin around it.
 const MinSidePx = 32
 
+// MaxPitchUM is the largest pixel pitch, um, that field geometry accepts
+// (core/field Geometry.Validate); a sensor format spread over a small or
+// reduced photo can exceed it.
+const MaxPitchUM = 100
+
 // TooSmallError reports a photo narrower or lower than MinSidePx; it is
 // returned before the pixel pitch or anything else is worked out.
 type TooSmallError struct {

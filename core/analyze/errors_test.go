@@ -62,3 +62,18 @@ func TestUserMessage(t *testing.T) {
 		}
 	}
 }
+
+// TestPitchFromSensorTooLarge: a sensor format over a small photo is
+// explained, not reported as a field geometry error.
+func TestPitchFromSensorTooLarge(t *testing.T) {
+	cam := simcam.Camera{W: 256, H: 256, Encoding: simcam.SRGB8}
+	data, err := cam.Encode(simcam.Scene{Background: 0.5})
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = Run(context.Background(), "small.png", data, Settings{FallbackSensorMM: [2]float64{36, 24}}, nil)
+	want := "the sensor format over this photo's 256 px width makes pixels of 141 um, more than 100 um: enter the pixel pitch"
+	if err == nil || !strings.HasPrefix(UserMessage(err), want) || FileFault(err) {
+		t.Fatalf("got %v, want %q (not a fault of the file)", err, want)
+	}
+}
