@@ -137,6 +137,7 @@ test('5: a 60,000-character lens name does not widen the page', async () => {
   const [scroll, inner] = await page.evaluate(() => [document.documentElement.scrollWidth, window.innerWidth]);
   assert.ok(scroll <= inner, `page ${scroll} px wide in a ${inner} px window`);
   await shot(page, '17-long-lens', { fullPage: false });
+  await shot(page.locator('.about'), '17-long-lens-about');
   assert.deepEqual(errors, []);
   await context.close();
 });
