@@ -374,14 +374,21 @@ function stageWords(stage) {
   return { reading: 'Reading the file', 'finding targets': 'Finding targets', measuring: 'Measuring edges', summarising: 'Summarising' }[stage] || stage;
 }
 
-async function makeThumb(p) {
-  try {
-    const bmp = await bitmap(p.file, { resizeHeight: 96, resizeQuality: 'medium' });
-    drawThumb(p, bmp);
-    bmp.close();
-  } catch {
-    // TIFF and anything the browser cannot show: the preview comes with the result.
-  }
+// Thumbnails are made one at a time: the browser decodes each photo at full
+// size first (480 MB for 120 MP), so a dozen at once would hold gigabytes.
+let thumbs = Promise.resolve();
+
+function makeThumb(p) {
+  thumbs = thumbs.then(async () => {
+    if (!state.photos.includes(p)) return; // removed meanwhile
+    try {
+      const bmp = await bitmap(p.file, { resizeHeight: 96, resizeQuality: 'medium' });
+      drawThumb(p, bmp);
+      bmp.close();
+    } catch {
+      // TIFF and anything the browser cannot show: the preview comes with the result.
+    }
+  });
 }
 
 function drawThumb(p, src) {
