@@ -173,6 +173,7 @@ test('7: large photos are admitted within a pixel budget: never two 120 MP photo
   const peak = rss.stop();
   console.log(`# 3 PNGs of 119.9 MP (${fs.statSync(files[0]).size} bytes each): ${((Date.now() - t0) / 1000).toFixed(1)} s, browser peak ${(peak / 2 ** 30).toFixed(2)} GB`);
   assert.equal(await page.evaluate(() => window.mostAtOnce), 1, 'two 120 MP photos were measured at once');
+  assert.ok(peak < 2 * 2.87 * 2 ** 30, 'README quotes a peak of 2.87 GB');
   const states = await page.$$eval('.photo .state', (ss) => ss.map((s) => s.textContent));
   for (const s of states) assert.match(s, /^Not measured: no measurable edge found/);
   assert.deepEqual(errors, []);

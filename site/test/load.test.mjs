@@ -246,13 +246,14 @@ async function batch(label, files, timeout) {
   const line = `${label}: ${(ms / 1000).toFixed(1)} s, first result ${(first / 1000).toFixed(1)} s, browser peak ${(peak / GB).toFixed(2)} GB`;
   console.log('# ' + line);
   figures.push(line);
-  return { context, page, errors, rows };
+  return { context, page, errors, rows, peak };
 }
 
 test('12 photos of 24 MP at once: all measured, each the tool\'s numbers', { skip: !HEAVY && 'set SAGITTA_LOAD=1' }, async () => {
   const photo = demoPhoto(1);
   const want = JSON.parse(cli(['--json'], [photo])).images[0];
-  const { context, page, errors, rows } = await batch('12 x 24 MP JPEG at once', copies(photo, 12, 'batch24'), 1200000);
+  const { context, page, errors, rows, peak } = await batch('12 x 24 MP JPEG at once', copies(photo, 12, 'batch24'), 1800000);
+  assert.ok(peak < 2 * 2.05 * GB, 'README quotes a peak of 2.05 GB');
   assert.deepEqual(rows.map((r) => r.state), Array(12).fill('done'));
   for (const r of (await results(page)).images) assert.equal(same(r, want), '');
   assert.deepEqual(errors, []);
@@ -261,7 +262,8 @@ test('12 photos of 24 MP at once: all measured, each the tool\'s numbers', { ski
 
 test('3 photos of 50 MP at once: all measured', { skip: !HEAVY && 'set SAGITTA_LOAD=1' }, async () => {
   const photo = testPhoto('load-50mp.jpg', ['-w', '8660', '-h', '5774']);
-  const { context, errors, rows } = await batch('3 x 50 MP JPEG at once', copies(photo, 3, 'batch50'), 900000);
+  const { context, errors, rows, peak } = await batch('3 x 50 MP JPEG at once', copies(photo, 3, 'batch50'), 900000);
+  assert.ok(peak < 2 * 2.66 * GB, 'README quotes a peak of 2.66 GB');
   assert.deepEqual(rows.map((r) => r.state), ['done', 'done', 'done']);
   assert.deepEqual(errors, []);
   await context.close();
@@ -270,6 +272,8 @@ test('3 photos of 50 MP at once: all measured', { skip: !HEAVY && 'set SAGITTA_L
 test('a 100 MP photo: measured, or one sentence', { skip: !HEAVY && 'set SAGITTA_LOAD=1' }, async () => {
   const photo = testPhoto('load-100mp.jpg', ['-w', '12248', '-h', '8165']);
   const { context, errors, rows } = await batch('1 x 100 MP JPEG', [photo], 900000);
+  console.log(`# the 100 MP photo: ${rows[0].text}`);
+  figures.push(`the 100 MP photo: ${rows[0].text}`);
   assert.ok(rows[0].state === 'done' || /^Not measured: [^\n]+\.$/.test(rows[0].text), rows[0].text);
   assert.deepEqual(errors, []);
   await context.close();
