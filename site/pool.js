@@ -27,7 +27,7 @@ export const CORE_MAX_PIXELS = 120e6;
 
 /** photoPixels is what a photo counts against the budget: its declared pixels. */
 export function photoPixels(bytes) {
-  const d = declaredSize(new Uint8Array(bytes, 0, Math.min(bytes.byteLength, 1 << 20)));
+  const d = declaredSize(new Uint8Array(bytes)); // a view, not a copy (a TIFF's IFD may sit at the end)
   if (!d) return 0; // not a photo the core can read: refused at once
   const px = d.width * d.height;
   return px > CORE_MAX_PIXELS ? 0 : px;

@@ -197,3 +197,26 @@ test('a worker whose memory passed the limit is replaced after its job', async (
   const err = await c.promise.catch((e) => e);
   assert.equal(err.fileFault, true);
 });
+
+test('declared sizes: JPEG frame header after other segments, TIFF with its IFD at the end', async () => {
+  const { declaredSize } = await import('../header.js');
+  // JPEG: SOI, an APP0 of 16 bytes, SOF0 with height 4000 and width 6000 (ITU-T T.81, B.2.2).
+  const jpeg = new Uint8Array([0xff, 0xd8, 0xff, 0xe0, 0, 16, ...new Array(14).fill(0), 0xff, 0xc0, 0, 17, 8, 0x0f, 0xa0, 0x17, 0x70, 3, ...new Array(9).fill(0)]);
+  assert.deepEqual(declaredSize(jpeg), { width: 6000, height: 4000 });
+  // TIFF (little-endian) whose IFD 0 sits after 1000 bytes of strips: ImageWidth LONG 9000, ImageLength SHORT 7000.
+  const tiff = new Uint8Array(1000 + 2 + 24 + 4);
+  const v = new DataView(tiff.buffer);
+  tiff.set([0x49, 0x49, 0x2a, 0]);
+  v.setUint32(4, 1000, true);
+  v.setUint16(1000, 2, true);
+  v.setUint16(1002, 256, true);
+  v.setUint16(1004, 4, true);
+  v.setUint32(1006, 1, true);
+  v.setUint32(1010, 9000, true);
+  v.setUint16(1014, 257, true);
+  v.setUint16(1016, 3, true);
+  v.setUint32(1018, 1, true);
+  v.setUint16(1022, 7000, true);
+  assert.deepEqual(declaredSize(tiff), { width: 9000, height: 7000 });
+  assert.equal(declaredSize(new TextEncoder().encode('not a photo')), null);
+});
