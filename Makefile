@@ -127,10 +127,12 @@ run: wasm dist
 	@echo "Sagitta's page (Ctrl-C to stop):"
 	$(GO) run ./site/serve -addr $(ADDR) -site site -gen $(WEB) -dist dist
 
-# Browser tests: Debian's Chromium and playwright-core (site/test/package-lock.json).
+# Browser tests: Debian's Chromium and playwright-core (site/test/package-lock.json); ImageMagick
+# makes the CMYK JPEG of the hostile-input test.
 browser-deps:
 	@test -x /usr/bin/chromium || { apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium; }
 	@test -d $(TESTDIR)/node_modules/playwright-core || (cd $(TESTDIR) && npm ci --no-audit --no-fund)
+	@test -x /usr/bin/convert || { DEBIAN_FRONTEND=noninteractive apt-get install -y -qq imagemagick >/dev/null 2>&1 || echo "warning: imagemagick could not be installed (the CMYK JPEG of load.test.mjs is skipped)"; }
 
 test-browser: browser-deps build wasm dist
 	mkdir -p $(TESTOUT)

@@ -31,12 +31,16 @@ window.sagitta = {
   },
 };
 
+// The page's status: working while any photo is queued, measured or updated;
+// then done when at least one photo was measured (each row's data-state says
+// how each photo fared: queued, working, updating, done, error, cancelled);
+// error when photos failed and none was measured; ready otherwise.
 function setStatus() {
   const ps = state.photos;
   let s = 'ready';
   if (ps.some((p) => p.status === 'queued' || p.status === 'working' || p.status === 'updating')) s = 'working';
-  else if (ps.some((p) => p.status === 'error')) s = 'error';
   else if (ps.some((p) => p.result)) s = 'done';
+  else if (ps.some((p) => p.status === 'error')) s = 'error';
   document.body.dataset.status = s;
   $('queue-head').hidden = ps.length === 0;
   $('first-time').hidden = ps.length > 0;
@@ -148,15 +152,19 @@ async function loadDemo() {
 }
 
 function addFiles(files) {
-  const accepted = files.filter((f) => f.size > 0);
+  const accepted = files;
   for (const file of accepted) {
     const p = {
       key: nextKey++, name: file.name, file, label: '', status: 'queued', stage: 'waiting',
-      fraction: 0, result: null, error: '', thumb: null, preview: null, job: null, settingsKey: '',
+      fraction: 0, result: null, error: '', fileFault: false, thumb: null, preview: null, job: null, settingsKey: '',
       update: null, remeasure: '', remeasureCodes: [], remeasureKey: '',
     };
     state.photos.push(p);
     makeRow(p);
+    if (file.size === 0) {
+      failed(p, 'the file is empty (0 bytes)', true);
+      continue;
+    }
     makeThumb(p);
     measure(p);
   }
@@ -221,20 +229,31 @@ async function measure(p) {
     if (e instanceof AbortError) {
       p.status = 'cancelled';
       updateRow(p);
+      if (state.selected === p.key) showSelected();
     } else {
-      failed(p, e.message);
+      failed(p, e.message, e.fileFault === true);
     }
   }
   setStatus();
   applySettings();
 }
 
-function failed(p, message) {
+// failed shows why a photo was not measured, in its row and, when it is
+// selected, in the result panel. fileFault: the file itself cannot be
+// measured, so "Measure again" is not offered.
+function failed(p, message, fileFault = false) {
   p.status = 'error';
   p.error = message;
+  p.fileFault = fileFault;
   updateRow(p);
   setStatus();
-  announce(`${p.name}: ${message}`);
+  if (state.selected === p.key) showSelected();
+  announce(`${p.name} was not measured: ${sentence(message)}`);
+}
+
+// sentence ends a plain line with a full stop.
+function sentence(text) {
+  return /[.!?]$/.test(text) ? text : text + '.';
 }
 
 function isTIFF(b) {
@@ -276,79 +295,101 @@ function makeRow(p) {
   open.addEventListener('click', () => select(p.key));
   const actions = document.createElement('div');
   actions.className = 'row-actions';
+  // The buttons are made once and only shown or hidden as the photo's state
+  // changes: a button replaced under a held mouse press loses the click.
+  const button = (text, f) => {
+    const b = document.createElement('button');
+    b.type = 'button';
+    b.className = 'button small';
+    b.textContent = text;
+    b.setAttribute('aria-label', `${text} ${p.name}`);
+    b.addEventListener('click', f);
+    actions.append(b);
+    return b;
+  };
+  const cancel = button('Cancel', () => p.job && p.job.cancel());
+  const again = button('Measure again', () => measure(p));
+  const removeButton = button('Remove', () => remove(p));
   li.append(thumb, open, actions);
   $('photo-list').append(li);
-  p.row = { li, thumb, open, actions };
+  p.row = { li, thumb, open, actions, cancel, again, remove: removeButton };
   updateRow(p);
 }
 
+// updateRow brings a photo's row up to date in place: texts and attributes
+// change, no element is replaced.
 function updateRow(p) {
   if (!p.row) return;
-  const { li, open, actions } = p.row;
+  const { li, open, cancel, again } = p.row;
   li.classList.toggle('selected', state.selected === p.key);
-  open.querySelector('.name').textContent = p.name;
+  li.dataset.state = p.status;
+  setText(open.querySelector('.name'), p.name);
+  open.querySelector('.name').title = p.name;
   const ex = p.result && p.result.exif ? p.result.exif : {};
   const meta = [];
   if (ex.f_number) meta.push(fmtFNumber(ex.f_number));
   if (ex.focal_length_mm) meta.push(`${+ex.focal_length_mm.toFixed(1)} mm`);
   if (p.result) meta.push(`${p.result.width} × ${p.result.height} px`);
-  open.querySelector('.meta').textContent = meta.join(' · ');
+  setText(open.querySelector('.meta'), meta.join(' · '));
   const st = open.querySelector('.state');
   const bar = open.querySelector('progress');
   st.classList.toggle('error', p.status === 'error');
   bar.hidden = !(p.status === 'queued' || p.status === 'working');
   bar.value = p.fraction;
+  let text = '';
   switch (p.status) {
     case 'queued':
-      st.textContent = 'Waiting for a free worker…';
+      text = 'Waiting for a free worker…';
       bar.removeAttribute('value');
       break;
     case 'working':
-      st.textContent = stageWords(p.stage) + ` (${Math.round(p.fraction * 100)} %)`;
+      text = stageWords(p.stage) + ` (${Math.round(p.fraction * 100)} %)`;
       break;
     case 'updating':
-      st.textContent = 'Applying the new settings…';
+      text = 'Applying the new settings…';
       break;
     case 'done':
-      st.textContent = outcome(p.result);
+      text = outcome(p.result);
       break;
     case 'error':
-      st.textContent = 'Not measured: ' + p.error;
+      text = 'Not measured: ' + sentence(p.error);
       break;
     case 'cancelled':
-      st.textContent = 'Cancelled';
+      text = 'Cancelled';
       break;
   }
-  open.setAttribute('aria-label', `${p.name}. ${st.textContent}. Show this photo.`);
-  actions.replaceChildren();
-  const add = (text, f, label) => {
-    const b = document.createElement('button');
-    b.type = 'button';
-    b.className = 'button small';
-    b.textContent = text;
-    b.setAttribute('aria-label', `${label} ${p.name}`);
-    b.onclick = f;
-    actions.append(b);
-  };
-  if (p.status === 'queued' || p.status === 'working') add('Cancel', () => p.job && p.job.cancel(), 'Cancel');
-  else {
-    if (p.status !== 'updating' && (p.status !== 'done' || isStale(p))) add('Measure again', () => measure(p), 'Measure again');
-    add('Remove', () => remove(p), 'Remove');
-  }
+  setText(st, text);
+  const label = `${p.name}. ${text}. Show this photo.`;
+  if (open.getAttribute('aria-label') !== label) open.setAttribute('aria-label', label);
+  const running = p.status === 'queued' || p.status === 'working';
+  cancel.hidden = !running;
+  again.hidden = running || p.status === 'updating' || (p.status === 'done' && !isStale(p)) || (p.status === 'error' && p.fileFault);
+}
+
+// setText changes an element's text only when it differs.
+function setText(e, text) {
+  if (e.textContent !== text) e.textContent = text;
 }
 
 function stageWords(stage) {
   return { reading: 'Reading the file', 'finding targets': 'Finding targets', measuring: 'Measuring edges', summarising: 'Summarising' }[stage] || stage;
 }
 
-async function makeThumb(p) {
-  try {
-    const bmp = await bitmap(p.file, { resizeHeight: 96, resizeQuality: 'medium' });
-    drawThumb(p, bmp);
-    bmp.close();
-  } catch {
-    // TIFF and anything the browser cannot show: the preview comes with the result.
-  }
+// Thumbnails are made one at a time: the browser decodes each photo at full
+// size first (480 MB for 120 MP), so a dozen at once would hold gigabytes.
+let thumbs = Promise.resolve();
+
+function makeThumb(p) {
+  thumbs = thumbs.then(async () => {
+    if (!state.photos.includes(p)) return; // removed meanwhile
+    try {
+      const bmp = await bitmap(p.file, { resizeHeight: 96, resizeQuality: 'medium' });
+      drawThumb(p, bmp);
+      bmp.close();
+    } catch {
+      // TIFF and anything the browser cannot show: the preview comes with the result.
+    }
+  });
 }
 
 function drawThumb(p, src) {
@@ -414,8 +455,9 @@ async function showSelected() {
     if (p) {
       sec.replaceChildren();
       const msg = document.createElement('p');
-      msg.className = 'empty';
-      msg.textContent = p.status === 'error' ? `${p.name} was not measured: ${p.error}` : `${p.name}: the result appears here when it is measured.`;
+      msg.className = p.status === 'error' ? 'empty error' : 'empty';
+      msg.textContent = p.status === 'error' ? `${p.name} was not measured: ${sentence(p.error)}` :
+        p.status === 'cancelled' ? `${p.name} was not measured: measuring it was cancelled.` : `${p.name}: the result appears here when it is measured.`;
       sec.append(msg);
     }
     return;
@@ -551,7 +593,7 @@ function setupSettings() {
     },
   });
   $('remeasure').addEventListener('click', () => {
-    for (const p of state.photos) if ((p.status === 'done' && isStale(p)) || p.status === 'error' || p.status === 'cancelled') measure(p);
+    for (const p of state.photos) if ((p.status === 'done' && isStale(p)) || (p.status === 'error' && !p.fileFault) || p.status === 'cancelled') measure(p);
   });
 }
 

@@ -37,18 +37,28 @@
 //                                                "finding targets",
 //                                                "measuring", "summarising"),
 //                                                fraction of the job, 0..1
-//   {type: "result", id, result, preview}        result: for "analyze" the
+//   {type: "result", id, result, preview, memory}
+//                                                result: for "analyze" the
 //                                                photo's analysis (one entry
 //                                                of the JSON contract's
 //                                                "images"), for "call" the
 //                                                function's value; preview:
 //                                                null or {width, height,
 //                                                factor, pixels (Uint8Array,
-//                                                grey)}, transferred
-//   {type: "error", id, message, fatal}          message: one plain line;
-//                                                fatal: the Go instance is
-//                                                dead and the worker must be
-//                                                replaced
+//                                                grey)}, transferred;
+//                                                memory: the worker's
+//                                                WebAssembly memory, bytes
+//   {type: "error", id, message, fatal, fileFault, memory}
+//                                                message: one plain line for
+//                                                a person (no package
+//                                                prefix); fatal: the Go
+//                                                instance is dead and the
+//                                                worker must be replaced;
+//                                                fileFault: the file itself
+//                                                cannot be measured (not an
+//                                                image, damaged, too small,
+//                                                too large), so measuring it
+//                                                again cannot help
 //
 // Rules
 //   - Every reply carries the id of its job; the page drops replies whose id

@@ -493,7 +493,13 @@ function renderAbout(about, r) {
   const a = el('div');
   a.append(el('h3', {}, 'About this photo'));
   const dl = el('dl');
-  const row = (k, v) => v && dl.append(el('dt', {}, k), el('dd', {}, v));
+  // Exif texts come from the file: long ones are cut, the whole text in a tooltip.
+  const row = (k, v) => {
+    if (!v) return;
+    const dd = el('dd', {}, v.length > 120 ? v.slice(0, 117) + '…' : v);
+    if (v.length > 120) dd.title = v;
+    dl.append(el('dt', {}, k), dd);
+  };
   row('Camera', ex.model && ex.make && ex.model.toLowerCase().startsWith(ex.make.toLowerCase()) ? ex.model : [ex.make, ex.model].filter(Boolean).join(' '));
   row('Lens', ex.lens_model);
   row('Aperture', fmtFNumber(ex.f_number));

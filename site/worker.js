@@ -31,6 +31,16 @@ const CALLS = {
 
 let started = null; // promise of the running Go instance
 let go = null;
+let instance = null;
+
+// memory is the size of the core's WebAssembly memory, bytes (it only grows).
+function memory() {
+  try {
+    return instance ? instance.exports.mem.buffer.byteLength : 0;
+  } catch {
+    return 0;
+  }
+}
 
 self.onmessage = async (ev) => {
   const msg = ev.data;
@@ -53,13 +63,13 @@ self.onmessage = async (ev) => {
     else if (msg.type === 'call') call(msg);
     else throw new Error(`unknown message type "${msg.type}"`);
   } catch (e) {
-    self.postMessage({ type: 'error', id: msg.id, message: text(e), fatal: isDead(e) });
+    self.postMessage({ type: 'error', id: msg.id, message: text(e), fatal: isDead(e), fileFault: !!(e && e.fileFault === true), memory: memory() });
   }
 };
 
 async function start(module) {
   go = new self.Go();
-  const instance = await WebAssembly.instantiate(module, go.importObject);
+  instance = await WebAssembly.instantiate(module, go.importObject);
   go.run(instance); // resolves only when the Go program exits
   if (!self.sagittaReady) throw new Error('the core did not register its functions');
 }
@@ -86,7 +96,7 @@ function analyze(msg) {
       preview = null; // the analysis stands; only the picture is missing
     }
   }
-  self.postMessage({ type: 'result', id: msg.id, result, preview }, transfer);
+  self.postMessage({ type: 'result', id: msg.id, result, preview, memory: memory() }, transfer);
 }
 
 function call(msg) {

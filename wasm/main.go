@@ -71,7 +71,7 @@ func register(name string, f func(args []js.Value) (any, error)) {
 		}()
 		v, err := f(args)
 		if err != nil {
-			return jsError(err.Error())
+			return userError(err)
 		}
 		return v
 	}))
@@ -220,6 +220,16 @@ func goBytes(v js.Value) []byte {
 	data := make([]byte, v.Get("length").Int())
 	js.CopyBytesToGo(data, v)
 	return data
+}
+
+// userError returns a JavaScript Error for err: its message is the core's
+// plain line for a person (analyze.UserMessage, no package prefixes), and
+// its fileFault property says whether the file itself is at fault
+// (analyze.FileFault), so that the page offers no "Measure again".
+func userError(err error) js.Value {
+	e := jsError(analyze.UserMessage(err))
+	e.Set("fileFault", analyze.FileFault(err))
+	return e
 }
 
 // jsError returns a JavaScript Error for the caller to throw; the worker

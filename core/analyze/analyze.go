@@ -65,6 +65,9 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	if err != nil {
 		return nil, err
 	}
+	if dec.Width < MinSidePx || dec.Height < MinSidePx {
+		return nil, &TooSmallError{Width: dec.Width, Height: dec.Height}
+	}
 	img = &Image{
 		File: name, Width: dec.Width, Height: dec.Height,
 		Format: dec.Format, BitDepth: dec.BitDepth,
@@ -205,6 +208,9 @@ func placeFrame(img *Image, s Settings, freqs []float64) (field.Geometry, error)
 	img.PitchFrom = string(from)
 	if err != nil {
 		return field.Geometry{}, err
+	}
+	if img.PitchSource == "sensor size" && img.PitchUM > MaxPitchUM {
+		return field.Geometry{}, fmt.Errorf("analyze: the sensor format over this photo's %d px width makes pixels of %.0f um, more than %d um: enter the pixel pitch, or measure the photo at its full size", img.Width, img.PitchUM, MaxPitchUM)
 	}
 	_, fromExif := exifPitch(img.Exif.tags())
 	img.PitchAssumed = !(s.PitchUM > 0 || s.SensorMM[0] > 0 || fromExif)

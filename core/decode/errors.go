@@ -94,3 +94,20 @@ func guard(format string, f func() error) (err error) {
 	}
 	return nil
 }
+
+// UserMessage is the error as one plain clause for a person, without the
+// package prefix or the standard decoder's wording.
+func (e *FormatError) UserMessage() string {
+	return "the file cannot be read as a photo (" + e.Msg + ")"
+}
+
+// UserMessage is the error as one plain clause for a person, without the
+// package prefix.
+func (e *UnsupportedError) UserMessage() string { return e.Msg }
+
+// UserMessage is the error as one plain clause for a person, without the
+// package prefix.
+func (e *TooLargeError) UserMessage() string {
+	return fmt.Sprintf("the photo is %d x %d px (%.1f MP), more than the %.0f MP this tool measures",
+		e.Width, e.Height, float64(e.Width)*float64(e.Height)/1e6, float64(e.MaxPixels)/1e6)
+}

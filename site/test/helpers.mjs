@@ -155,3 +155,55 @@ export function useServedPage() {
   });
   return env;
 }
+
+/**
+ * sampleRSS samples, every 250 ms, the resident memory (VmRSS from /proc) of
+ * the processes this test process started (the browser and its renderers,
+ * GPU-less helpers and workers), summed. now() gives the current sum,
+ * stop() ends sampling and gives the peak, in bytes.
+ */
+export function sampleRSS(rootPid = process.pid) {
+  let peak = 0;
+  const tree = () => {
+    const kids = new Map();
+    for (const d of fs.readdirSync('/proc')) {
+      if (!/^\d+$/.test(d)) continue;
+      try {
+        const st = fs.readFileSync(`/proc/${d}/stat`, 'utf8');
+        const ppid = +st.slice(st.lastIndexOf(')') + 2).split(' ')[1];
+        if (!kids.has(ppid)) kids.set(ppid, []);
+        kids.get(ppid).push(+d);
+      } catch {
+        // a process that just ended
+      }
+    }
+    const all = [];
+    const walk = (p) => {
+      all.push(p);
+      for (const k of kids.get(p) || []) walk(k);
+    };
+    walk(rootPid);
+    return all.filter((p) => {
+      if (p === rootPid) return false;
+      try {
+        return fs.readFileSync(`/proc/${p}/comm`, 'utf8').trim() !== 'serve'; // the page's server is not the browser
+      } catch {
+        return false;
+      }
+    });
+  };
+  const rss = () => {
+    let sum = 0;
+    for (const p of tree()) {
+      try {
+        const m = /VmRSS:\s+(\d+) kB/.exec(fs.readFileSync(`/proc/${p}/status`, 'utf8'));
+        if (m) sum += +m[1] * 1024;
+      } catch {
+        // a process that just ended
+      }
+    }
+    return sum;
+  };
+  const timer = setInterval(() => (peak = Math.max(peak, rss())), 250);
+  return { now: rss, stop: () => (clearInterval(timer), (peak = Math.max(peak, rss())), peak) };
+}

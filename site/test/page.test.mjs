@@ -266,7 +266,9 @@ test('cancelling stops a photo; a broken file is an error; the next photo still 
   await page.setInputFiles('#file-input', small);
   await page.waitForFunction(() => window.sagitta.results.images.length === 1, null, { timeout: 120000 });
   await page.waitForFunction(() => document.body.dataset.status !== 'working');
-  assert.equal(await page.evaluate(() => document.body.dataset.status), 'error'); // the broken file stays listed
+  // The broken file stays listed with its state; the page is done, as a photo was measured.
+  assert.equal(await page.evaluate(() => document.body.dataset.status), 'done');
+  assert.equal(await page.getAttribute('.photo:nth-child(2)', 'data-state'), 'error');
   // A dead WebAssembly instance (a trap, as on running out of memory) is
   // reported, and a fresh worker measures the next photo.
   let patched = 0;

@@ -134,3 +134,89 @@ test('pool size follows cores and memory', () => {
   const cases = [[1, 8, 1], [2, 8, 2], [4, 8, 3], [16, 8, 4], [8, 0.25, 1], [8, 0.5, 1]];
   for (const [c, m, want] of cases) assert.equal(poolSize(c, m), want, `cores ${c}, memory ${m} GB`);
 });
+
+// pngHeader is the start of a PNG declaring w x h px (ISO/IEC 15948, 11.2.2):
+// enough for the pool to read its size.
+function pngHeader(w, h) {
+  const b = new Uint8Array(33);
+  b.set([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52]);
+  const v = new DataView(b.buffer);
+  v.setUint32(16, w);
+  v.setUint32(20, h);
+  b[24] = 8;
+  return b.buffer;
+}
+
+test('photos are admitted while their pixels fit the budget; a larger one runs alone', async () => {
+  const workers = [];
+  const p = new Pool({ module: {}, spawn: () => new FakeWorker(workers), size: 2, idleMs: 0, pixelBudget: 100e6 });
+  const big1 = p.analyze('big1', pngHeader(10000, 9000), {}, 0); // 90 MP
+  const big2 = p.analyze('big2', pngHeader(10000, 9000), {}, 0);
+  const small = p.analyze('small', pngHeader(100, 100), {}, 0);
+  await tick();
+  assert.equal(workers.length, 1, 'the second 90 MP photo waits');
+  assert.equal(p.pixelsInFlight, 90e6);
+  const w = workers[0];
+  w.reply({ type: 'result', id: w.inbox[0].id, result: { file: 'big1' } });
+  await big1.promise;
+  await tick();
+  // In order: the second large photo, then the small one beside it.
+  assert.deepEqual(workers.flatMap((x) => x.inbox.map((m) => m.name)), ['big1', 'big2', 'small']);
+  assert.equal(p.pixelsInFlight, 90e6 + 1e4);
+  for (const x of workers) for (const m of x.inbox.slice(-1)) if (m.name !== 'big1') x.reply({ type: 'result', id: m.id, result: { file: m.name } });
+  await Promise.all([big2.promise, small.promise]);
+  // One photo above the budget runs alone; a size beyond the core's limit is refused at once and costs nothing.
+  assert.equal(p.pixelsInFlight, 0);
+  const huge = p.analyze('huge', pngHeader(12000, 10000), {}, 0);
+  const declared = p.analyze('declared', pngHeader(100000, 100000), {}, 0);
+  await tick();
+  assert.equal(p.pixelsInFlight, 120e6);
+  assert.equal(workers.filter((x) => x.inbox.some((m) => m.name === 'declared')).length, 1, 'a file the core refuses at once needs no budget');
+  for (const x of workers) for (const m of x.inbox) if (m.name === 'huge' || m.name === 'declared') x.reply({ type: 'result', id: m.id, result: {} });
+  await Promise.all([huge.promise, declared.promise]);
+});
+
+test('a worker whose memory passed the limit is replaced after its job', async () => {
+  const workers = [];
+  const p = new Pool({ module: {}, spawn: () => new FakeWorker(workers), size: 1, idleMs: 0, memoryLimit: 1000 });
+  const a = p.analyze('a', new ArrayBuffer(8), {}, 0);
+  const b = p.analyze('b', new ArrayBuffer(8), {}, 0);
+  await tick();
+  workers[0].reply({ type: 'result', id: workers[0].inbox[0].id, result: {}, memory: 500 });
+  await a.promise;
+  await tick();
+  assert.equal(workers.length, 1, 'under the limit: kept');
+  workers[0].reply({ type: 'result', id: workers[0].inbox[1].id, result: {}, memory: 5000 });
+  await b.promise;
+  assert.equal(workers[0].terminated, true);
+  assert.equal(p.recycled, 1);
+  const c = p.analyze('c', new ArrayBuffer(8), {}, 0);
+  await tick();
+  assert.equal(workers.length, 2, 'a fresh worker takes the next photo');
+  workers[1].reply({ type: 'error', id: workers[1].inbox[0].id, message: 'the file cannot be read as a photo (truncated JPEG)', fileFault: true });
+  const err = await c.promise.catch((e) => e);
+  assert.equal(err.fileFault, true);
+});
+
+test('declared sizes: JPEG frame header after other segments, TIFF with its IFD at the end', async () => {
+  const { declaredSize } = await import('../header.js');
+  // JPEG: SOI, an APP0 of 16 bytes, SOF0 with height 4000 and width 6000 (ITU-T T.81, B.2.2).
+  const jpeg = new Uint8Array([0xff, 0xd8, 0xff, 0xe0, 0, 16, ...new Array(14).fill(0), 0xff, 0xc0, 0, 17, 8, 0x0f, 0xa0, 0x17, 0x70, 3, ...new Array(9).fill(0)]);
+  assert.deepEqual(declaredSize(jpeg), { width: 6000, height: 4000 });
+  // TIFF (little-endian) whose IFD 0 sits after 1000 bytes of strips: ImageWidth LONG 9000, ImageLength SHORT 7000.
+  const tiff = new Uint8Array(1000 + 2 + 24 + 4);
+  const v = new DataView(tiff.buffer);
+  tiff.set([0x49, 0x49, 0x2a, 0]);
+  v.setUint32(4, 1000, true);
+  v.setUint16(1000, 2, true);
+  v.setUint16(1002, 256, true);
+  v.setUint16(1004, 4, true);
+  v.setUint32(1006, 1, true);
+  v.setUint32(1010, 9000, true);
+  v.setUint16(1014, 257, true);
+  v.setUint16(1016, 3, true);
+  v.setUint32(1018, 1, true);
+  v.setUint16(1022, 7000, true);
+  assert.deepEqual(declaredSize(tiff), { width: 9000, height: 7000 });
+  assert.equal(declaredSize(new TextEncoder().encode('not a photo')), null);
+});

@@ -122,6 +122,16 @@ func TestBadInput(t *testing.T) {
 	if err := os.WriteFile(flat, data, 0o644); err != nil {
 		t.Fatal(err)
 	}
+	// A 1 x 1 PNG (issue 17): too small, said before the pixel pitch (36 mm
+	// over one pixel) is worked out.
+	dot := filepath.Join(dir, "dot.png")
+	one := simcam.Camera{W: 1, H: 1, Encoding: simcam.SRGB8}
+	if data, err = one.Encode(simcam.Scene{Background: 0.5}); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(dot, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
 	cases := []struct {
 		name string
 		args []string
@@ -136,6 +146,7 @@ func TestBadInput(t *testing.T) {
 		{"no pitch", []string{"analyze", flat}, "pixel pitch is unknown", 1},
 		{"bad tone", []string{"analyze", "--pitch-um", "5", "--tone", "sepia", flat}, "tone", 1},
 		{"bad method", []string{"analyze", "--pitch-um", "5", "--method", "fast", flat}, "method", 1},
+		{"1 x 1 px", []string{"analyze", "--sensor", "36x24", dot}, "1 x 1 px, too small to measure", 1},
 		{"unknown command", []string{"measure"}, "unknown command", 2},
 		{"no files", []string{"analyze", "--pitch-um", "5"}, "at least one photo", 2},
 		{"bad sensor", []string{"analyze", "--sensor", "36by24", flat}, "--sensor", 2},
