@@ -82,9 +82,10 @@
 //
 // # Recognition
 //
-// Recognise (recognise.go, detect.go) finds the marks' discs in a photo,
-// reads their rings, and fits the chart's pose, a homography from chart
-// units to image pixels (homography.go; Hartley and Zisserman's normalised
+// The files of this job are named photo_*.go; the others draw the chart.
+// Recognise (photo_recognise.go, photo_marks.go) finds the marks' discs in
+// a photo, reads their rings, and fits the chart's pose, a homography from
+// chart units to image pixels (photo_homography.go; Hartley and Zisserman's normalised
 // direct linear transformation), to the designed and found centres. The
 // pose tags every measurement with the target under it (Locate) and checks
 // the set-up (Check): how much of the frame the chart fills, whether part of
