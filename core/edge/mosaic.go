@@ -76,7 +76,9 @@ func MeasureSites(p *plane.Plane, sites Sites, r Region, opt Options) (*Measurem
 	m := &Measurement{Method: Refined.String()}
 	geometry(m, r, fit, s, flipped)
 	freq := opt.grid()
-	nDark, nLight := pairNoiseSites(p, r, fit, flipped, coreWidth(fit), sites)
+	// Noise from pairs of a site and the next one of its own colour one
+	// pattern period away (noise.go's pairNoise on the plane).
+	nDark, nLight := pairNoiseAt(p, r, fit, flipped, coreWidth(fit), sites.Period, sites.Keep)
 	// The mosaic's noise shape is not estimated: white noise is assumed
 	// (the zero noiseShape), as the sites of one plane are not neighbours.
 	if err := measureRefined(m, fit, s, freq, nDark, nLight, noiseShape{}); err != nil {
@@ -84,92 +86,4 @@ func MeasureSites(p *plane.Plane, sites Sites, r Region, opt Options) (*Measurem
 	}
 	assess(m, s, fit, nDark, nLight)
 	return m, nil
-}
-
-// gatherSites is gather restricted to the selected photosites.
-func gatherSites(p *plane.Plane, r Region, keep func(x, y int) bool) samples {
-	tx, ty, nx, ny := r.axes()
-	ex := math.Abs(r.HalfLen*tx) + math.Abs(r.HalfWidth*nx)
-	ey := math.Abs(r.HalfLen*ty) + math.Abs(r.HalfWidth*ny)
-	x0 := max(int(math.Floor(r.X-ex-0.5)), 0)
-	x1 := min(int(math.Ceil(r.X+ex-0.5)), p.W-1)
-	y0 := max(int(math.Floor(r.Y-ey-0.5)), 0)
-	y1 := min(int(math.Ceil(r.Y+ey-0.5)), p.H-1)
-	n := int(2*r.HalfLen*r.HalfWidth) + 16
-	s := samples{make([]float64, 0, n), make([]float64, 0, n), make([]float64, 0, n)}
-	for y := y0; y <= y1; y++ {
-		dy := float64(y) + 0.5 - r.Y
-		row := p.Pix[y*p.W : (y+1)*p.W]
-		for x := x0; x <= x1; x++ {
-			if !keep(x, y) {
-				continue
-			}
-			dx := float64(x) + 0.5 - r.X
-			u := dx*tx + dy*ty
-			w := dx*nx + dy*ny
-			if math.Abs(u) > r.HalfLen || math.Abs(w) > r.HalfWidth {
-				continue
-			}
-			s.u = append(s.u, u)
-			s.w = append(s.w, w)
-			s.v = append(s.v, float64(row[x]))
-		}
-	}
-	return s
-}
-
-// pairNoiseSites is pairNoise (noise.go) on one plane of a mosaic: the
-// pairs are a site and its neighbour of the same plane one pattern period
-// away along the pixel axis nearer the edge line, so the two see nearly
-// the same part of the profile and the same filter colour.
-func pairNoiseSites(p *plane.Plane, r Region, f lineFit, flipped bool, core float64, sites Sites) (dark, light float64) {
-	tx, ty, nx, ny := r.axes()
-	if flipped {
-		nx, ny = -nx, -ny
-	}
-	k := sites.Period
-	sx, sy := k, 0
-	if math.Abs(ty) > math.Abs(tx) {
-		sx, sy = 0, k
-	}
-	var dd, dl []float64
-	ex := math.Abs(r.HalfLen*tx) + math.Abs(r.HalfWidth*nx)
-	ey := math.Abs(r.HalfLen*ty) + math.Abs(r.HalfWidth*ny)
-	x0 := max(int(math.Floor(r.X-ex-0.5)), 0)
-	x1 := min(int(math.Ceil(r.X+ex-0.5)), p.W-1-sx)
-	y0 := max(int(math.Floor(r.Y-ey-0.5)), 0)
-	y1 := min(int(math.Ceil(r.Y+ey-0.5)), p.H-1-sy)
-	side := func(x, y int) float64 {
-		dx, dy := float64(x)+0.5-r.X, float64(y)+0.5-r.Y
-		u, w := dx*tx+dy*ty, dx*nx+dy*ny
-		if math.Abs(u) > r.HalfLen || math.Abs(w) > r.HalfWidth {
-			return 0
-		}
-		d := f.dist(u, w)
-		switch {
-		case d < -core:
-			return -1
-		case d > core:
-			return 1
-		}
-		return 0
-	}
-	for y := y0; y <= y1; y++ {
-		for x := x0; x <= x1; x++ {
-			if !sites.Keep(x, y) {
-				continue
-			}
-			s := side(x, y)
-			if s == 0 || side(x+sx, y+sy) != s {
-				continue
-			}
-			diff := math.Abs(float64(p.At(x, y) - p.At(x+sx, y+sy)))
-			if s < 0 {
-				dd = append(dd, diff)
-			} else {
-				dl = append(dl, diff)
-			}
-		}
-	}
-	return trimmedSigma(dd), trimmedSigma(dl)
 }

@@ -24,14 +24,22 @@ import (
 // with long, slowly falling tails (diffraction, flare) does not either,
 // which a spread about a fitted line would mistake for noise.
 func pairNoise(p *plane.Plane, r Region, f lineFit, flipped bool, core float64) (dark, light float64) {
+	return pairNoiseAt(p, r, f, flipped, core, 1, nil)
+}
+
+// pairNoiseAt is pairNoise with the neighbour step pixels away along the
+// pixel axis nearer the edge line, over the pixels keep selects (nil: all):
+// a plane of a colour mosaic pairs each site with the next one of its own
+// colour (mosaic.go).
+func pairNoiseAt(p *plane.Plane, r Region, f lineFit, flipped bool, core float64, step int, keep func(x, y int) bool) (dark, light float64) {
 	tx, ty, nx, ny := r.axes()
 	if flipped {
 		nx, ny = -nx, -ny
 	}
 	// Step to the neighbour along the pixel axis nearer the edge line.
-	sx, sy := 1, 0
+	sx, sy := step, 0
 	if math.Abs(ty) > math.Abs(tx) {
-		sx, sy = 0, 1
+		sx, sy = 0, step
 	}
 	var dd, dl []float64
 	ex := math.Abs(r.HalfLen*tx) + math.Abs(r.HalfWidth*nx)
@@ -57,6 +65,9 @@ func pairNoise(p *plane.Plane, r Region, f lineFit, flipped bool, core float64) 
 	}
 	for y := y0; y <= y1; y++ {
 		for x := x0; x <= x1; x++ {
+			if keep != nil && !keep(x, y) {
+				continue
+			}
 			s := side(x, y)
 			if s == 0 || side(x+sx, y+sy) != s {
 				continue

@@ -2,6 +2,7 @@ package edge
 
 import (
 	"math"
+	"slices"
 
 	"sagitta/core/plane"
 )
@@ -45,9 +46,21 @@ func (n noiseShape) factor(f float64) float64 {
 	if !n.ok {
 		return 1
 	}
+	// Summed in a fixed order of the lags (a map's order changes from run
+	// to run, and with it the last bit of the sum).
+	lags := make([][2]int, 0, len(n.rho))
+	for l := range n.rho {
+		lags = append(lags, l)
+	}
+	slices.SortFunc(lags, func(a, b [2]int) int {
+		if a[0] != b[0] {
+			return a[0] - b[0]
+		}
+		return a[1] - b[1]
+	})
 	var r float64
-	for l, c := range n.rho {
-		r += c * math.Cos(2*math.Pi*f*(float64(l[0])*n.nx+float64(l[1])*n.ny))
+	for _, l := range lags {
+		r += n.rho[l] * math.Cos(2*math.Pi*f*(float64(l[0])*n.nx+float64(l[1])*n.ny))
 	}
 	return math.Max(r, 0)
 }

@@ -45,7 +45,11 @@ type samples struct {
 
 // gather collects every pixel whose centre lies inside the region and inside
 // the plane. It allocates once, sized from the region's area.
-func gather(p *plane.Plane, r Region) samples {
+func gather(p *plane.Plane, r Region) samples { return gatherSites(p, r, nil) }
+
+// gatherSites is gather over the photosites keep selects (nil: every
+// pixel), for one plane of a colour mosaic (mosaic.go).
+func gatherSites(p *plane.Plane, r Region, keep func(x, y int) bool) samples {
 	tx, ty, nx, ny := r.axes()
 	ex := math.Abs(r.HalfLen*tx) + math.Abs(r.HalfWidth*nx)
 	ey := math.Abs(r.HalfLen*ty) + math.Abs(r.HalfWidth*ny)
@@ -59,6 +63,9 @@ func gather(p *plane.Plane, r Region) samples {
 		dy := float64(y) + 0.5 - r.Y
 		row := p.Pix[y*p.W : (y+1)*p.W]
 		for x := x0; x <= x1; x++ {
+			if keep != nil && !keep(x, y) {
+				continue
+			}
 			dx := float64(x) + 0.5 - r.X
 			u := dx*tx + dy*ty
 			w := dx*nx + dy*ny
