@@ -28,7 +28,7 @@ func TestChartAtSmallSizes(t *testing.T) {
 		checkedStars bool
 	}{
 		{1200, 800, 250, 0, false},
-		{1800, 1200, 280, 5, true},
+		{1800, 1200, 4 * len(d.Squares), 5, true}, // every square edge of the chart
 	}
 	for _, c := range cases {
 		v := chartsim.View{W: c.w, H: c.h, Fill: 0.97}
