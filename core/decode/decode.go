@@ -84,6 +84,14 @@ type Image struct {
 	// or linear RGB planes, with black 0 and white 1), nil for other
 	// formats. Lum is then derived from it (see decodeDNG).
 	Raw *raw.Image
+	// ChromaSubsampling names a JPEG's chroma subsampling ("4:2:0",
+	// "4:2:2", ...) when its colour is stored at a lower resolution than
+	// its luminance, "" otherwise: colour measured per channel (LinearRGB)
+	// is then blurred and shifted by the decoder's upsampling of chroma.
+	ChromaSubsampling string
+	// src is the decoded image of a colour file, kept for LinearRGB
+	// (colour.go); nil for grey files and DNG.
+	src image.Image
 	// Warnings are plain-language notes about choices made while
 	// decoding (assumed tone, ignored alpha, unreadable Exif, ...);
 	// WarningCodes holds their codes, aligned (core/note).
@@ -146,8 +154,10 @@ func Config(data []byte) (format string, w, h int, err error) {
 // (a valid file using something not decoded here); an invalid opt.Tone is
 // reported as a plain error. Decode never panics on bad data.
 //
-// The decoded image is dropped as soon as the plane is built, so the peak
-// memory is that of the decoded image plus the plane (4 bytes per pixel).
+// A grey image is dropped as soon as the plane is built; a colour image is
+// kept as decoded (1.5 to 8 bytes per pixel) for LinearRGB, which converts
+// small rectangles of it on demand. The peak memory is that of the decoded
+// image plus the plane (4 bytes per pixel).
 func Decode(data []byte, opt Options) (*Image, error) {
 	if err := opt.Tone.Check(); err != nil {
 		return nil, err
@@ -207,7 +217,8 @@ func Decode(data []byte, opt Options) (*Image, error) {
 		// image/png returns as NRGBA.
 		out.Colour = pi.colourType&2 != 0 && (pi.colourType != 3 || conv.colour)
 	}
-	img = nil // release the decoded pixels before anything else allocates
+	keepColour(out, img) // kept for LinearRGB when it holds colour (colour.go)
+	img = nil            // release grey pixels before anything else allocates
 	if conv.alpha {
 		out.warn(note.AlphaIgnored, "alpha channel ignored: colour values used as stored, nothing composited")
 	}

@@ -134,6 +134,11 @@ type Measurement struct {
 	ESF        Profile
 	LSF        Profile
 	Flags      []Flag
+
+	// The fitted edge in the region's frame, kept for ChannelOffset.
+	fit     lineFit
+	flipped bool
+	region  Region
 }
 
 // ErrNoEdge is returned when a region holds no measurable straight edge.
@@ -150,7 +155,7 @@ func Measure(p *plane.Plane, r Region, opt Options) (*Measurement, error) {
 		return nil, ErrNoEdge
 	}
 	flipped := orient(&fit, &s)
-	m := &Measurement{Method: opt.Method.String()}
+	m := &Measurement{Method: opt.Method.String(), fit: fit, flipped: flipped, region: r}
 	geometry(m, r, fit, s, flipped)
 	freq := opt.grid()
 	nDark, nLight := pairNoise(p, r, fit, flipped, coreWidth(fit))

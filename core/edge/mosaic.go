@@ -73,7 +73,7 @@ func MeasureSites(p *plane.Plane, sites Sites, r Region, opt Options) (*Measurem
 		return nil, ErrNoEdge
 	}
 	flipped := orient(&fit, &s)
-	m := &Measurement{Method: Refined.String()}
+	m := &Measurement{Method: Refined.String(), fit: fit, flipped: flipped, region: r}
 	geometry(m, r, fit, s, flipped)
 	freq := opt.grid()
 	// Noise from pairs of a site and the next one of its own colour one
