@@ -26,6 +26,7 @@ import (
 	"sagitta/core/field"
 	"sagitta/core/internal/parallel"
 	"sagitta/core/note"
+	"sagitta/core/plane"
 )
 
 // DefaultFreqsLPMM are the field frequencies used when none are given:
@@ -97,10 +98,12 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	// give the photo's tone curve, needed before anything is measured
 	// (tone.go).
 	pose, chartNote := chart.Recognise(dec.Lum)
+	var toneMap func(*plane.Plane) // the fitted tone curve, for colour planes (fringes.go)
 	switch {
 	case pose != nil:
 		tf, why := fitTone(dec.Lum, pose, chk.tone.Kind == decode.ToneAuto)
 		img.ToneFit = tf
+		toneMap = tf.mapper()
 		if why != "" {
 			img.warn(note.New(note.ToneStepsUnread, "chart: "+why))
 		}
@@ -126,7 +129,7 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	progress(StageMeasuring, 0.3)
 	// The comparison of edges with the diffraction limit depends on the
 	// pitch, so it is made when the records are placed (place), not here.
-	eopt := edge.Options{Method: chk.method}
+	eopt := measureOptions{Options: edge.Options{Method: chk.method}, channels: s.Channels, toneMap: toneMap}
 	results := measureAll(ctx, dec, cands, eopt, s.Workers, func(done int) {
 		progress(StageMeasuring, 0.3+0.6*float64(done)/float64(max(len(cands), 1)))
 	})
@@ -135,6 +138,7 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 	}
 
 	progress(StageSumming, 0.9)
+	colour := false
 	for i, r := range results {
 		c := cands[i]
 		if r.err != nil {
@@ -147,7 +151,12 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 		}
 		rec := record(r.m, c.Region)
 		rec.Channels = r.chans
+		rec.ChannelEdge = r.colour
+		colour = colour || r.colour != nil
 		img.Measurements = append(img.Measurements, rec)
+	}
+	if n, ok := chromaNote(dec); ok && colour {
+		img.warn(n)
 	}
 	img.Measurements = append(img.Measurements, pats.starRecords(img, geo)...)
 	img.Gratings = gratingInfos(pats.gratings)
@@ -280,14 +289,24 @@ func exifPitch(tags exif.Tags) (float64, bool) {
 }
 
 type outcome struct {
-	m     *edge.Measurement
-	chans []ChannelMTF // per colour channel, raw photos only
-	err   error
+	m      *edge.Measurement
+	chans  []ChannelMTF // per colour channel: raw photos, or on request
+	colour *ChannelEdge // where the edge lies in red and blue against green
+	err    error
+}
+
+// measureOptions are what measureOne needs besides the region: the
+// estimator, whether to measure each colour channel's MTF, and the tone
+// curve fitted to the chart's grey steps (nil: none applied).
+type measureOptions struct {
+	edge.Options
+	channels bool
+	toneMap  func(*plane.Plane)
 }
 
 // measureAll measures every candidate, in parallel over workers goroutines
 // (in WebAssembly GOMAXPROCS is 1 and this runs sequentially).
-func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candidate, opt edge.Options, workers int, done func(int)) []outcome {
+func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candidate, opt measureOptions, workers int, done func(int)) []outcome {
 	out := make([]outcome, len(cands))
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
@@ -311,18 +330,35 @@ func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candida
 
 // measureOne measures one region, turning a panic into an error so one bad
 // target cannot take the photo's analysis down.
-func measureOne(dec *decode.Image, r edge.Region, opt edge.Options) (o outcome) {
+func measureOne(dec *decode.Image, r edge.Region, opt measureOptions) (o outcome) {
 	defer func() {
 		if p := recover(); p != nil {
 			o = outcome{err: fmt.Errorf("internal error: %v", p)}
 		}
 	}()
+	if dec.Raw != nil && dec.Raw.CFA {
+		m, chans, err := measureRaw(dec, r, opt.Method)
+		o = outcome{m: m, chans: chans, err: err}
+		if err == nil {
+			o.colour = rawColourOf(dec.Raw, m)
+		}
+		return o
+	}
 	if dec.Raw != nil {
 		m, chans, err := measureRaw(dec, r, opt.Method)
-		return outcome{m, chans, err}
+		o = outcome{m: m, chans: chans, err: err}
+		if err == nil {
+			o.colour, _ = colourOf(dec, m, r, false, nil)
+		}
+		return o
 	}
-	m, err := edge.Measure(dec.Lum, r, opt)
-	return outcome{m: m, err: err}
+	m, err := edge.Measure(dec.Lum, r, opt.Options)
+	if err != nil {
+		return outcome{err: err}
+	}
+	o = outcome{m: m}
+	o.colour, o.chans = colourOf(dec, m, r, opt.channels, opt.toneMap)
+	return o
 }
 
 // Measurements with these flags are set aside rather than reported: their

@@ -8,7 +8,6 @@ import (
 	"testing"
 
 	"sagitta/core/decode"
-	"sagitta/core/edge"
 	"sagitta/core/edgefind"
 	"sagitta/core/field"
 	"sagitta/core/sim/demo"
@@ -63,7 +62,7 @@ func BenchmarkWholePhoto(b *testing.B) {
 	b.Run("measure", func(b *testing.B) {
 		b.ReportAllocs()
 		for i := 0; i < b.N; i++ {
-			measureAll(context.Background(), dec, cands, edge.Options{}, 0, func(int) {})
+			measureAll(context.Background(), dec, cands, measureOptions{}, 0, func(int) {})
 		}
 	})
 	b.Run("all", func(b *testing.B) {

@@ -74,6 +74,10 @@ type Image struct {
 
 	// Raw is set for a DNG: how its raw data were read and measured (raw.go).
 	Raw *RawInfo `json:"raw,omitempty"`
+
+	// LateralCA is the colour fringes across the frame, from where each
+	// edge lies in red, green and blue (fringes.go); absent for grey photos.
+	LateralCA *LateralCA `json:"lateral_ca,omitempty"`
 }
 
 // Measurement is one measured target (one edge, or one orientation of a
@@ -120,9 +124,13 @@ type Measurement struct {
 	// and the estimated lift of MTF50 (edge.Sharpening).
 	Sharpening *Sharpening `json:"sharpening,omitempty"`
 
-	// Channels holds a raw photo's edge measured on each colour plane
-	// (raw.go); the record's own curve is then green's.
+	// Channels holds the edge measured on each colour plane: always for a
+	// raw photo (raw.go; the record's own curve is then green's), on
+	// request (Settings.Channels) for others (fringes.go).
 	Channels []ChannelMTF `json:"channels,omitempty"`
+	// ChannelEdge is where the edge lies in red and blue against green
+	// (colour photos, edges only; fringes.go).
+	ChannelEdge *ChannelEdge `json:"channel_edge,omitempty"`
 
 	// Sine-pattern records only (see sine.go).
 	PatternID    int            `json:"pattern_id,omitempty"`     // id in Image.Stars or Image.Gratings
@@ -182,6 +190,11 @@ type Settings struct {
 	// (printlimit.go). 0 assumes the chart's default sheet (A4, 600 dpi).
 	PrintDPI float64 `json:"print_dpi,omitempty"`
 	ChartMM  float64 `json:"chart_mm,omitempty"`
+
+	// Channels asks for each colour channel's MTF of every edge of a
+	// colour photo (a raw photo's are always measured); where each edge
+	// lies per channel is always measured (fringes.go).
+	Channels bool `json:"channels,omitempty"`
 }
 
 // ChartResult is what the analysis learnt from a Sagitta chart in the

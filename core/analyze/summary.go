@@ -50,6 +50,7 @@ func summarise(img *Image, geo field.Geometry, base []note.Note) error {
 	for i := range img.Measurements {
 		img.Measurements[i].ID = i + 1
 	}
+	img.LateralCA = lateralCA(img, geo) // colour fringes (fringes.go)
 	agreement(img)
 	if img.Chart != nil {
 		if err := checkSetup(img); err != nil {

@@ -44,6 +44,9 @@ type ToneFit struct {
 	Curve [][2]float64 `json:"curve"`
 	// Code is FlagToneCurve when MaxDiff exceeds ToneTol, else "".
 	Code string `json:"code,omitempty"`
+
+	fitted *decode.Fitted // the curve applied (nil when not applied)
+	paper  float64
 }
 
 // toneAssumed is the caution for a camera JPEG without Sagitta's chart.
@@ -159,8 +162,19 @@ func fitTone(p *plane.Plane, pose *chart.Pose, apply bool) (*ToneFit, string) {
 	if apply {
 		f.Apply(p, paper)
 		tf.Applied = true
+		tf.fitted, tf.paper = f, paper
 	}
 	return tf, ""
+}
+
+// mapper returns the function that maps a plane through the fitted curve
+// as fitTone mapped the photo's luminance (the colour planes of an edge,
+// fringes.go), or nil when no curve was applied.
+func (tf *ToneFit) mapper() func(*plane.Plane) {
+	if tf == nil || tf.fitted == nil {
+		return nil
+	}
+	return func(p *plane.Plane) { tf.fitted.Apply(p, tf.paper) }
 }
 
 // toneWarning words a fitted tone curve for people ("" when it is close

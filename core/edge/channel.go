@@ -1,8 +1,10 @@
 package edge
 
 import (
+	"cmp"
 	"errors"
 	"math"
+	"slices"
 
 	"sagitta/core/plane"
 )
@@ -12,12 +14,21 @@ import (
 // by a different amount in red, green and blue; the displacement between
 // channels is what ISO 19084:2015 (Photography - Digital cameras -
 // Chromatic displacement measurements) measures. A measured edge already
-// holds its fitted line (fit.go: position, angle, curvature, width, from
-// every pixel of the region); a channel's image of the same edge is parallel
-// to it, so its fit keeps the angle and the curvature and finds only its
-// own offset along the normal, its plateaus and its width: four parameters
-// instead of six, on the pixels of the same band, so the offsets of the
-// three channels are measured from one geometry and cost little.
+// holds its fitted line (fit.go: position, angle and curvature from every
+// pixel of the region); a channel's image of the same edge is parallel to
+// it, so each channel needs only its offset along the normal.
+//
+// The offset is the area-based edge position: with the channel's profile
+// q(d) normalised to 0 on the dark and 1 on the light plateau, d the
+// distance from the luminance edge along its local normal, an edge at d0
+// has integral over [-B, B] of q(d) dd = B - d0 for any profile symmetric
+// about d0 (the same rule as the strip estimates of fitEdge). Unlike a fit
+// of a model profile it is linear in the signal: a channel made of a sharp
+// part and a blurred part (JPEG's full-resolution luminance plus its
+// half-resolution colour difference, say) lies at the weighted mean of the
+// two parts' positions, as its light does, where a model fit would follow
+// the sharp part. The samples are taken where they fall (sorted by d,
+// trapezoid rule), so no bins are filled.
 
 // ErrNoChannelEdge is returned by ChannelOffset when the channel shows no
 // step at the edge (a colour that does not see the target's contrast).
@@ -26,12 +37,12 @@ var ErrNoChannelEdge = errors.New("edge: the colour channel shows no edge where 
 // ChannelOffset returns where the edge of m lies in another plane of the
 // same photo: the distance (px) along m's normal (NormalDeg, positive
 // towards the light side) from m's fitted edge to the channel's, and its
-// standard error from the fit's residuals (the Gauss-Newton covariance,
-// white noise assumed: the error of correlated noise, as after demosaicking
-// or JPEG chroma upsampling, is larger). p is the channel's plane, a crop
-// whose pixel (0, 0) is the photo's pixel (ox, oy); keep, if not nil,
-// selects the photosites of one plane of a raw mosaic (in the photo's
-// pixel coordinates), as MeasureSites does.
+// standard error from the plateaus' noise (white noise assumed: after
+// demosaicking or JPEG colour upsampling the noise is correlated and the
+// error larger). p is the channel's plane, a crop whose pixel (0, 0) is the
+// photo's pixel (ox, oy); keep, if not nil, selects the photosites of one
+// plane of a raw mosaic (in the photo's pixel coordinates), as MeasureSites
+// does.
 func (m *Measurement) ChannelOffset(p *plane.Plane, ox, oy int, keep func(x, y int) bool) (offPx, sePx float64, err error) {
 	r := m.region
 	r.X -= float64(ox)
@@ -47,62 +58,68 @@ func (m *Measurement) ChannelOffset(p *plane.Plane, ox, oy int, keep func(x, y i
 		}
 	}
 	f := m.fit
-	band := math.Min(halfWidthFor(f), r.HalfWidth)
-	sub := within(s, f, band)
-	if len(sub.v) < 32 {
+	// The window: the profile's blur (a logistic of width s has a standard
+	// deviation of 1.8 s) six times over plus 4 px for a softer channel,
+	// within the region.
+	b := math.Min(6*1.8*f.Width+4, r.HalfWidth-0.5)
+	if b < 3 {
 		return 0, 0, ErrNoEdge
 	}
-	// Start from the channel's own plateaus: the levels on either side of
-	// the luminance edge, beyond twice its width.
-	var sd, sl float64
+	type pt struct{ d, v float64 }
+	pts := make([]pt, 0, len(s.v))
+	var sd, sl, qd, ql float64
 	var nd, nl int
-	for i := range sub.v {
-		d := f.dist(sub.u[i], sub.w[i])
+	for i := range s.v {
+		d := f.dist(s.u[i], s.w[i])
+		if math.Abs(d) > b {
+			continue
+		}
+		v := s.v[i]
+		pts = append(pts, pt{d, v})
+		// Plateaus: the outer third of the window on each side.
 		switch {
-		case d < -2*f.Width-1:
-			sd += sub.v[i]
+		case d < -2*b/3:
+			sd += v
+			qd += v * v
 			nd++
-		case d > 2*f.Width+1:
-			sl += sub.v[i]
+		case d > 2*b/3:
+			sl += v
+			ql += v * v
 			nl++
 		}
 	}
-	if nd < 8 || nl < 8 {
+	if nd < 8 || nl < 8 || len(pts) < 32 {
 		return 0, 0, ErrNoEdge
 	}
-	f.Dark, f.Step = sd/float64(nd), sl/float64(nl)-sd/float64(nd)
-	if !(math.Abs(f.Step) > 0) {
+	dark, light := sd/float64(nd), sl/float64(nl)
+	step := light - dark
+	vd := math.Max(qd/float64(nd)-dark*dark, 0)
+	vl := math.Max(ql/float64(nl)-light*light, 0)
+	noise2 := 0.5 * (vd + vl)
+	if !(step > 0) || step*step < 25*noise2 {
 		return 0, 0, ErrNoChannelEdge
 	}
-	if !levenberg(&f, sub, r.HalfLen, 4) || !(f.Step > 0) {
-		return 0, 0, ErrNoChannelEdge
-	}
-	// Standard error of Rho: sigma^2 (J'J)^-1 at the solution, the four
-	// free parameters only.
-	var jtj [6][6]float64
-	p6 := [6]float64{f.Dark, f.Step, f.Width, f.Rho, f.Alpha * r.HalfLen, f.Kappa * r.HalfLen * r.HalfLen}
-	var g [6]float64
-	for i := range sub.v {
-		modelGrad(p6, sub.u[i]/r.HalfLen, sub.w[i], &g)
-		for a := range 4 {
-			for b := range 4 {
-				jtj[a][b] += g[a] * g[b]
-			}
+	slices.SortFunc(pts, func(a, b pt) int { return cmp.Compare(a.d, b.d) })
+	// Trapezoid rule over the samples, extended flat to the window's ends;
+	// each sample's weight is half the span to its neighbours.
+	var area, w2 float64
+	n := len(pts)
+	for i := range pts {
+		lo, hi := -b, b
+		if i > 0 {
+			lo = 0.5 * (pts[i-1].d + pts[i].d)
 		}
+		if i < n-1 {
+			hi = 0.5 * (pts[i].d + pts[i+1].d)
+		}
+		w := hi - lo
+		area += w * (pts[i].v - dark) / step
+		w2 += w * w
 	}
-	jtj[4][4], jtj[5][5] = 1, 1
-	col, ok := solve(jtj, [6]float64{3: 1})
-	if !ok || !(col[3] > 0) {
-		return 0, 0, ErrNoChannelEdge
-	}
-	dof := float64(max(len(sub.v)-4, 1))
-	sigma2 := f.RMS * f.RMS * float64(len(sub.v)) / dof
-	// Rho is measured across the region; the normal is tilted by Alpha.
-	scale := 1 / math.Sqrt(1+m.fit.Alpha*m.fit.Alpha)
-	return (f.Rho - m.fit.Rho) * scale, math.Sqrt(sigma2*col[3]) * scale, nil
+	d0 := b - area
+	// Its variance: the samples' noise through their weights, and the
+	// plateau levels' errors (area depends on dark with weight (b + d0)
+	// and on light with weight (b - d0), over the step).
+	v := noise2*w2 + vd/float64(nd)*(b+d0)*(b+d0) + vl/float64(nl)*(b-d0)*(b-d0)
+	return d0, math.Sqrt(v) / step, nil
 }
-
-// halfWidthFor is the half-width (px) of the band around the luminance
-// edge that a channel's fit reads: the luminance fit's band (fitBandPx, or
-// wider for a wide edge).
-func halfWidthFor(f lineFit) float64 { return math.Max(fitBandPx, 5*f.Width) }

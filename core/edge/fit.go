@@ -122,7 +122,7 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 		if len(sub.v) < 32 {
 			sub = s
 		}
-		if !levenberg(&f, sub, halfLen, 6) {
+		if !levenberg(&f, sub, halfLen) {
 			return lineFit{}, false
 		}
 		if 5*f.Width <= band || band >= halfWidth {
@@ -154,13 +154,10 @@ func within(s samples, f lineFit, band float64) samples {
 	return out
 }
 
-// levenberg refines the model parameters by Levenberg-Marquardt
-// (Marquardt 1963, SIAM J. Appl. Math. 11:431): the first free of Dark,
-// Step, Width, Rho, Alpha, Kappa (6: all; 4: the line's angle and
-// curvature held, as for a colour channel's edge, channel.go). The
-// along-edge coordinate is scaled by halfLen so that the normal equations
-// stay well conditioned.
-func levenberg(f *lineFit, s samples, halfLen float64, free int) bool {
+// levenberg refines the six model parameters by Levenberg-Marquardt
+// (Marquardt 1963, SIAM J. Appl. Math. 11:431). The along-edge coordinate is
+// scaled by halfLen so that the normal equations stay well conditioned.
+func levenberg(f *lineFit, s samples, halfLen float64) bool {
 	const np = 6
 	// p: Dark, Step, Width, Rho, Alpha*L, Kappa*L^2
 	p := [np]float64{f.Dark, f.Step, f.Width, f.Rho, f.Alpha * halfLen, f.Kappa * halfLen * halfLen}
@@ -192,13 +189,6 @@ func levenberg(f *lineFit, s samples, halfLen float64, free int) bool {
 			for b := a + 1; b < np; b++ {
 				jtj[a][b] = jtj[b][a]
 			}
-		}
-		for a := free; a < np; a++ { // held parameters do not move
-			jtj[a] = [np]float64{}
-			for b := range np {
-				jtj[b][a] = 0
-			}
-			jtj[a][a], jtr[a] = 1, 0
 		}
 		improved := false
 		for try := 0; try < 10; try++ {

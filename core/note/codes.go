@@ -194,3 +194,24 @@ const (
 	// brighter.
 	Underexposed Code = "underexposed"
 )
+
+// Colour fringes (lateral chromatic aberration): the verdict in
+// lateral_ca.code, and the photo's note on its colour data in
+// Image.warnings (core/fringe, core/analyze).
+const (
+	// CABarely: the largest red-green or blue-green displacement across
+	// the measured field is under 0.5 px: fringes barely visible.
+	CABarely Code = "ca-barely-visible"
+	// CAVisible: the largest displacement is 0.5 to 1.5 px: fringes
+	// visible at 100 % on high-contrast edges.
+	CAVisible Code = "ca-visible"
+	// CAStrong: the largest displacement exceeds 1.5 px: strong fringes.
+	CAStrong Code = "ca-strong"
+	// CAFewEdges: too few edges with their normal along the radius to
+	// measure colour fringes.
+	CAFewEdges Code = "ca-few-edges"
+	// ChromaSubsampled: the JPEG stores colour at a lower resolution than
+	// luminance (4:2:0, 4:2:2, ...): colour fringes are measured less
+	// precisely.
+	ChromaSubsampled Code = "chroma-subsampled"
+)

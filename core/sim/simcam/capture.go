@@ -24,6 +24,13 @@ import (
 // any number of goroutines. It panics if the camera or scene is invalid
 // (a programmer error, as for RenderLinear).
 func (c *Camera) Capture(s Scene) image.Image {
+	if c.colourCA() {
+		img, err := c.channelPlanes(s)
+		if err != nil {
+			panic(err)
+		}
+		return img
+	}
 	p := c.RenderLinear(s)
 	c.addNoise(p)
 	return c.encodeImage(p)
@@ -34,12 +41,20 @@ func (c *Camera) Capture(s Scene) image.Image {
 // with ExifAPP1, if set, as an APP1 segment right after SOI. ExifAPP1 is
 // ignored for PNG output.
 func (c *Camera) Encode(s Scene) ([]byte, error) {
-	p, err := c.Render(s)
-	if err != nil {
-		return nil, err
+	var img image.Image
+	if c.colourCA() {
+		var err error
+		if img, err = c.channelPlanes(s); err != nil {
+			return nil, err
+		}
+	} else {
+		p, err := c.Render(s)
+		if err != nil {
+			return nil, err
+		}
+		c.addNoise(p)
+		img = c.encodeImage(p)
 	}
-	c.addNoise(p)
-	img := c.encodeImage(p)
 	var buf bytes.Buffer
 	if c.JPEGQuality == 0 {
 		if err := png.Encode(&buf, img); err != nil {
@@ -116,24 +131,7 @@ func poisson(rng *rand.Rand, m float64) float64 {
 
 // encodeImage applies the transfer function, sharpening and quantisation.
 func (c *Camera) encodeImage(p *plane.Plane) image.Image {
-	v := make([]float64, len(p.Pix))
-	encode := c.Encoding == SRGB8 || c.Encoding == SRGB16
-	for i, l := range p.Pix {
-		x := math.Min(math.Max(float64(l), 0), 1)
-		if encode {
-			x = srgb.FromLinear(x)
-		}
-		if c.Curve != nil {
-			x = math.Min(math.Max(c.Curve(x), 0), 1)
-		}
-		v[i] = x
-	}
-	if s := c.Sharpen; s != nil && s.Amount > 0 {
-		b := gaussBlur(v, p.W, p.H, s.RadiusPx)
-		for i := range v {
-			v[i] = math.Min(math.Max(v[i]+s.Amount*(v[i]-b[i]), 0), 1)
-		}
-	}
+	v := c.encodeValues(p)
 	r := image.Rect(0, 0, p.W, p.H)
 	if c.Encoding.sixteen() {
 		q := func(x float64) uint16 { return uint16(math.Round(x * 65535)) }
@@ -173,6 +171,30 @@ func (c *Camera) encodeImage(p *plane.Plane) image.Image {
 		img.Pix[i] = q(x)
 	}
 	return img
+}
+
+// encodeValues applies the transfer function, the camera's curve and
+// sharpening: code values in [0, 1] before quantisation.
+func (c *Camera) encodeValues(p *plane.Plane) []float64 {
+	v := make([]float64, len(p.Pix))
+	encode := c.Encoding == SRGB8 || c.Encoding == SRGB16
+	for i, l := range p.Pix {
+		x := math.Min(math.Max(float64(l), 0), 1)
+		if encode {
+			x = srgb.FromLinear(x)
+		}
+		if c.Curve != nil {
+			x = math.Min(math.Max(c.Curve(x), 0), 1)
+		}
+		v[i] = x
+	}
+	if s := c.Sharpen; s != nil && s.Amount > 0 {
+		b := gaussBlur(v, p.W, p.H, s.RadiusPx)
+		for i := range v {
+			v[i] = math.Min(math.Max(v[i]+s.Amount*(v[i]-b[i]), 0), 1)
+		}
+	}
+	return v
 }
 
 // gaussBlur returns v blurred by a Gaussian of standard deviation sigma px
