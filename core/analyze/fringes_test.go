@@ -39,24 +39,21 @@ func caPhoto(t *testing.T, reduce int, mag [3]float64, quality int, s Settings) 
 // 0.08 % smaller than green about the optical centre displaces an edge at
 // r px from the centre by +0.0008 r px (red) and -0.0008 r px (blue) along
 // the radius: the difference of the magnifications times the height, plain
-// geometry (ISO 19084:2015 defines chromatic displacement so). The curves
-// must lie within 0.05 px of it at every sampled height, and the points
-// (edges) within 0.05 px rms.
+// geometry (ISO 19084:2015 defines chromatic displacement so). The
+// issue asks for 0.05 px at every height; README quotes the curves within
+// 0.0032 px of it at every sampled height and the points (edges) within
+// 0.006 px rms, and the limits are twice those.
 func TestLateralCARecovered(t *testing.T) {
-	reduce := 4 // 1500 x 1000 px
-	if testing.Short() {
-		reduce = 5
-	}
 	const m = 0.0008
-	img, sc := caPhoto(t, reduce, [3]float64{m, 0, -m}, 0, Settings{})
+	img, sc := caPhoto(t, 5, [3]float64{m, 0, -m}, 0, Settings{}) // 1200 x 800 px, 8-bit sRGB PNG, photon noise
 	ca := img.LateralCA
 	t.Logf("%s; %s", ca.Text, ca.Selection)
 	if ca.Code == string(note.CAFewEdges) || len(ca.Curves) != 2 {
 		t.Fatalf("no curves: %s", ca.Text)
 	}
 	for _, e := range caErrors(t, ca, m, sc.PitchUM) {
-		if e.worst > 0.05 || e.rms > 0.05 {
-			t.Errorf("%s: curve off by %.4f px, points rms %.4f px; want both within 0.05 px", e.pair, e.worst, e.rms)
+		if e.worst > 0.0064 || e.rms > 0.012 {
+			t.Errorf("%s: curve off by %.4f px (want 0.0064), points rms %.4f px (want 0.012)", e.pair, e.worst, e.rms)
 		}
 	}
 	if ca.Used < 20 {
@@ -102,7 +99,8 @@ func caErrors(t *testing.T, ca *LateralCA, m, pitchUM float64) []caError {
 }
 
 // TestLateralCAZero: with the same magnification in every channel the
-// displacement must vanish (|curve| < 0.02 px everywhere) and the verdict
+// displacement must vanish (the issue asks for |curve| < 0.02 px
+// everywhere; README quotes 0.0008 px, the limit is twice that) and the verdict
 // be "barely visible". Red's magnification differs by 1e-12 (0.0000006 px
 // at the corner) only so that the camera renders each channel on its own,
 // each with its own photon and read noise.
@@ -112,8 +110,8 @@ func TestLateralCAZero(t *testing.T) {
 	for _, c := range ca.Curves {
 		t.Logf("%s: largest %.4f px at %.1f mm", c.Pair, c.MaxPx, c.MaxAtMM)
 		for i, v := range c.Px {
-			if math.Abs(v) > 0.02 {
-				t.Errorf("%s: %.4f px at %.1f mm, want under 0.02", c.Pair, v, c.HeightMM[i])
+			if math.Abs(v) > 0.0016 {
+				t.Errorf("%s: %.4f px at %.1f mm, want under 0.0016", c.Pair, v, c.HeightMM[i])
 				break
 			}
 		}
@@ -136,7 +134,8 @@ func TestChromaSubsampledJPEG(t *testing.T) {
 		t.Errorf("warnings %q lack the chroma note", img.Warnings)
 	}
 	t.Logf("JPEG 4:2:0: %s", img.LateralCA.Text)
-	// Even so the displacement is found (README quotes the figures).
+	// Even so the displacement is found: README quotes the curves within
+	// 0.04 px and the points within 0.08 px rms.
 	for _, e := range caErrors(t, img.LateralCA, m, sc.PitchUM) {
 		if e.worst > 0.05 || e.rms > 0.1 {
 			t.Errorf("%s: curve off by %.4f px (want 0.05), points rms %.4f px (want 0.1)", e.pair, e.worst, e.rms)
