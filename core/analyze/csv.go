@@ -13,7 +13,9 @@ import (
 //	file, id, kind, x_px, y_px, height_mm, orientation, normal_deg,
 //	mtf50_cy_px, mtf50p_cy_px, mtf50_lp_mm, mtf_nyquist,
 //	mtf_at_F_lp_mm for each field frequency F of the first image, snr, warnings,
-//	mtf50_se_cy_px, mtf_at_F_lp_mm_se for each F (standard errors)
+//	mtf50_se_cy_px, mtf_at_F_lp_mm_se for each F (standard errors),
+//	r_minus_g_px, b_minus_g_px (where the edge lies in red and in blue
+//	against green, along normal_deg; n/a for grey photos and sine patterns)
 //
 // Numbers have fixed decimals; values that are not finite are written "n/a".
 // The command-line tool (`sagitta analyze --csv`) and the web page both call
@@ -33,6 +35,7 @@ func WriteCSV(w io.Writer, res Result) error {
 	for _, f := range freqs {
 		head = append(head, "mtf_at_"+strconv.FormatFloat(f, 'g', -1, 64)+"_lp_mm_se")
 	}
+	head = append(head, "r_minus_g_px", "b_minus_g_px")
 	if err := cw.Write(head); err != nil {
 		return err
 	}
@@ -53,6 +56,11 @@ func WriteCSV(w io.Writer, res Result) error {
 				}
 				row = append(row, fixed(v, 4))
 			}
+			rg, bg := math.NaN(), math.NaN()
+			if c := m.ChannelEdge; c != nil {
+				rg, bg = c.RMinusGPx, c.BMinusGPx
+			}
+			row = append(row, fixed(rg, 4), fixed(bg, 4))
 			if err := cw.Write(row); err != nil {
 				return err
 			}

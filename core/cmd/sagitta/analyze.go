@@ -43,6 +43,7 @@ func cmdAnalyze(args []string, stdout io.Writer) error {
 	fs.Float64Var(&s.ChartMM, "chart-mm", 0, "the printed chart's short side in mm, as its text block says (default: the A4 sheet's)")
 	fs.StringVar(&s.Tone, "tone", "", "tone curve of the files: srgb, linear or gamma:G (default: sRGB unless the file says linear)")
 	fs.StringVar(&s.Method, "method", "", "edge estimator: refined (default) or iso (the published ISO 12233 procedure)")
+	fs.BoolVar(&s.Channels, "channels", false, "also measure each edge's MTF in red, green and blue (a raw DNG always is)")
 	fs.Usage = func() {
 		fmt.Fprintln(stdout, "usage: sagitta analyze [options] PHOTO...")
 		printOptions(fs, stdout)
@@ -230,6 +231,9 @@ func writeText(w io.Writer, res analyze.Result) error {
 		}
 		fmt.Fprintf(w, "%d edges measured, %d set aside; %d sine stars, %d sine gratings (%d records)\n",
 			kinds["edge"], len(img.Rejected), len(img.Stars), len(img.Gratings), kinds["star"]+kinds["grating"])
+		if ca := img.LateralCA; ca != nil {
+			fmt.Fprintf(w, "colour fringes: %s\n", ca.Text)
+		}
 		if a := img.Agreement; a != nil {
 			fmt.Fprintf(w, "stars against nearby edges: %.3f rms difference in MTF at %.2f-%.2f cy/px (edges %+.3f on average)\n",
 				a.RMSDiff, a.LoCyPx, a.HiCyPx, a.MeanDiff)

@@ -3,6 +3,8 @@ package simcam
 import (
 	"image"
 	"math"
+
+	"sagitta/core/plane"
 )
 
 // Lateral chromatic aberration: a lens whose magnification differs by
@@ -104,4 +106,27 @@ func (c *Camera) quantiseInto(v []float64, ch int, img8 *image.RGBA, img16 *imag
 		img8.Pix[4*i+ch] = uint8(math.Round(x * 255))
 		img8.Pix[4*i+3] = 0xFF
 	}
+}
+
+// mosaicPlane renders scene s for a raw mosaic with lateral chromatic
+// aberration: each photosite takes the value of its own colour's channel,
+// rendered through that channel's magnification. o must have its defaults
+// applied.
+func (c *Camera) mosaicPlane(s Scene, o DNG) (*plane.Plane, error) {
+	cx, cy := c.channelCentre()
+	out := plane.New(c.W, c.H)
+	for ch := range 3 {
+		p, err := c.Render(ScaleScene(s, cx, cy, 1+c.ChannelMag[ch]))
+		if err != nil {
+			return nil, err
+		}
+		for y := 0; y < c.H; y++ {
+			for x := 0; x < c.W; x++ {
+				if colourIndex(o.Pattern[(y%2)*2+x%2]) == ch {
+					out.Pix[y*c.W+x] = p.Pix[y*c.W+x]
+				}
+			}
+		}
+	}
+	return out, nil
 }

@@ -101,7 +101,13 @@ func (c *Camera) EncodeDNG(s Scene, o DNG) ([]byte, error) {
 	if len(o.Table) > 1<<o.Bits {
 		return nil, invalidf("DNG linearisation table longer than the code range")
 	}
-	p, err := c.Render(s)
+	var p *plane.Plane
+	var err error
+	if c.ChannelMag != [3]float64{} && !o.Linear {
+		p, err = c.mosaicPlane(s, o) // each site through its colour's magnification (colour.go)
+	} else {
+		p, err = c.Render(s)
+	}
 	if err != nil {
 		return nil, err
 	}
