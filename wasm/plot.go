@@ -31,7 +31,9 @@ type plotOptions struct {
 // kind and data (JSON): "field", "astigmatism", "map": a photo's summary
 // (analyze.Summary, converted to field.Summary for core/plot); "compare": [{label, summary}, ...]; "target": {image
 // (analyze.Image), id (a measurement id)}; "series": an aperture series
-// (series.Aperture, from sagittaSeries).
+// (series.Aperture, from sagittaSeries); "ca": {lateral_ca, corner_mm} (a
+// photo's colour fringes, analyze.LateralCA); "ca-compare": [{label,
+// lateral_ca, corner_mm}, ...].
 func plotJS(args []js.Value) (any, error) {
 	if len(args) < 2 || args[0].Type() != js.TypeString || args[1].Type() != js.TypeString {
 		return nil, fmt.Errorf("sagittaPlot(kind, data, options): wrong arguments")
@@ -79,6 +81,22 @@ func plotJS(args []js.Value) (any, error) {
 			}
 		}
 		fig = plot.Compare(photos, plot.CompareOptions{FreqsLPMM: opt.FreqsLPMM, Band: opt.Band})
+	case "ca":
+		var in caPhoto
+		if err := json.Unmarshal(data, &in); err != nil || in.LateralCA == nil {
+			return nil, fmt.Errorf("plot ca: the data must be {lateral_ca, corner_mm}")
+		}
+		fig = plot.LateralCA(in.LateralCA, in.CornerMM, plot.FieldOptions{Label: opt.Label, Band: opt.Band})
+	case "ca-compare":
+		var in []caPhoto
+		if err := json.Unmarshal(data, &in); err != nil {
+			return nil, fmt.Errorf("plot ca-compare: %v", err)
+		}
+		photos := make([]plot.CAPhoto, len(in))
+		for i, p := range in {
+			photos[i] = plot.CAPhoto{Label: p.Label, LateralCA: p.LateralCA, CornerMM: p.CornerMM}
+		}
+		fig = plot.CompareCA(photos, plot.CompareOptions{Band: opt.Band})
 	case "series":
 		var a series.Aperture
 		if err := json.Unmarshal(data, &a); err != nil {
@@ -108,7 +126,7 @@ func plotJS(args []js.Value) (any, error) {
 		}
 		fig = plot.Target(*t, plot.TargetOptions{LPMM: opt.LPMM})
 	default:
-		return nil, fmt.Errorf("plot: unknown kind %q (field, astigmatism, map, compare, series or target)", kind)
+		return nil, fmt.Errorf("plot: unknown kind %q (field, astigmatism, map, compare, series, target, ca or ca-compare)", kind)
 	}
 	tab := fig.Table()
 	rows := make([]any, len(tab.Rows))
@@ -135,6 +153,14 @@ func plotJS(args []js.Value) (any, error) {
 		return nil, fmt.Errorf("plot: unknown format %q (svg or png)", opt.Format)
 	}
 	return js.ValueOf(out), nil
+}
+
+// caPhoto is one photo's colour fringes for the "ca" and "ca-compare"
+// plots.
+type caPhoto struct {
+	Label     string             `json:"label"`
+	LateralCA *analyze.LateralCA `json:"lateral_ca"`
+	CornerMM  float64            `json:"corner_mm"`
 }
 
 // paletteJS returns the project's colours (core/plot) as CSS hex strings, so

@@ -84,12 +84,42 @@ func testFigures(t testing.TB) map[string]*Figure {
 	s := testSummary(t, 6000, 4000, 6, 60, 1, 0)
 	s2 := testSummary(t, 6000, 4000, 6, 60, 2, 0.02)
 	return map[string]*Figure{
-		"field-curves": FieldCurves(s, FieldOptions{Label: "sample.png", Band: true}),
-		"compare":      Compare([]Photo{{"f/2.8", s}, {"f/5.6", s2}}, CompareOptions{}),
-		"mtf50-map":    Map(s, MapOptions{Label: "sample.png"}),
-		"astigmatism":  Astigmatism(s, FieldOptions{Band: true}),
-		"target":       Target(testTarget(), TargetOptions{}),
+		"field-curves":            FieldCurves(s, FieldOptions{Label: "sample.png", Band: true}),
+		"compare":                 Compare([]Photo{{"f/2.8", s}, {"f/5.6", s2}}, CompareOptions{}),
+		"mtf50-map":               Map(s, MapOptions{Label: "sample.png"}),
+		"astigmatism":             Astigmatism(s, FieldOptions{Band: true}),
+		"target":                  Target(testTarget(), TargetOptions{}),
+		"colour-fringes":          LateralCA(testCA(0.0004, -0.0006), 21.63, FieldOptions{Label: "sample.png", Band: true}),
+		"colour-fringes-compared": CompareCA([]CAPhoto{{"f/2.8", testCA(0.0004, -0.0006), 21.63}, {"f/5.6", testCA(0.0002, -0.0003), 21.63}}, CompareOptions{Band: true}),
 	}
+}
+
+// testCA is colour fringes of a lens whose red and blue magnifications
+// differ from green's by mr and mb on a 6 um pitch: points on 40 edges from
+// 1 to 21 mm with a fixed pattern of scatter, straight curves through them
+// with a band of 0.01 px.
+func testCA(mr, mb float64) *analyze.LateralCA {
+	ca := &analyze.LateralCA{Code: "ca-visible", Thresholds: []float64{0.5, 1.5}, Used: 40}
+	const pxPerMM = 1000 / 6.0
+	for i := range 40 {
+		h := 1 + 20*float64(i)/39
+		e := 0.02 * math.Sin(float64(7*i))
+		ca.Points = append(ca.Points, analyze.CAPoint{ID: i + 1, HeightMM: h, RMinusGPx: mr*h*pxPerMM + e, BMinusGPx: mb*h*pxPerMM - e,
+			RMinusGSE: 0.01, BMinusGSE: 0.01, OutlierRG: i == 17})
+	}
+	for _, p := range []struct {
+		pair string
+		m    float64
+	}{{"R-G", mr}, {"B-G", mb}} {
+		c := analyze.CACurve{Pair: p.pair, Coef: []float64{p.m * 21 * pxPerMM}}
+		for k := 0; k <= 20; k++ {
+			h := 21 * float64(k) / 20
+			c.HeightMM, c.Px, c.SEPx = append(c.HeightMM, h), append(c.Px, p.m*h*pxPerMM), append(c.SEPx, 0.01)
+		}
+		c.MaxPx, c.MaxAtMM, c.MaxSEPx = c.Px[20], 21, 0.01
+		ca.Curves = append(ca.Curves, c)
+	}
+	return ca
 }
 
 // TestFieldCurvesAxis: the height axis of a 36 x 24 mm frame runs from 0 to

@@ -17,14 +17,16 @@ const plotScale = 2
 // writePlots writes the SVG and PNG of each plot of each photo into dir,
 // creating it if needed: <name>-field-curves, <name>-mtf50-map,
 // <name>-astigmatism, <name>-target-centre and <name>-target-corner (the
-// measured targets nearest to and farthest from the optical centre), and,
-// for two or more photos, field-curves-compared.
+// measured targets nearest to and farthest from the optical centre),
+// <name>-colour-fringes for a colour photo, and, for two or more photos,
+// field-curves-compared (and colour-fringes-compared when two have colour).
 func writePlots(dir string, res analyze.Result) error {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fmt.Errorf("cannot create the plot folder: %v", unwrapPath(err))
 	}
 	used := map[string]bool{}
 	var photos []plot.Photo
+	var fringes []plot.CAPhoto
 	for _, img := range res.Images {
 		if img.Summary == nil {
 			continue
@@ -45,6 +47,10 @@ func writePlots(dir string, res analyze.Result) error {
 				figs = append(figs, namedFigure{"target-corner", plot.Target(plot.TargetFromMeasurement(img.Measurements[n-1], img), plot.TargetOptions{})})
 			}
 		}
+		if ca := img.LateralCA; ca != nil {
+			figs = append(figs, namedFigure{"colour-fringes", plot.LateralCA(ca, img.CornerMM, plot.FieldOptions{Label: img.File, Band: true})})
+			fringes = append(fringes, plot.CAPhoto{Label: img.File, LateralCA: ca, CornerMM: img.CornerMM})
+		}
 		if img.ToneFit != nil {
 			figs = append(figs, namedFigure{"tone", plot.ToneCurve(img.ToneFit, img.File)})
 		}
@@ -52,6 +58,11 @@ func writePlots(dir string, res analyze.Result) error {
 			if err := writeFigure(dir, name+"-"+fg.suffix, fg.f); err != nil {
 				return err
 			}
+		}
+	}
+	if len(fringes) > 1 {
+		if err := writeFigure(dir, plotName("colour-fringes-compared", used), plot.CompareCA(fringes, plot.CompareOptions{Band: true})); err != nil {
+			return err
 		}
 	}
 	if len(photos) > 1 {
