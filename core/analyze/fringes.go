@@ -98,9 +98,23 @@ type CACurve struct {
 // non-raw photo and, with perChannel, each channel's MTF. It returns nil
 // when the photo holds no colour. toneMap, if not nil, applies the tone
 // curve fitted to the chart's grey steps, as it was applied to Lum.
+//
+// The positions are found in linear light, except in a JPEG whose colour
+// is subsampled: there they are found in the stored code values, where the
+// encoder's averaging and the decoder's repetition of colour keep each
+// colour's area rule (decode.Image.StoredRGB), which linear light keeps
+// less well (a gamma-encoded difference is smoothed). A nonlinear code
+// shifts all three colours of a neutral edge alike, so their differences
+// stay. The JPEG's quantisation of colour is another matter: it moves the
+// offsets by up to a tenth of a pixel at quality 92 (see
+// TestLateralCAChartJPEG).
 func colourOf(dec *decode.Image, m *edge.Measurement, r edge.Region, perChannel bool, toneMap func(*plane.Plane)) (*ChannelEdge, []ChannelMTF) {
 	rect := regionRect(r)
-	R, G, B, ok := dec.LinearRGB(rect)
+	get := dec.LinearRGB
+	if dec.ChromaSubsampling != "" {
+		get, toneMap = dec.StoredRGB, nil
+	}
+	R, G, B, ok := get(rect)
 	if !ok {
 		return nil, nil
 	}
@@ -128,6 +142,10 @@ func colourOf(dec *decode.Image, m *edge.Measurement, r edge.Region, perChannel 
 	}
 	if !perChannel {
 		return ce, nil
+	}
+	if dec.ChromaSubsampling != "" {
+		R, G, B, _ = dec.LinearRGB(rect)
+		planes = [3]*plane.Plane{R, G, B}
 	}
 	shifted := r
 	shifted.X -= float64(rect.Min.X)

@@ -23,6 +23,24 @@ import (
 // colour to give (a grey file, a raw mosaic, whose planes core/edge reads
 // itself) or when r misses the frame. The planes are new on every call.
 func (im *Image) LinearRGB(r image.Rectangle) (R, G, B *plane.Plane, ok bool) {
+	return im.rgb(r, im.Tone)
+}
+
+// StoredRGB is LinearRGB without the tone curve: the stored code values
+// over the largest code (0 to 1), as the file encodes them. A JPEG
+// subsamples its colour in these values (ITU-T T.81 with JFIF's YCbCr), so
+// a position found from the area under an edge profile is kept there by
+// the decoder's smoothing of colour, and not in linear light (the
+// smoothing of a gamma-encoded difference does not keep linear areas).
+func (im *Image) StoredRGB(r image.Rectangle) (R, G, B *plane.Plane, ok bool) {
+	if im.Raw != nil {
+		return im.rgb(r, im.Tone) // raw data are linear as stored
+	}
+	return im.rgb(r, Linear)
+}
+
+// rgb converts rectangle r of the kept image with tone t.
+func (im *Image) rgb(r image.Rectangle, t Tone) (R, G, B *plane.Plane, ok bool) {
 	r = r.Intersect(image.Rect(0, 0, im.Width, im.Height))
 	if r.Empty() {
 		return nil, nil, nil, false
@@ -46,7 +64,7 @@ func (im *Image) LinearRGB(r image.Rectangle) (R, G, B *plane.Plane, ok bool) {
 	}
 	R, G, B = plane.New(w, h), plane.New(w, h), plane.New(w, h)
 	b := im.src.Bounds()
-	t8, t16 := im.Tone.lut8(), im.Tone.lut16()
+	t8, t16 := t.lut8(), t.lut16()
 	set8 := func(i int, r, g, bb uint8) {
 		R.Pix[i], G.Pix[i], B.Pix[i] = t8[r], t8[g], t8[bb]
 	}
