@@ -3,12 +3,22 @@ package analyze
 import (
 	"context"
 	"math"
+	"runtime"
 	"slices"
 	"testing"
 
 	"sagitta/core/note"
 	"sagitta/core/sim/demo"
 )
+
+// nativeOnlyWhenShort skips a whole-photo colour test in the short run
+// under WebAssembly (one thread: minutes); TestChromaSubsampledJPEG keeps
+// the colour path covered there.
+func nativeOnlyWhenShort(t *testing.T) {
+	if testing.Short() && runtime.GOOS == "js" {
+		t.Skip("whole-photo colour test: run natively, or without -short")
+	}
+}
 
 // caPhoto renders the demo's sheet of radially turned squares on a
 // reduced sensor through a camera whose red, green and blue magnifications
@@ -44,6 +54,7 @@ func caPhoto(t *testing.T, reduce int, mag [3]float64, quality int, s Settings) 
 // 0.0032 px of it at every sampled height and the points (edges) within
 // 0.006 px rms, and the limits are twice those.
 func TestLateralCARecovered(t *testing.T) {
+	nativeOnlyWhenShort(t)
 	const m = 0.0008
 	img, sc := caPhoto(t, 5, [3]float64{m, 0, -m}, 0, Settings{}) // 1200 x 800 px, 8-bit sRGB PNG, photon noise
 	ca := img.LateralCA
@@ -105,6 +116,7 @@ func caErrors(t *testing.T, ca *LateralCA, m, pitchUM float64) []caError {
 // at the corner) only so that the camera renders each channel on its own,
 // each with its own photon and read noise.
 func TestLateralCAZero(t *testing.T) {
+	nativeOnlyWhenShort(t)
 	img, _ := caPhoto(t, 5, [3]float64{1e-12, 0, 0}, 0, Settings{})
 	ca := img.LateralCA
 	for _, c := range ca.Curves {
@@ -150,6 +162,7 @@ func TestChromaSubsampledJPEG(t *testing.T) {
 // 0.0094 px of the truth, at quality 92 (the demo's) within 0.093 px, the
 // colour's quantisation moving the offsets; the limits are twice those.
 func TestLateralCAChartJPEG(t *testing.T) {
+	nativeOnlyWhenShort(t)
 	qs := []struct {
 		q     int
 		limit float64
@@ -200,6 +213,7 @@ func TestLateralCAChartJPEG(t *testing.T) {
 // magnifications times the height in px). README quotes the curves within
 // 0.0086 px; the limit is about twice that.
 func TestLateralCARaw(t *testing.T) {
+	nativeOnlyWhenShort(t)
 	sc := demo.PortraitSmall(4)
 	data, err := sc.RawPhoto()
 	if err != nil {
