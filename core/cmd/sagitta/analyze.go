@@ -232,7 +232,7 @@ func writeText(w io.Writer, res analyze.Result) error {
 		fmt.Fprintf(w, "%d edges measured, %d set aside; %d sine stars, %d sine gratings (%d records)\n",
 			kinds["edge"], len(img.Rejected), len(img.Stars), len(img.Gratings), kinds["star"]+kinds["grating"])
 		if ca := img.LateralCA; ca != nil {
-			fmt.Fprintf(w, "colour fringes: %s\n", ca.Text)
+			fmt.Fprintln(w, ca.Text) // the verdict: "Colour fringes ..."
 		}
 		if a := img.Agreement; a != nil {
 			fmt.Fprintf(w, "stars against nearby edges: %.3f rms difference in MTF at %.2f-%.2f cy/px (edges %+.3f on average)\n",
