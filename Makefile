@@ -64,7 +64,7 @@ test-fuzz: deps
 # the selected tests drive each of them on small images.
 test-race: deps
 	$(GO) test -race -short -count=1 ./core/decode
-	$(GO) test -race -short -count=1 -run 'TestStarOnlyPhoto|TestNoChart' ./core/analyze
+	$(GO) test -race -short -count=1 -run 'TestStarOnlyPhoto|TestNoChart|TestChromaSubsampledJPEG' ./core/analyze
 	$(GO) test -race -short -count=1 -run 'TestDeterministic|TestNoSeams|TestStarModulation|TestGratingInterior' ./core/sim/simcam
 
 test: vet lint-js test-go test-wasm test-fuzz test-race test-browser
