@@ -1,0 +1,133 @@
+package analyze_test
+
+import (
+	"context"
+	"math"
+	"testing"
+
+	"sagitta/core/analyze"
+	"sagitta/core/chart"
+	"sagitta/core/sim/chartsim"
+	"sagitta/core/sim/simcam"
+)
+
+// shootChart photographs the 3:2 chart filling 97 % of a w x h frame with
+// the simulated camera cam (its size set here), 16-bit linear, and
+// analyses it.
+func shootChart(t *testing.T, cam simcam.Camera, w, h int, v chartsim.View) *analyze.Image {
+	t.Helper()
+	d, err := chart.NewDesign(chart.Code{Aspect: "3:2"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	v.W, v.H = w, h
+	if v.Fill == 0 {
+		v.Fill = 0.97
+	}
+	cam.W, cam.H = w, h
+	cam.Lens = simcam.Fixed{PSF: simcam.Gaussian{Sigma1: 0.8, Sigma2: 0.8}}
+	cam.Encoding, cam.FullWellE, cam.Seed = simcam.Linear16, 40000, 7
+	photo, err := cam.Encode(chartsim.Scene(d, v.Homography(d), chartsim.Print{}))
+	if err != nil {
+		t.Fatal(err)
+	}
+	img, err := analyze.Run(context.Background(), "chart.png", photo, analyze.Settings{PitchUM: 24, Tone: "linear"}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if img.Chart == nil {
+		t.Fatal("the chart was not recognised")
+	}
+	return img
+}
+
+// geometrySize is the frame of the geometry tests: 1500 x 1000 px (the
+// same field of view as a 24 MP full-frame photo at 24 um).
+const geometryW, geometryH = 1500, 1000
+
+// TestDistortionSimulated applies a known radial distortion with the
+// simulated camera (simcam.Distortion: the radial terms of Brown's model,
+// D. C. Brown, Photogrammetric Engineering 32 (1966), normalised to the
+// half-diagonal) and checks the fitted displacement curve against the
+// applied one, 100 (K1 s^2 + K2 s^4) %, at every height from the centre to
+// the corner: within 0.05 % (README, "Distortion", quotes the measured
+// error). Barrel (K1 = -0.02) and moustache (K1 = +0.02, K2 = -0.03).
+func TestDistortionSimulated(t *testing.T) {
+	for _, tc := range []struct {
+		name   string
+		k1, k2 float64
+		kind   string
+	}{
+		{"barrel", -0.02, 0, "barrel"},
+		{"moustache", 0.02, -0.03, "moustache"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			if testing.Short() && tc.name != "barrel" {
+				t.Skip("one case under -short")
+			}
+			dist := &simcam.Distortion{K1: tc.k1, K2: tc.k2}
+			img := shootChart(t, simcam.Camera{Distortion: dist}, geometryW, geometryH, chartsim.View{})
+			ds := img.Distortion
+			if ds == nil || !ds.Measured {
+				t.Fatalf("distortion not measured: %+v", ds)
+			}
+			worst := 0.0
+			for i, s := range ds.HeightFrac {
+				worst = math.Max(worst, math.Abs(ds.DisplacementPct[i]-dist.DisplacementPct(s)))
+			}
+			t.Logf("%s: k1 %.5f k2 %.5f (applied %g, %g); corner %+.3f %% (applied %+.3f); worst error %.4f %%; rms %.3f px over %d points; %s",
+				tc.name, ds.K1, ds.K2, tc.k1, tc.k2, ds.CornerPct, dist.DisplacementPct(1), worst, ds.ResidualPx, ds.Points, ds.Text)
+			if worst > 0.05 {
+				t.Errorf("fitted curve off the applied one by %.4f %%, want <= 0.05 %%", worst)
+			}
+			if ds.Kind != tc.kind {
+				t.Errorf("kind %q, want %q", ds.Kind, tc.kind)
+			}
+		})
+	}
+}
+
+// TestFalloffCos4 applies the cosine-fourth law of natural vignetting,
+// E(theta) = E0 cos^4(theta) (W. J. Smith, Modern Optical Engineering, 4th
+// ed. (2008), section 10.9, chapter from memory), with the exit pupil one
+// half-diagonal from the sensor (45 degrees at the corner, -2 EV there),
+// and checks the measured curve against -4 log2(cos(atan(s R / f))) at
+// every height: within 0.05 EV (README, "Light fall-off"). A frame
+// without fall-off reads within 0.05 EV of 0 everywhere.
+func TestFalloffCos4(t *testing.T) {
+	R := math.Hypot(geometryW, geometryH) / 2
+	for _, tc := range []struct {
+		name string
+		f    float64 // Cos4FocalPx; 0: none
+	}{{"cos4", R}, {"flat", 0}} {
+		t.Run(tc.name, func(t *testing.T) {
+			if testing.Short() && tc.name != "cos4" {
+				t.Skip("one case under -short")
+			}
+			cam := simcam.Camera{}
+			if tc.f > 0 {
+				cam.Falloff = &simcam.Falloff{Cos4FocalPx: tc.f}
+			}
+			img := shootChart(t, cam, geometryW, geometryH, chartsim.View{})
+			fo := img.Falloff
+			if fo == nil || !fo.Measured {
+				t.Fatalf("fall-off not measured: %+v", fo)
+			}
+			want := func(s float64) float64 {
+				if tc.f == 0 {
+					return 0
+				}
+				return 4 * math.Log2(math.Cos(math.Atan(s*R/tc.f)))
+			}
+			worst := 0.0
+			for i, s := range fo.HeightFrac {
+				worst = math.Max(worst, math.Abs(fo.EV[i]-want(s)))
+			}
+			t.Logf("%s: corner %+.3f EV (law %+.3f); worst error %.4f EV; %d patches, rms %.4f EV; uneven %.3f EV; cautions %q",
+				tc.name, fo.CornerEV, want(1), worst, fo.Points, fo.ResidualEV, fo.UnevenEV, fo.CautionCodes)
+			if worst > 0.05 {
+				t.Errorf("measured fall-off off the law by %.4f EV, want <= 0.05", worst)
+			}
+		})
+	}
+}
