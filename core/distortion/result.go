@@ -80,7 +80,7 @@ func Summarise(f *Fit, pts []Point, fr Frame, pitchUM float64, setupWarns bool) 
 	switch {
 	case math.Max(-lo, hi) < NegligiblePct:
 		out.Kind, out.Code = "negligible", string(note.DistortionNegligible)
-		out.Text = fmt.Sprintf("Distortion is negligible: straight lines stay straight within %.2f %% of their distance from the centre.", math.Max(-lo, hi))
+		out.Text = fmt.Sprintf("Distortion is negligible: straight lines stay straight within %.2f %% of their distance from the optical centre.", math.Max(-lo, hi))
 	case -lo > MoustachePct && hi > MoustachePct:
 		out.Kind, out.Code = "moustache", string(note.DistortionMoustache)
 		out.Text = fmt.Sprintf("Moustache distortion: lines bow one way near the centre and the other way towards the corners (from %+.2f %% to %+.2f %%; %+.2f %% at the corner).", lo, hi, out.CornerPct)

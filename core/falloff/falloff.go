@@ -219,7 +219,7 @@ func Measure(ps []Patch, fr Frame, pitchUM float64) (*Result, error) {
 		"Uneven light on the chart looks exactly like the lens's fall-off: light the chart from both sides, or shoot it again moved or turned; what moves with the chart is the light, what stays is the lens."))
 	if out.Uneven > UnevenEV && out.Uneven > 3*out.UnevenSE {
 		out.Cautions = append(out.Cautions, note.New(note.FalloffUneven,
-			fmt.Sprintf("The two halves of the frame differ by %.2f EV at equal distances from the centre, more than a centred lens gives: the chart is probably lit unevenly.", out.Uneven)))
+			fmt.Sprintf("The two halves of the frame differ by %.2f EV at equal distances from the optical centre, more than a centred lens gives: the chart is probably lit unevenly.", out.Uneven)))
 	}
 	if clipped > 0 {
 		out.Cautions = append(out.Cautions, note.New(note.FalloffClipped,
