@@ -4,6 +4,7 @@
 // f-number then focal length. Labels come from Exif; the user can rename.
 
 import { coreFigure } from './corefig.js';
+import { compareGeometry } from './geometry.js';
 import { explainBox } from './explain.js';
 import { PHOTO } from './colour.js';
 import { fmtFNumber, fmt } from './units.js';
@@ -105,6 +106,7 @@ export function renderCompare(root, state) {
   const missing = ticked.filter((p) => !p.result.summary).map(labelOf);
   if (missing.length) main.append(el('p', { class: 'notes' }, `No field curves for ${missing.join(', ')}: too few targets were measured.`));
   main.append(el('p', { class: 'hint' }, 'One colour per photo, as in the list of photos.'));
+  compareGeometry(main, ticked, state.pool, labelOf); // distortion and light fall-off (geometry.js)
 
   // The table of key numbers, for all targets or one orientation.
   const oSel = el('select', { id: 'compare-orient', 'aria-label': 'Orientations in the table' });

@@ -6,6 +6,7 @@
 
 import { plot, KIND_MARKER } from './plot.js';
 import { coreFigure } from './corefig.js';
+import { renderGeometry } from './geometry.js';
 import { explainBox, howComputed } from './explain.js';
 import { ORIENTATION } from './colour.js';
 import { fromCyPx, UNITS, NYQUIST_CY_PX } from './units.js';
@@ -62,6 +63,7 @@ export function renderSummary(box, r, units, pool, label) {
     for (const t of s.warnings) w.append(el('p', {}, t));
     box.append(w);
   }
+  renderGeometry(box, r, pool, label); // distortion and light fall-off (geometry.js)
   box.append(explainBox(['sagittal', 'tangential', 'MTF50', '± 2 standard errors', 'smoothing']));
   box.append(howComputed([`Field curves: ${s.smoother}.`, s.map ? `MTF50 map: ${s.map.method}; the mean of sagittal and tangential.` : '']));
 }

@@ -17,14 +17,17 @@ const plotScale = 2
 // writePlots writes the SVG and PNG of each plot of each photo into dir,
 // creating it if needed: <name>-field-curves, <name>-mtf50-map,
 // <name>-astigmatism, <name>-target-centre and <name>-target-corner (the
-// measured targets nearest to and farthest from the optical centre), and,
-// for two or more photos, field-curves-compared.
+// measured targets nearest to and farthest from the optical centre),
+// <name>-distortion and <name>-light-fall-off where they were measured, and,
+// for two or more photos, field-curves-compared (and distortion-compared,
+// light-fall-off-compared when two photos have them).
 func writePlots(dir string, res analyze.Result) error {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fmt.Errorf("cannot create the plot folder: %v", unwrapPath(err))
 	}
 	used := map[string]bool{}
 	var photos []plot.Photo
+	var geo []plot.GeometryPhoto
 	for _, img := range res.Images {
 		if img.Summary == nil {
 			continue
@@ -45,6 +48,10 @@ func writePlots(dir string, res analyze.Result) error {
 				figs = append(figs, namedFigure{"target-corner", plot.Target(plot.TargetFromMeasurement(img.Measurements[n-1], img), plot.TargetOptions{})})
 			}
 		}
+		figs = append(figs, geometryFigures(img)...)
+		if g, ok := geometryPhoto(img); ok {
+			geo = append(geo, g)
+		}
 		if img.ToneFit != nil {
 			figs = append(figs, namedFigure{"tone", plot.ToneCurve(img.ToneFit, img.File)})
 		}
@@ -52,6 +59,14 @@ func writePlots(dir string, res analyze.Result) error {
 			if err := writeFigure(dir, name+"-"+fg.suffix, fg.f); err != nil {
 				return err
 			}
+		}
+	}
+	if len(geo) > 1 {
+		if err := writeFigure(dir, plotName("distortion-compared", used), plot.CompareDistortion(geo)); err != nil {
+			return err
+		}
+		if err := writeFigure(dir, plotName("light-fall-off-compared", used), plot.CompareFalloff(geo)); err != nil {
+			return err
 		}
 	}
 	if len(photos) > 1 {
