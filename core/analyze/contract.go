@@ -676,7 +676,7 @@ func (s *Summary) Field() *field.Summary {
 // is false and Reason and ReasonCode say why; the rest is then empty.
 type Distortion struct {
 	Measured   bool    `json:"measured"`
-	Source     string  `json:"source,omitempty"` // "chart"
+	Source     string  `json:"source,omitempty"` // "chart", or "edges" (long straight edges, without the chart)
 	Reason     string  `json:"reason,omitempty"`
 	ReasonCode string  `json:"reason_code,omitempty"` // core/note
 	K1         float64 `json:"k1,omitempty"`
@@ -696,8 +696,9 @@ type Distortion struct {
 	Kind         string   `json:"kind,omitempty"`
 	Text         string   `json:"text,omitempty"`
 	Code         string   `json:"code,omitempty"`
-	ResidualPx   float64  `json:"residual_px"` // rms distance of the targets from the model
-	Points       int      `json:"points"`      // targets used
+	ResidualPx   float64  `json:"residual_px"`     // rms distance of the targets from the model
+	Points       int      `json:"points"`          // targets (or edge pieces) used
+	Lines        int      `json:"lines,omitempty"` // long straight edges used (source "edges")
 	Cautions     []string `json:"cautions,omitempty"`
 	CautionCodes []string `json:"caution_codes,omitempty"` // aligned with Cautions (core/note)
 	// Targets are the located targets the fit used or dropped.

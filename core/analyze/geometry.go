@@ -20,7 +20,7 @@ import (
 
 // Reasons given when the chart is not there.
 const (
-	noChartDistortion = "not measured: the photo does not show Sagitta's chart, whose targets' designed positions it needs"
+	noChartDistortion = "not measured: the photo shows neither Sagitta's chart nor enough long straight edges (two, each measured in four pieces or more)"
 	noChartFalloff    = "not measured: the photo does not show Sagitta's chart, whose blank paper it samples"
 )
 
@@ -110,7 +110,7 @@ func summariseGeometry(img *Image, geo field.Geometry) {
 // distortionOf fits the distortion to the chart's located targets.
 func distortionOf(img *Image, fr distortion.Frame) *Distortion {
 	if img.Chart == nil {
-		return &Distortion{Reason: noChartDistortion, ReasonCode: string(note.DistortionNoChart)}
+		return distortionFromEdges(img, fr)
 	}
 	pts := chartPoints(img)
 	fit, err := distortion.FitChart(pts, [9]float64(img.Chart.Homography), fr)
@@ -136,6 +136,39 @@ func distortionOf(img *Image, fr distortion.Frame) *Distortion {
 			DisplacementPct: Number(q.DisplacementPct), ResidualPx: q.ResidualPx, Used: q.Used,
 		}
 	}
+	return out
+}
+
+// minPiecePx is the shortest edge record taken as a piece of a long
+// straight edge: shorter ones are mostly the ends of bars and the sides of
+// small targets.
+const minPiecePx = 64
+
+// distortionFromEdges fits K1 to the long straight runs among the edge
+// records (the plumb-line method, core/distortion), when there are enough.
+func distortionFromEdges(img *Image, fr distortion.Frame) *Distortion {
+	var pieces []distortion.Line
+	for _, m := range img.Measurements {
+		if m.Kind == "edge" && m.LengthPx >= minPiecePx {
+			pieces = append(pieces, distortion.Line{X: m.XPx, Y: m.YPx, NormalDeg: m.NormalDeg})
+		}
+	}
+	runs := distortion.Runs(pieces, fr)
+	fit, err := distortion.FitLines(pieces, runs, fr)
+	if err != nil {
+		return &Distortion{Reason: noChartDistortion, ReasonCode: string(note.DistortionNoChart)}
+	}
+	r := distortion.Summarise(fit, nil, fr, img.PitchUM, false)
+	cautions := append([]note.Note{note.New(note.DistortionFromEdges, fmt.Sprintf(
+		"Measured from how %d long edges bend (%d pieces), not from the chart: only the first term of the curve, and only if those edges are straight in the scene.",
+		fit.Runs, fit.N))}, r.Cautions...)
+	out := &Distortion{
+		Measured: true, Source: "edges", K1: r.K1, HalfDiagonalPx: fr.HalfDiagPx(),
+		HeightMM: r.HeightMM, HeightFrac: r.HeightS, DisplacementPct: r.DisplacementPct,
+		CornerPct: r.CornerPct, LongEdgePct: r.LongEdgePct,
+		Kind: r.Kind, Text: r.Text, Code: r.Code, ResidualPx: r.RMSPx, Points: r.N, Lines: fit.Runs,
+	}
+	out.Cautions, out.CautionCodes = note.Split(cautions)
 	return out
 }
 

@@ -49,7 +49,8 @@ func imageMagick() string {
 // 1/D (the centre's magnification), so at the output radius r the radial
 // displacement is D r / r_src - 1 = D / (B r^2 + D) - 1: about -1.6 % at
 // the corner of a 3:2 frame. Sagitta's fitted curve (against the ideal
-// height) must follow it within 0.05 % from the centre to the corner.
+// height) follows it within 0.0033 % from the centre to the corner
+// (README quotes 0.004 %), asserted at 0.008 %.
 func TestDistortionImageMagick(t *testing.T) {
 	if runtime.GOOS == "js" || runtime.GOOS == "wasip1" {
 		t.Skip("no external programs under WebAssembly")
@@ -113,8 +114,8 @@ func TestDistortionImageMagick(t *testing.T) {
 	}
 	t.Logf("ImageMagick barrel B %g: corner %+.3f %% (ImageMagick %+.3f %%); worst error %.4f %%; rms %.3f px over %d points; %s",
 		B, ds.CornerPct, want(ds.HeightFrac[len(ds.HeightFrac)-1]), worst, ds.ResidualPx, ds.Points, ds.Kind)
-	if worst > 0.05 {
-		t.Errorf("fitted curve off ImageMagick's by %.4f %%, want <= 0.05 %%", worst)
+	if worst > 0.008 {
+		t.Errorf("fitted curve off ImageMagick's by %.4f %%, want <= 0.008 %%", worst)
 	}
 	if ds.Kind != "barrel" {
 		t.Errorf("kind %q, want barrel", ds.Kind)

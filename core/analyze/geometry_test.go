@@ -50,16 +50,19 @@ const geometryW, geometryH = 1500, 1000
 // D. C. Brown, Photogrammetric Engineering 32 (1966), normalised to the
 // half-diagonal) and checks the fitted displacement curve against the
 // applied one, 100 (K1 s^2 + K2 s^4) %, at every height from the centre to
-// the corner: within 0.05 % (README, "Distortion", quotes the measured
-// error). Barrel (K1 = -0.02) and moustache (K1 = +0.02, K2 = -0.03).
+// the corner. Barrel (K1 = -0.02): measured 0.0019 %, README quotes
+// 0.002 %, asserted at 0.004 %; moustache (K1 = +0.02, K2 = -0.03):
+// measured 0.031 %, asserted at 0.05 % (the issue's figure, below twice
+// README's).
 func TestDistortionSimulated(t *testing.T) {
 	for _, tc := range []struct {
 		name   string
 		k1, k2 float64
 		kind   string
+		limit  float64 // %
 	}{
-		{"barrel", -0.02, 0, "barrel"},
-		{"moustache", 0.02, -0.03, "moustache"},
+		{"barrel", -0.02, 0, "barrel", 0.004},
+		{"moustache", 0.02, -0.03, "moustache", 0.05},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			if testing.Short() && tc.name != "barrel" {
@@ -77,8 +80,8 @@ func TestDistortionSimulated(t *testing.T) {
 			}
 			t.Logf("%s: k1 %.5f k2 %.5f (applied %g, %g); corner %+.3f %% (applied %+.3f); worst error %.4f %%; rms %.3f px over %d points; %s",
 				tc.name, ds.K1, ds.K2, tc.k1, tc.k2, ds.CornerPct, dist.DisplacementPct(1), worst, ds.ResidualPx, ds.Points, ds.Text)
-			if worst > 0.05 {
-				t.Errorf("fitted curve off the applied one by %.4f %%, want <= 0.05 %%", worst)
+			if worst > tc.limit {
+				t.Errorf("fitted curve off the applied one by %.4f %%, want <= %g %%", worst, tc.limit)
 			}
 			if ds.Kind != tc.kind {
 				t.Errorf("kind %q, want %q", ds.Kind, tc.kind)
@@ -91,15 +94,17 @@ func TestDistortionSimulated(t *testing.T) {
 // E(theta) = E0 cos^4(theta) (W. J. Smith, Modern Optical Engineering, 4th
 // ed. (2008), section 10.9, chapter from memory), with the exit pupil one
 // half-diagonal from the sensor (45 degrees at the corner, -2 EV there),
-// and checks the measured curve against -4 log2(cos(atan(s R / f))) at
-// every height: within 0.05 EV (README, "Light fall-off"). A frame
-// without fall-off reads within 0.05 EV of 0 everywhere.
+// and checks the measured curve against 4 log2(cos(atan(s R / f))) at
+// every height: measured 0.0063 EV, README quotes 0.007 EV, asserted at
+// 0.014 EV (the issue asks for 0.05). A frame without fall-off reads
+// within 0.001 EV of 0 everywhere (measured 0.0002), asserted at 0.002.
 func TestFalloffCos4(t *testing.T) {
 	R := math.Hypot(geometryW, geometryH) / 2
 	for _, tc := range []struct {
-		name string
-		f    float64 // Cos4FocalPx; 0: none
-	}{{"cos4", R}, {"flat", 0}} {
+		name  string
+		f     float64 // Cos4FocalPx; 0: none
+		limit float64 // EV
+	}{{"cos4", R, 0.014}, {"flat", 0, 0.002}} {
 		t.Run(tc.name, func(t *testing.T) {
 			if testing.Short() && tc.name != "cos4" {
 				t.Skip("one case under -short")
@@ -125,9 +130,58 @@ func TestFalloffCos4(t *testing.T) {
 			}
 			t.Logf("%s: corner %+.3f EV (law %+.3f); worst error %.4f EV; %d patches, rms %.4f EV; uneven %.3f EV; cautions %q",
 				tc.name, fo.CornerEV, want(1), worst, fo.Points, fo.ResidualEV, fo.UnevenEV, fo.CautionCodes)
-			if worst > 0.05 {
-				t.Errorf("measured fall-off off the law by %.4f EV, want <= 0.05", worst)
+			if worst > tc.limit {
+				t.Errorf("measured fall-off off the law by %.4f EV, want <= %g", worst, tc.limit)
 			}
 		})
+	}
+}
+
+// TestDistortionFromEdges: without the chart, long straight bars (a scene
+// straight in the world) bent by the simulated camera's barrel distortion
+// (K1 = -0.02) give K1 by the plumb-line method (Brown 1971; core/distortion,
+// lines.go): the curve within 0.0012 % of the applied one from the centre
+// to the corner (README quotes 0.002 %), asserted at 0.004 %, with the
+// caution that it comes from edges first.
+func TestDistortionFromEdges(t *testing.T) {
+	const w, h = geometryW, geometryH
+	bar := func(cx, cy, length, thick, rotDeg float64) simcam.Polygon {
+		s, c := math.Sincos(rotDeg * math.Pi / 180)
+		var pts [][2]float64
+		for _, q := range [4][2]float64{{-length / 2, -thick / 2}, {length / 2, -thick / 2}, {length / 2, thick / 2}, {-length / 2, thick / 2}} {
+			pts = append(pts, [2]float64{cx + q[0]*c - q[1]*s, cy + q[0]*s + q[1]*c})
+		}
+		return simcam.Polygon{Pts: pts, Level: 0.2}
+	}
+	sc := simcam.Scene{Background: 0.8, Polygons: []simcam.Polygon{
+		bar(750, 140, 950, 70, 4), bar(750, 860, 950, 70, -4),
+		bar(130, 500, 700, 70, 94), bar(1370, 500, 700, 70, 86),
+	}}
+	dist := &simcam.Distortion{K1: -0.02}
+	cam := simcam.Camera{W: w, H: h, Lens: simcam.Fixed{PSF: simcam.Gaussian{Sigma1: 0.8, Sigma2: 0.8}},
+		Encoding: simcam.Linear16, FullWellE: 40000, Seed: 3, Distortion: dist}
+	photo, err := cam.Encode(sc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	img, err := analyze.Run(context.Background(), "bars.png", photo, analyze.Settings{PitchUM: 24, Tone: "linear"}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ds := img.Distortion
+	if ds == nil || !ds.Measured || ds.Source != "edges" {
+		t.Fatalf("distortion %+v, want measured from edges", ds)
+	}
+	worst := 0.0
+	for i, s := range ds.HeightFrac {
+		worst = math.Max(worst, math.Abs(ds.DisplacementPct[i]-dist.DisplacementPct(s)))
+	}
+	t.Logf("edges: k1 %.5f (applied -0.02), corner %+.3f %%, worst error %.4f %%, %d lines, %d pieces, rms %.3f px; %q",
+		ds.K1, ds.CornerPct, worst, ds.Lines, ds.Points, ds.ResidualPx, ds.CautionCodes)
+	if worst > 0.004 {
+		t.Errorf("curve off the applied one by %.4f %%, want <= 0.004 %%", worst)
+	}
+	if len(ds.CautionCodes) == 0 || ds.CautionCodes[0] != "distortion-from-edges" {
+		t.Errorf("cautions %q, want distortion-from-edges first", ds.CautionCodes)
 	}
 }

@@ -79,6 +79,11 @@ type Fit struct {
 	N     int
 	// WithK2 says whether K2 was fitted (else it is 0).
 	WithK2 bool
+	// Runs is the number of straight runs behind a FitLines.
+	Runs int
+	// ReachS is the largest distance of a point used from the optical
+	// centre, half-diagonals.
+	ReachS float64
 }
 
 // Fitting limits.
@@ -155,6 +160,11 @@ func FitChart(pts []Point, h0 [9]float64, fr Frame) (*Fit, error) {
 		}
 	}
 	f.RMSPx = math.Sqrt(ss / float64(f.N))
+	for i, p := range pts {
+		if used[i] {
+			f.ReachS = math.Max(f.ReachS, math.Hypot(p.XPx-fr.CentreX, p.YPx-fr.CentreY)/R)
+		}
+	}
 	f.K1, f.K2 = th[8], th[9]
 	inv := [9]float64{R, 0, fr.CentreX, 0, R, fr.CentreY, 0, 0, 1}
 	hn = mul(inv, [9]float64{th[0], th[1], th[2], th[3], th[4], th[5], th[6], th[7], 1})

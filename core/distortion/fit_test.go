@@ -137,7 +137,7 @@ func TestSummariseWords(t *testing.T) {
 		{-0.002, 0, note.DistortionNegligible},
 	} {
 		f := &Fit{K1: tc.k1, K2: tc.k2, H: [9]float64{950, 0, 750, 0, 950, 500, 0, 0, 1}, RMSPx: 0.1, N: 1,
-			ResidualsPx: []float64{0.1}, Used: []bool{true}}
+			ResidualsPx: []float64{0.1}, Used: []bool{true}, ReachS: 0.9}
 		r := Summarise(f, []Point{{XPx: 1400, YPx: 950, ChartX: 0.68, ChartY: 0.47}}, fr, 24, false)
 		if r.Code != string(tc.code) {
 			t.Errorf("k1 %g k2 %g: %s, want %s", tc.k1, tc.k2, r.Code, tc.code)
@@ -146,7 +146,7 @@ func TestSummariseWords(t *testing.T) {
 			t.Errorf("k1 %g: cautions %v", tc.k1, r.Cautions)
 		}
 	}
-	f := &Fit{K1: -0.02, H: [9]float64{950, 0, 750, 0, 950, 500, 0, 0, 1}, RMSPx: 2, N: 1, ResidualsPx: []float64{2}, Used: []bool{true}}
+	f := &Fit{K1: -0.02, H: [9]float64{950, 0, 750, 0, 950, 500, 0, 0, 1}, RMSPx: 2, N: 1, ResidualsPx: []float64{2}, Used: []bool{true}, ReachS: 0.06}
 	r := Summarise(f, []Point{{XPx: 800, YPx: 520, ChartX: 0.05, ChartY: 0.02}}, fr, 24, true)
 	var codes []note.Code
 	for _, c := range r.Cautions {
@@ -154,5 +154,45 @@ func TestSummariseWords(t *testing.T) {
 	}
 	if len(codes) != 3 || codes[0] != note.DistortionSetup || codes[1] != note.DistortionScatter || codes[2] != note.DistortionShortReach {
 		t.Errorf("cautions %v, want setup, scatter, short reach", codes)
+	}
+}
+
+// TestFitLines: pieces along four straight lines of the scene, bent by a
+// known K1 (the model of the package doc), give K1 back by the plumb-line
+// method; a stray piece lined up with one of them is left out; one line
+// is not enough.
+func TestFitLines(t *testing.T) {
+	fr := Frame{W: 1500, H: 1000, CentreX: 750, CentreY: 500}
+	R := fr.HalfDiagPx()
+	const k1 = -0.02
+	bend := func(x, y float64) (float64, float64) {
+		dx, dy := x-fr.CentreX, y-fr.CentreY
+		m := 1 + k1*(dx*dx+dy*dy)/(R*R)
+		return fr.CentreX + dx*m, fr.CentreY + dy*m
+	}
+	var pieces []Line
+	for _, l := range [][4]float64{{300, 120, 1200, 150}, {300, 880, 1200, 850}, {110, 150, 130, 850}, {1390, 150, 1370, 850}} {
+		for k := range 6 {
+			tt := float64(k) / 5
+			x, y := bend(l[0]+tt*(l[2]-l[0]), l[1]+tt*(l[3]-l[1]))
+			// The bent line's normal there, from a small step along it.
+			x2, y2 := bend(l[0]+(tt+1e-4)*(l[2]-l[0]), l[1]+(tt+1e-4)*(l[3]-l[1]))
+			pieces = append(pieces, Line{X: x, Y: y, NormalDeg: math.Atan2(x2-x, -(y2-y)) * 180 / math.Pi})
+		}
+	}
+	stray := pieces[5]
+	stray.X, stray.Y = stray.X+40, stray.Y+2.2 // beyond the first line's end, 2 px off it
+	pieces = append(pieces, stray)
+	runs := Runs(pieces, fr)
+	f, err := FitLines(pieces, runs, fr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("k1 %.6f, %d runs, %d pieces, rms %.4f px", f.K1, f.Runs, f.N, f.RMSPx)
+	if math.Abs(f.K1-k1) > 1e-4 || f.Runs != 4 || f.N != 24 {
+		t.Errorf("k1 %g (want %g), %d runs, %d pieces (want 4, 24)", f.K1, k1, f.Runs, f.N)
+	}
+	if _, err := FitLines(pieces, runs[:1], fr); err != ErrFewRuns {
+		t.Errorf("one run: %v, want ErrFewRuns", err)
 	}
 }

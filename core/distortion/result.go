@@ -60,8 +60,9 @@ type PointResult struct {
 const minPointS = 0.15
 
 // Summarise turns a fit into the reported curve, verdict and cautions for
-// frame fr with pixels of pitchUM. setupWarns says the chart's set-up
-// checks warned (then the result is unreliable).
+// frame fr with pixels of pitchUM. pts are the chart's targets behind a
+// FitChart (none for FitLines). setupWarns says the chart's set-up checks
+// warned (then the result is unreliable).
 func Summarise(f *Fit, pts []Point, fr Frame, pitchUM float64, setupWarns bool) *Result {
 	R := fr.HalfDiagPx()
 	sc := fr.CornerS()
@@ -91,7 +92,6 @@ func Summarise(f *Fit, pts []Point, fr Frame, pitchUM float64, setupWarns bool) 
 		out.Kind, out.Code = "pincushion", string(note.DistortionPincushion)
 		out.Text = fmt.Sprintf("Pincushion distortion: straight lines near the frame's edges bow inwards (%+.2f %% at the corner, %+.2f %% at the end of the long side).", out.CornerPct, out.LongEdgePct)
 	}
-	reach := 0.0
 	for i, p := range pts {
 		qx, qy := apply(f.H, p.ChartX, p.ChartY)
 		qx, qy = (qx-fr.CentreX)/R, (qy-fr.CentreY)/R
@@ -102,9 +102,6 @@ func Summarise(f *Fit, pts []Point, fr Frame, pitchUM float64, setupWarns bool) 
 			d = 100 * ((px*qx+py*qy)/(s*s) - 1)
 		}
 		out.Points = append(out.Points, PointResult{HeightS: s, DisplacementPct: d, ResidualPx: f.ResidualsPx[i], Used: f.Used[i]})
-		if f.Used[i] {
-			reach = math.Max(reach, s)
-		}
 	}
 	if setupWarns {
 		out.Cautions = append(out.Cautions, note.New(note.DistortionSetup,
@@ -114,9 +111,9 @@ func Summarise(f *Fit, pts []Point, fr Frame, pitchUM float64, setupWarns bool) 
 		out.Cautions = append(out.Cautions, note.New(note.DistortionScatter,
 			fmt.Sprintf("The targets scatter by %.1f px about the fitted curve, more than a flat sheet gives: flatten the chart (a curled or wavy sheet bends lines like the lens).", f.RMSPx)))
 	}
-	if reach < ShortReach*sc {
+	if f.ReachS < ShortReach*sc {
 		out.Cautions = append(out.Cautions, note.New(note.DistortionShortReach,
-			fmt.Sprintf("The located targets reach only %.0f %% of the way to the corner: the corner value is extrapolated.", 100*reach/sc)))
+			fmt.Sprintf("The located targets reach only %.0f %% of the way to the corner: the corner value is extrapolated.", 100*f.ReachS/sc)))
 	}
 	return out
 }

@@ -20,12 +20,12 @@ import (
 // ideal height is 100 (K1 s^2 + K2 s^4) %.
 //
 // The camera maps every polygon vertex, star centre and grating centre of
-// the scene through it (Render). Polygon sides longer than maxSidePx are
-// first cut into shorter pieces, so that long straight lines bend; shorter
-// sides stay straight between their mapped ends, which is within
-// |K1| 6 s R^-1 L^2 / 8 px of the true curve for a side of L px (0.07 px for
-// a 64 px side at the corner of a 1500 x 1000 frame with K1 = -0.02). Stars
-// and gratings are moved, not bent.
+// the scene through it (Render). Polygon sides longer than maxSidePx (64
+// px) are first cut into equal pieces, so that straight lines bend; each
+// piece stays straight between its mapped ends, within
+// |K1| 6 s L^2 / (8 R) px of the true curve for a piece of L px at height s
+// (0.07 px for 64 px at the corner of a 1500 x 1000 frame with K1 = -0.02).
+// Stars and gratings are moved, not bent.
 type Distortion struct {
 	K1, K2 float64
 	// CentreX, CentreY is the optical centre, px; both 0 means the frame's
@@ -34,7 +34,7 @@ type Distortion struct {
 }
 
 // maxSidePx is the longest polygon side mapped as a straight line.
-const maxSidePx = 200
+const maxSidePx = 64
 
 // centre returns the optical centre in a w x h frame.
 func (d Distortion) centre(w, h int) (float64, float64) {
