@@ -71,13 +71,7 @@ func Distortion(d *analyze.Distortion, label string) *Figure {
 			sx, sy = append(sx, t.HeightMM), append(sy, v)
 		}
 	}
-	span := math.Max(0.5, math.Max(-lo, hi))
-	step := 0.5
-	if span > 3 {
-		step = 1
-	}
-	pn.Y.Min = -step * math.Ceil(math.Max(-lo, 0.25*span)/step+1e-9)
-	pn.Y.Max = step * math.Ceil(math.Max(hi, 0.25*span)/step+1e-9)
+	pn.Y.Min, pn.Y.Max = axisAround(lo, hi)
 	pn.Series = append(pn.Series, Series{Name: "Fitted curve", X: d.HeightMM, Y: d.DisplacementPct, Colour: InkColour, Width: LineWidth})
 	f.Legend = []LegendEntry{{Label: "Fitted curve", Colour: InkColour, Width: LineWidth}}
 	if len(sx) > 0 {
@@ -218,7 +212,7 @@ type GeometryPhoto struct {
 // CompareDistortion overlays the distortion curves of several photos, one
 // colour per photo (PhotoColours, in order).
 func CompareDistortion(photos []GeometryPhoto) *Figure {
-	return compareGeometry(photos, "Distortion compared", DisplacementAxisTitle, "Radial displacement (%)", 0.5,
+	return compareGeometry(photos, "Distortion compared", DisplacementAxisTitle, "Radial displacement (%)",
 		func(p GeometryPhoto) ([]float64, []float64, bool) {
 			if d := p.Distortion; d != nil && d.Measured {
 				return d.HeightMM, d.DisplacementPct, true
@@ -230,7 +224,7 @@ func CompareDistortion(photos []GeometryPhoto) *Figure {
 // CompareFalloff overlays the light fall-off curves of several photos, one
 // colour per photo.
 func CompareFalloff(photos []GeometryPhoto) *Figure {
-	return compareGeometry(photos, "Light fall-off compared", FalloffAxisTitle, "Light fall-off (EV)", 0.5,
+	return compareGeometry(photos, "Light fall-off compared", FalloffAxisTitle, "Light fall-off (EV)",
 		func(p GeometryPhoto) ([]float64, []float64, bool) {
 			if f := p.Falloff; f != nil && f.Measured {
 				return f.HeightMM, f.EV, true
@@ -239,7 +233,7 @@ func CompareFalloff(photos []GeometryPhoto) *Figure {
 		})
 }
 
-func compareGeometry(photos []GeometryPhoto, title, yTitle, column string, step float64, get func(GeometryPhoto) ([]float64, []float64, bool)) *Figure {
+func compareGeometry(photos []GeometryPhoto, title, yTitle, column string, get func(GeometryPhoto) ([]float64, []float64, bool)) *Figure {
 	f := &Figure{Title: title}
 	f.Data = Table{Caption: title + ": smooth-curve samples", Columns: []string{"Photo", HeightColumn, column}}
 	pn := &Panel{X: Axis{Title: HeightAxisTitle, Min: 0}, Y: Axis{Title: yTitle}, Refs: []RefLine{{At: 0, Colour: ReferenceColour, Width: 1}}}
@@ -260,9 +254,23 @@ func compareGeometry(photos []GeometryPhoto, title, yTitle, column string, step 
 		}
 	}
 	pn.X.Max = math.Max(xmax, 1)
-	pn.Y.Min = -step * math.Ceil(math.Max(-lo, step/2)/step+1e-9)
-	pn.Y.Max = step * math.Ceil(math.Max(hi, step/2)/step+1e-9)
+	pn.Y.Min, pn.Y.Max = axisAround(lo, hi)
 	f.Notes = []string{"One colour per photo; photos where it was not measured draw no curve."}
 	f.Description = fmt.Sprintf("%s for %d photos against the distance from the optical centre", title, len(photos))
 	return f
+}
+
+// axisAround returns a y range holding [lo, hi] (lo <= 0 <= hi) and zero,
+// in steps of 0.1, 0.5 or 1 by the span, with a margin of at least a
+// seventh of the span on the side without data.
+func axisAround(lo, hi float64) (float64, float64) {
+	span := math.Max(hi-lo, 0.2)
+	step := 0.1
+	switch {
+	case span > 4:
+		step = 1
+	case span > 1.5:
+		step = 0.5
+	}
+	return -step * math.Ceil(math.Max(-lo, span/7)/step-1e-9), step * math.Ceil(math.Max(hi, span/7)/step-1e-9)
 }

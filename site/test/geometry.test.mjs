@@ -1,7 +1,8 @@
 // Browser test of distortion and light fall-off: the demo photo (its
 // invented lens has mild barrel distortion and vignetting) shows both in
 // "Across the frame" with the core's figures and the command-line tool's
-// numbers, and Compare overlays them for two photos.
+// numbers (and so in the printable report), and Compare overlays them for
+// two photos.
 
 import { test } from 'node:test';
 import assert from 'node:assert/strict';
@@ -36,6 +37,11 @@ test('distortion and light fall-off across the frame and in Compare', async () =
   assert.ok(text.includes(`${signed(want.falloff.corner_ev)} EV`), `corner ${signed(want.falloff.corner_ev)} EV in ${text}`);
   await sec.scrollIntoViewIfNeeded();
   await shot(sec, '40-geometry');
+  // The printable report (the print stylesheet) keeps the section.
+  await page.emulateMedia({ media: 'print' });
+  assert.ok(await sec.isVisible(), 'distortion and fall-off in the printed report');
+  await shot(page, '42-geometry-print', { fullPage: true });
+  await page.emulateMedia({ media: 'screen' });
 
   // Compare: one curve per photo in each figure.
   await page.click('#tab-compare');
