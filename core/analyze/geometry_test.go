@@ -8,6 +8,7 @@ import (
 	"sagitta/core/analyze"
 	"sagitta/core/chart"
 	"sagitta/core/sim/chartsim"
+	"sagitta/core/sim/demo"
 	"sagitta/core/sim/simcam"
 )
 
@@ -183,5 +184,35 @@ func TestDistortionFromEdges(t *testing.T) {
 	}
 	if len(ds.CautionCodes) == 0 || ds.CautionCodes[0] != "distortion-from-edges" {
 		t.Errorf("cautions %q, want distortion-from-edges first", ds.CautionCodes)
+	}
+}
+
+// TestDemoGeometry: the demo photo (an sRGB JPEG of the chart at a quarter
+// of the 24 MP size; invented lens in core/sim/demo) reads the distortion
+// and fall-off its simulated lens applies at the frame's corner: measured
+// 0.011 % and 0.006 EV off, README quotes 0.011 % and 0.006 EV, asserted
+// at 0.02 % and 0.012 EV.
+func TestDemoGeometry(t *testing.T) {
+	sc := demo.PortraitSmall(4)
+	data, err := sc.Photo()
+	if err != nil {
+		t.Fatal(err)
+	}
+	img, err := analyze.Run(context.Background(), "demo.jpg", data, analyze.Settings{}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ds, fo := img.Distortion, img.Falloff
+	if ds == nil || !ds.Measured || fo == nil || !fo.Measured {
+		t.Fatalf("distortion %+v, fall-off %+v: want both measured", ds, fo)
+	}
+	wantPct := sc.Distortion.DisplacementPct(1)
+	wantEV := math.Log2(sc.Falloff.Gain(0, 0, sc.W, sc.H))
+	t.Logf("demo: corner %+.3f %% (lens %+.3f), %+.3f EV (lens %+.3f)", ds.CornerPct, wantPct, fo.CornerEV, wantEV)
+	if e := math.Abs(ds.CornerPct - wantPct); e > 0.02 {
+		t.Errorf("distortion at the corner off by %.3f %%", e)
+	}
+	if e := math.Abs(fo.CornerEV - wantEV); e > 0.012 {
+		t.Errorf("fall-off at the corner off by %.3f EV", e)
 	}
 }
