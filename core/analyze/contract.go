@@ -672,8 +672,9 @@ func (s *Summary) Field() *field.Summary {
 // Distortion is the lens's radial distortion (core/distortion): the model
 // r_d = r_u (1 + k1 s^2 + k2 s^4), s the ideal image height over the
 // frame's half-diagonal, fitted with the chart's homography to the located
-// targets' centres. Without the chart (or with too few targets) Measured
-// is false and Reason and ReasonCode say why; the rest is then empty.
+// targets' centres (or, without the chart, to long straight edges).
+// When it is not measured Measured is false, Reason and ReasonCode say
+// why, the lists are absent and the numbers 0.
 type Distortion struct {
 	Measured   bool    `json:"measured"`
 	Source     string  `json:"source,omitempty"` // "chart", or "edges" (long straight edges, without the chart)
@@ -723,8 +724,9 @@ type DistortionTarget struct {
 
 // Falloff is the lens's light fall-off (core/falloff): blank paper sampled
 // between the chart's targets, its level relative to the centre in stops
-// (EV) as a curve against image height and a coarse map. Without the chart
-// Measured is false and Reason and ReasonCode say why.
+// (EV) as a curve against image height and a coarse map. When it is not
+// measured Measured is false, Reason and ReasonCode say why, the curve and
+// map are absent and the numbers 0 (Patches stay, if any were sampled).
 type Falloff struct {
 	Measured   bool   `json:"measured"`
 	Reason     string `json:"reason,omitempty"`
