@@ -5,6 +5,7 @@
 
 import { coreFigure } from './corefig.js';
 import { compareFringes } from './fringes.js';
+import { compareGeometry } from './geometry.js';
 import { explainBox } from './explain.js';
 import { PHOTO } from './colour.js';
 import { fmtFNumber, fmt } from './units.js';
@@ -108,6 +109,7 @@ export function renderCompare(root, state) {
   main.append(el('p', { class: 'hint' }, 'One colour per photo, as in the list of photos.'));
   const fringes = compareFringes(state.pool, ticked.map((p) => ({ label: labelOf(p), result: p.result })));
   if (fringes) main.append(fringes);
+  compareGeometry(main, ticked, state.pool, labelOf); // distortion and light fall-off (geometry.js)
 
   // The table of key numbers, for all targets or one orientation.
   const oSel = el('select', { id: 'compare-orient', 'aria-label': 'Orientations in the table' });

@@ -7,6 +7,7 @@
 import { plot, KIND_MARKER } from './plot.js';
 import { coreFigure } from './corefig.js';
 import { renderFringes } from './fringes.js';
+import { renderGeometry } from './geometry.js';
 import { explainBox, howComputed } from './explain.js';
 import { ORIENTATION } from './colour.js';
 import { fromCyPx, UNITS, NYQUIST_CY_PX } from './units.js';
@@ -65,6 +66,7 @@ export function renderSummary(box, r, units, pool, label) {
   }
   const fringes = renderFringes(r, pool, label, base); // colour fringes (fringes.js)
   if (fringes) box.append(fringes);
+  renderGeometry(box, r, pool, label); // distortion and light fall-off (geometry.js)
   box.append(explainBox(['sagittal', 'tangential', 'MTF50', '± 2 standard errors', 'smoothing']));
   box.append(howComputed([`Field curves: ${s.smoother}.`, s.map ? `MTF50 map: ${s.map.method}; the mean of sagittal and tangential.` : '']));
 }

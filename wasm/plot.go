@@ -33,7 +33,9 @@ type plotOptions struct {
 // (analyze.Image), id (a measurement id)}; "series": an aperture series
 // (series.Aperture, from sagittaSeries); "ca": {lateral_ca, corner_mm} (a
 // photo's colour fringes, analyze.LateralCA); "ca-compare": [{label,
-// lateral_ca, corner_mm}, ...].
+// lateral_ca, corner_mm}, ...]; "distortion", "falloff": one photo
+// {image} (analyze.Image: its size, pitch, centre and distortion or falloff
+// suffice) or a comparison {photos: [{label, distortion, falloff}, ...]}.
 func plotJS(args []js.Value) (any, error) {
 	if len(args) < 2 || args[0].Type() != js.TypeString || args[1].Type() != js.TypeString {
 		return nil, fmt.Errorf("sagittaPlot(kind, data, options): wrong arguments")
@@ -46,6 +48,7 @@ func plotJS(args []js.Value) (any, error) {
 	}
 	data := []byte(args[1].String())
 	var fig *plot.Figure
+	var err error
 	switch kind := args[0].String(); kind {
 	case "field", "astigmatism", "map":
 		var sj analyze.Summary
@@ -103,6 +106,11 @@ func plotJS(args []js.Value) (any, error) {
 			return nil, fmt.Errorf("plot series: %v", err)
 		}
 		fig = plot.ApertureSeries(&a)
+	case "distortion", "falloff":
+		fig, err = geometryPlot(kind, data, opt)
+		if err != nil {
+			return nil, err
+		}
 	case "target":
 		var in struct {
 			Image *analyze.Image `json:"image"`
@@ -126,7 +134,7 @@ func plotJS(args []js.Value) (any, error) {
 		}
 		fig = plot.Target(*t, plot.TargetOptions{LPMM: opt.LPMM})
 	default:
-		return nil, fmt.Errorf("plot: unknown kind %q (field, astigmatism, map, compare, series, target, ca or ca-compare)", kind)
+		return nil, fmt.Errorf("plot: unknown kind %q (field, astigmatism, map, compare, series, target, ca, ca-compare, distortion or falloff)", kind)
 	}
 	tab := fig.Table()
 	rows := make([]any, len(tab.Rows))
@@ -195,4 +203,37 @@ func jsStrings(s []string) []any {
 		out[i] = v
 	}
 	return out
+}
+
+// geometryPlot draws the distortion or light fall-off of one photo, or
+// their comparison across photos.
+func geometryPlot(kind string, data []byte, opt plotOptions) (*plot.Figure, error) {
+	var in struct {
+		Image  *analyze.Image `json:"image"`
+		Photos []struct {
+			Label      string              `json:"label"`
+			Distortion *analyze.Distortion `json:"distortion"`
+			Falloff    *analyze.Falloff    `json:"falloff"`
+		} `json:"photos"`
+	}
+	if err := json.Unmarshal(data, &in); err != nil {
+		return nil, fmt.Errorf("plot %s: %v", kind, err)
+	}
+	if in.Image != nil {
+		if kind == "distortion" {
+			return plot.Distortion(in.Image.Distortion, opt.Label), nil
+		}
+		return plot.Falloff(in.Image, opt.Label), nil
+	}
+	if in.Photos == nil {
+		return nil, fmt.Errorf("plot %s: the data must be {image} or {photos}", kind)
+	}
+	photos := make([]plot.GeometryPhoto, len(in.Photos))
+	for i, p := range in.Photos {
+		photos[i] = plot.GeometryPhoto{Label: p.Label, Distortion: p.Distortion, Falloff: p.Falloff}
+	}
+	if kind == "distortion" {
+		return plot.CompareDistortion(photos), nil
+	}
+	return plot.CompareFalloff(photos), nil
 }

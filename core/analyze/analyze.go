@@ -164,6 +164,7 @@ func Run(ctx context.Context, name string, data []byte, s Settings, progress Pro
 		return nil, err
 	}
 	recogniseChart(img, pose, chartNote, s) // tags measurements on Sagitta's chart (chart.go)
+	samplePaper(img, dec.Lum, pose)         // the chart's blank paper, for the fall-off (geometry.go)
 	base, _ := img.notes()
 	err = summarise(img, geo, base)
 	if errors.Is(err, errNoRecords) {

@@ -32,6 +32,13 @@ func TestNoChart(t *testing.T) {
 	if img.Chart != nil {
 		t.Errorf("a chart was recognised: %+v", img.Chart)
 	}
+	// Distortion and fall-off need the chart: not measured, with the reason's code.
+	if d := img.Distortion; d == nil || d.Measured || d.ReasonCode != "distortion-no-chart" {
+		t.Errorf("distortion %+v, want not measured (distortion-no-chart)", d)
+	}
+	if f := img.Falloff; f == nil || f.Measured || f.ReasonCode != "falloff-no-chart" {
+		t.Errorf("fall-off %+v, want not measured (falloff-no-chart)", f)
+	}
 	if len(img.Measurements) < 40 {
 		t.Errorf("%d measurements of 48 edges", len(img.Measurements))
 	}

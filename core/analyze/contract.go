@@ -78,6 +78,11 @@ type Image struct {
 	// LateralCA is the colour fringes across the frame, from where each
 	// edge lies in red, green and blue (fringes.go); absent for grey photos.
 	LateralCA *LateralCA `json:"lateral_ca,omitempty"`
+	// Distortion and Falloff are the lens's radial distortion and light
+	// fall-off, from Sagitta's chart (geometry.go); without the chart they
+	// say why they were not measured. Absent in results made before them.
+	Distortion *Distortion `json:"distortion,omitempty"`
+	Falloff    *Falloff    `json:"falloff,omitempty"`
 }
 
 // Measurement is one measured target (one edge, or one orientation of a
@@ -674,4 +679,104 @@ func (s *Summary) Field() *field.Summary {
 		out.Map = &m
 	}
 	return out
+}
+
+// Distortion is the lens's radial distortion (core/distortion): the model
+// r_d = r_u (1 + k1 s^2 + k2 s^4), s the ideal image height over the
+// frame's half-diagonal, fitted with the chart's homography to the located
+// targets' centres (or, without the chart, to long straight edges).
+// When it is not measured Measured is false, Reason and ReasonCode say
+// why, the lists are absent and the numbers 0.
+type Distortion struct {
+	Measured   bool    `json:"measured"`
+	Source     string  `json:"source,omitempty"` // "chart", or "edges" (long straight edges, without the chart)
+	Reason     string  `json:"reason,omitempty"`
+	ReasonCode string  `json:"reason_code,omitempty"` // core/note
+	K1         float64 `json:"k1,omitempty"`
+	K2         float64 `json:"k2,omitempty"`
+	// HalfDiagonalPx is the unit of the heights' fractions.
+	HalfDiagonalPx float64 `json:"half_diagonal_px,omitempty"`
+	// The curve, from the optical centre to the farthest corner: image
+	// height in mm and in fractions of the half-diagonal, and the radial
+	// displacement there in per cent of the ideal height (negative: barrel).
+	HeightMM        []float64 `json:"height_mm,omitempty"`
+	HeightFrac      []float64 `json:"height_frac,omitempty"`
+	DisplacementPct []float64 `json:"displacement_pct,omitempty"`
+	CornerPct       float64   `json:"corner_pct"`
+	LongEdgePct     float64   `json:"long_edge_pct"` // at the far end of the long axis
+	// Kind is "negligible", "barrel", "pincushion" or "moustache"; Text
+	// says it in words; Code is its note code.
+	Kind         string   `json:"kind,omitempty"`
+	Text         string   `json:"text,omitempty"`
+	Code         string   `json:"code,omitempty"`
+	ResidualPx   float64  `json:"residual_px"`     // rms distance of the targets from the model
+	Points       int      `json:"points"`          // targets (or edge pieces) used
+	Lines        int      `json:"lines,omitempty"` // long straight edges used (source "edges")
+	Cautions     []string `json:"cautions,omitempty"`
+	CautionCodes []string `json:"caution_codes,omitempty"` // aligned with Cautions (core/note)
+	// Targets are the located targets the fit used or dropped.
+	Targets []DistortionTarget `json:"targets,omitempty"`
+}
+
+// DistortionTarget is one chart target located for the distortion fit.
+type DistortionTarget struct {
+	Kind     string     `json:"kind"` // "square" (centre from its four edges), "mark" or "star"
+	TargetID string     `json:"target_id"`
+	XPx      float64    `json:"x_px"`
+	YPx      float64    `json:"y_px"`
+	ChartXY  [2]float64 `json:"chart_xy"` // designed centre, chart units
+	// HeightFrac and HeightMM are its ideal image height; DisplacementPct
+	// its own radial displacement (null near the centre).
+	HeightFrac      float64 `json:"height_frac"`
+	HeightMM        float64 `json:"height_mm"`
+	DisplacementPct Number  `json:"displacement_pct"`
+	ResidualPx      float64 `json:"residual_px"`
+	Used            bool    `json:"used"`
+}
+
+// Falloff is the lens's light fall-off (core/falloff): blank paper sampled
+// between the chart's targets, its level relative to the centre in stops
+// (EV) as a curve against image height and a coarse map. When it is not
+// measured Measured is false, Reason and ReasonCode say why, the curve and
+// map are absent and the numbers 0 (Patches stay, if any were sampled).
+type Falloff struct {
+	Measured   bool   `json:"measured"`
+	Reason     string `json:"reason,omitempty"`
+	ReasonCode string `json:"reason_code,omitempty"` // core/note
+	// The curve (even polynomial in the height): image height in mm and
+	// in fractions of the half-diagonal, EV relative to the centre.
+	HeightMM     []float64   `json:"height_mm,omitempty"`
+	HeightFrac   []float64   `json:"height_frac,omitempty"`
+	EV           []float64   `json:"ev,omitempty"`
+	CornerEV     float64     `json:"corner_ev"`
+	LongEdgeEV   float64     `json:"long_edge_ev"`
+	ResidualEV   float64     `json:"residual_ev"` // rms of the patches about the curve
+	Points       int         `json:"points"`      // patches used
+	UnevenEV     float64     `json:"uneven_ev"`   // largest left-right or top-bottom difference at equal heights
+	Map          *FalloffMap `json:"map,omitempty"`
+	Cautions     []string    `json:"cautions,omitempty"`
+	CautionCodes []string    `json:"caution_codes,omitempty"` // aligned with Cautions (core/note)
+	// Patches are the paper patches sampled: centre, mean linear level
+	// (the measurement itself), height and EV relative to the centre.
+	Patches []FalloffPatch `json:"patches,omitempty"`
+}
+
+// FalloffMap is the fall-off over the frame: Cols x Rows cells, row by row
+// from the top left, each the median EV of its patches (null if none).
+type FalloffMap struct {
+	Cols    int      `json:"cols"`
+	Rows    int      `json:"rows"`
+	CellWPx float64  `json:"cell_w_px"`
+	CellHPx float64  `json:"cell_h_px"`
+	EV      []Number `json:"ev"`
+}
+
+// FalloffPatch is one patch of blank paper.
+type FalloffPatch struct {
+	XPx        float64 `json:"x_px"`
+	YPx        float64 `json:"y_px"`
+	Level      float64 `json:"level"` // mean linear level
+	HeightFrac float64 `json:"height_frac"`
+	HeightMM   float64 `json:"height_mm"`
+	EV         Number  `json:"ev"` // null when clipped
 }

@@ -57,6 +57,7 @@ func summarise(img *Image, geo field.Geometry, base []note.Note) error {
 			return err
 		}
 	}
+	summariseGeometry(img, geo) // distortion and fall-off (geometry.go)
 	img.Exposure = exposureAdvice(img)
 	img.Warnings, img.WarningCodes = note.Split(append(slices.Clip(base), derivedWarnings(img)...))
 	sum, err := field.Summarise(geo, fieldPoints(img.Measurements), img.FreqsLPMM)

@@ -215,3 +215,59 @@ const (
 	// precisely.
 	ChromaSubsampled Code = "chroma-subsampled"
 )
+
+// Distortion, in Image.distortion: the verdict ("code"), why it was not
+// measured ("reason_code") and its cautions ("caution_codes").
+const (
+	// DistortionNegligible: the largest radial displacement from the centre
+	// to the frame's corner is below the visibility threshold.
+	DistortionNegligible Code = "distortion-negligible"
+	// DistortionBarrel: straight lines bow outwards (the image is
+	// compressed towards the corners).
+	DistortionBarrel Code = "distortion-barrel"
+	// DistortionPincushion: straight lines bow inwards (the image is
+	// stretched towards the corners).
+	DistortionPincushion Code = "distortion-pincushion"
+	// DistortionMoustache: barrel over part of the frame, pincushion over
+	// another (the displacement changes sign).
+	DistortionMoustache Code = "distortion-moustache"
+	// DistortionNoChart: the photo does not show Sagitta's chart, and too
+	// few long straight edges say how lines bend.
+	DistortionNoChart Code = "distortion-no-chart"
+	// DistortionFewPoints: the chart was recognised but too few of its
+	// targets were located to fit the distortion.
+	DistortionFewPoints Code = "distortion-few-points"
+	// DistortionSetup: the chart's set-up checks warn (turned, tilted, not
+	// filling the frame): the fitted distortion is unreliable.
+	DistortionSetup Code = "distortion-setup"
+	// DistortionScatter: the targets scatter about the fitted model more
+	// than a flat chart gives (a curled or wavy sheet).
+	DistortionScatter Code = "distortion-scatter"
+	// DistortionShortReach: the located targets stop well short of the
+	// frame's corner; the corner value is extrapolated.
+	DistortionShortReach Code = "distortion-short-reach"
+	// DistortionFromEdges: measured from the bow of straight edges, not
+	// from the chart: less precise, and only the shape of the curve.
+	DistortionFromEdges Code = "distortion-from-edges"
+)
+
+// Light fall-off, in Image.falloff: why it was not measured
+// ("reason_code") and its cautions ("caution_codes").
+const (
+	// FalloffNoChart: the photo does not show Sagitta's chart, so no blank
+	// paper is known to sample.
+	FalloffNoChart Code = "falloff-no-chart"
+	// FalloffFewPatches: too few blank patches of the chart were inside
+	// the frame and unclipped.
+	FalloffFewPatches Code = "falloff-few-patches"
+	// FalloffLighting: the caution that uneven lighting of the chart looks
+	// the same as the lens's fall-off.
+	FalloffLighting Code = "falloff-lighting"
+	// FalloffUneven: the two halves of the frame differ at equal heights
+	// by more than the lens alone explains: the lighting is probably
+	// uneven.
+	FalloffUneven Code = "falloff-uneven"
+	// FalloffClipped: some patches of paper reach the file's limit and
+	// were left out; the fall-off near the centre may be understated.
+	FalloffClipped Code = "falloff-clipped"
+)

@@ -262,6 +262,7 @@ func writeText(w io.Writer, res analyze.Result) error {
 				fmt.Fprintf(w, "  %s\n", strings.Join(notes, "; "))
 			}
 		}
+		writeGeometryText(w, img)
 		for _, warn := range img.Warnings {
 			fmt.Fprintln(w, "note: "+warn)
 		}

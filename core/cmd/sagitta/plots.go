@@ -18,8 +18,10 @@ const plotScale = 2
 // creating it if needed: <name>-field-curves, <name>-mtf50-map,
 // <name>-astigmatism, <name>-target-centre and <name>-target-corner (the
 // measured targets nearest to and farthest from the optical centre),
-// <name>-colour-fringes for a colour photo, and, for two or more photos,
-// field-curves-compared (and colour-fringes-compared when two have colour).
+// <name>-colour-fringes for a colour photo, <name>-distortion and
+// <name>-light-fall-off where they were measured, and, for two or more
+// photos, field-curves-compared (and colour-fringes-compared,
+// distortion-compared, light-fall-off-compared when two photos have them).
 func writePlots(dir string, res analyze.Result) error {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fmt.Errorf("cannot create the plot folder: %v", unwrapPath(err))
@@ -27,6 +29,7 @@ func writePlots(dir string, res analyze.Result) error {
 	used := map[string]bool{}
 	var photos []plot.Photo
 	var fringes []plot.CAPhoto
+	var geo []plot.GeometryPhoto
 	for _, img := range res.Images {
 		if img.Summary == nil {
 			continue
@@ -51,6 +54,10 @@ func writePlots(dir string, res analyze.Result) error {
 			figs = append(figs, namedFigure{"colour-fringes", plot.LateralCA(ca, img.CornerMM, plot.FieldOptions{Label: img.File, Band: true})})
 			fringes = append(fringes, plot.CAPhoto{Label: img.File, LateralCA: ca, CornerMM: img.CornerMM})
 		}
+		figs = append(figs, geometryFigures(img)...)
+		if g, ok := geometryPhoto(img); ok {
+			geo = append(geo, g)
+		}
 		if img.ToneFit != nil {
 			figs = append(figs, namedFigure{"tone", plot.ToneCurve(img.ToneFit, img.File)})
 		}
@@ -62,6 +69,14 @@ func writePlots(dir string, res analyze.Result) error {
 	}
 	if len(fringes) > 1 {
 		if err := writeFigure(dir, plotName("colour-fringes-compared", used), plot.CompareCA(fringes, plot.CompareOptions{Band: true})); err != nil {
+			return err
+		}
+	}
+	if len(geo) > 1 {
+		if err := writeFigure(dir, plotName("distortion-compared", used), plot.CompareDistortion(geo)); err != nil {
+			return err
+		}
+		if err := writeFigure(dir, plotName("light-fall-off-compared", used), plot.CompareFalloff(geo)); err != nil {
 			return err
 		}
 	}

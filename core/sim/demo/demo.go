@@ -8,11 +8,15 @@
 // The scenario: a 24 MP full-frame body (6000 x 4000 px, 6 um pitch,
 // 36 x 24 mm) with an 85 mm f/1.8 portrait lens at f/2.8. The lens is
 // slightly astigmatic (its PSF grows faster along the radius than across
-// it, so tangential detail softens first towards the corners) and slightly
-// decentred (one side of the frame is softer than the other). Its photos of
-// the chart (Photo, RawPhoto) also show some lateral chromatic aberration:
-// red imaged 0.03 % larger and blue 0.04 % smaller than green, about 1.1 px
-// and 1.4 px at the corner of the 24 MP frame.
+// it, so tangential detail softens first towards the corners), slightly
+// decentred (one side of the frame is softer than the other), bends
+// straight lines a little outwards towards the corners (mild barrel
+// distortion, -0.8 % at the corner) and darkens the corners by about two
+// thirds of a stop at f/2.8 (the cosine-fourth law and a little more from
+// the barrel). Its photos of the chart (Photo, RawPhoto) also show some
+// lateral chromatic aberration: red imaged 0.03 % larger and blue 0.04 %
+// smaller than green, about 1.1 px and 1.4 px at the corner of the 24 MP
+// frame.
 package demo
 
 import (
@@ -40,6 +44,9 @@ type Scenario struct {
 	// photos: red, green and blue magnifications differ by these fractions
 	// (simcam.Camera.ChannelMag).
 	ChannelMag [3]float64
+	// Distortion and Falloff bend and shade the frame (simcam).
+	Distortion simcam.Distortion
+	Falloff    simcam.Falloff
 }
 
 // Portrait returns the built-in demo scenario at the full 24 MP size.
@@ -71,6 +78,11 @@ func portrait(reduce int) Scenario {
 		FullWellE: 30000, ReadNoiseE: 4, Seed: 85,
 		JPEGQuality: 92,
 		ChannelMag:  [3]float64{0.0003, 0, -0.0004},
+		Distortion:  simcam.Distortion{K1: -0.008},
+		// The exit pupil about the focal length from the sensor (85 mm:
+		// 14 degrees at the corner, -0.18 EV) and half a stop more from
+		// the barrel at the corner.
+		Falloff: simcam.Falloff{Cos4FocalPx: 85000 / pitch, CornerEV: 0.5},
 		Tags: exif.Tags{
 			Make: "Sagitta (simulated)", Model: "Simulated 24 MP body",
 			LensModel: "Simulated 85 mm f/1.8 portrait lens",
@@ -133,13 +145,16 @@ func clear(a float64) bool {
 	return true
 }
 
-// Camera returns the simulated camera for the scenario.
+// Camera returns the simulated camera for the scenario, with the lens's
+// fall-off (its distortion is added for the chart's photos: Photo,
+// RawPhoto).
 func (s Scenario) Camera() *simcam.Camera {
 	return &simcam.Camera{
 		W: s.W, H: s.H, Lens: s.Lens,
 		FullWellE: s.FullWellE, ReadNoiseE: s.ReadNoiseE, Seed: s.Seed,
 		Encoding: simcam.SRGB8, Colour: true, JPEGQuality: s.JPEGQuality,
 		ExifAPP1: exif.Encode(s.Tags),
+		Falloff:  &s.Falloff,
 	}
 }
 
@@ -168,13 +183,15 @@ func (s Scenario) Photo() ([]byte, error) {
 	return s.chartCamera().Encode(sc)
 }
 
-// chartCamera is the scenario's camera with its lens's lateral chromatic
-// aberration, for the photos of the chart (the sheet of squares keeps the
-// camera without it: its tests compare the luminance's MTF with the
-// simulation's, which colour fringes would soften).
+// chartCamera is the camera of the chart's photos: Camera with the lens's
+// lateral chromatic aberration and distortion. The plain sheet of squares
+// (SquaresPhoto) keeps the camera without them: its tests compare the
+// luminance's MTF with the simulation's, which colour fringes would soften,
+// and match each measured edge with the sheet's straight sides.
 func (s Scenario) chartCamera() *simcam.Camera {
 	c := s.Camera()
 	c.ChannelMag = s.ChannelMag
+	c.Distortion = &s.Distortion
 	return c
 }
 

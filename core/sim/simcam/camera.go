@@ -67,6 +67,10 @@ type Camera struct {
 	// noise.
 	ChannelMag    [3]float64
 	ChannelCentre [2]float64
+	// Distortion and Falloff, if set, bend the image radially and darken
+	// it away from the optical centre (lensgeom.go).
+	Distortion *Distortion
+	Falloff    *Falloff
 }
 
 // MaxPixels is the largest frame (W * H) a Camera renders.
@@ -79,6 +83,9 @@ func (c *Camera) Validate() error {
 		return invalidf("frame size %dx%d out of range (1 .. %d pixels)", c.W, c.H, MaxPixels)
 	}
 	if err := validLens(c.Lens); err != nil {
+		return err
+	}
+	if err := c.validGeometry(); err != nil {
 		return err
 	}
 	if !finite(c.FullWellE) || c.FullWellE < 0 || !finite(c.ReadNoiseE) || c.ReadNoiseE < 0 {
@@ -193,6 +200,9 @@ func (c *Camera) Render(s Scene) (*plane.Plane, error) {
 	if err := s.Validate(); err != nil {
 		return nil, err
 	}
+	if c.Distortion != nil {
+		s = c.Distortion.distort(s, c.W, c.H)
+	}
 	o := newOptics(c.lens(), c.W, c.H)
 	p := plane.New(c.W, c.H)
 	newRenderer(c.W, c.H, s, o).renderPolygons(p)
@@ -201,6 +211,9 @@ func (c *Camera) Render(s Scene) (*plane.Plane, error) {
 	}
 	for _, g := range s.Gratings {
 		addPattern(p, c.lens(), s.Background, gratingPattern(g))
+	}
+	if c.Falloff != nil {
+		c.Falloff.shade(p)
 	}
 	return p, nil
 }

@@ -22,6 +22,11 @@
 // [i, i+1) x [j, j+1); angles in degrees from +x towards +y; frequencies in
 // cycles/pixel.
 //
+// Camera.Distortion bends the scene radially before it is rendered (its
+// vertices mapped through the Brown model) and Camera.Falloff darkens the
+// rendered image away from the optical centre (cosine-fourth law and an
+// extra vignette); see lensgeom.go.
+//
 // # Rendering regimes
 //
 // Polygons are rendered pixel by pixel, each pixel in one of three regimes:
