@@ -182,11 +182,13 @@ func channelMTF(name string, m *edge.Measurement, err error, nyq float64) Channe
 	return ch
 }
 
-// rawColourOf locates the red and blue sites' edges of a mosaic relative
-// to green's fit g (the record's own measurement).
+// rawColourOf locates the red, green and blue sites' edges of a mosaic
+// along green's fit g (the record's own measurement), each by the same
+// area rule, so that what biases the rule alike in every colour (the
+// shading of fall-off across the edge's window) cancels in the differences.
 func rawColourOf(ri *raw.Image, g *edge.Measurement) *ChannelEdge {
 	var off, se [3]float64
-	for _, c := range []int{0, 2} {
+	for c := range 3 {
 		sites := channelSites(ri.Pattern, c)
 		o, e, err := g.ChannelOffset(ri.Mosaic, 0, 0, sites.Keep)
 		if err != nil {
@@ -194,7 +196,10 @@ func rawColourOf(ri *raw.Image, g *edge.Measurement) *ChannelEdge {
 		}
 		off[c], se[c] = o, e
 	}
-	return &ChannelEdge{RMinusGPx: off[0], BMinusGPx: off[2], RMinusGSE: se[0], BMinusGSE: se[2]}
+	return &ChannelEdge{
+		RMinusGPx: off[0] - off[1], BMinusGPx: off[2] - off[1],
+		RMinusGSE: math.Hypot(se[0], se[1]), BMinusGSE: math.Hypot(se[2], se[1]),
+	}
 }
 
 // regionRect is the pixel rectangle holding region r, with a margin of

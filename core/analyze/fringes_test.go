@@ -30,6 +30,7 @@ func caPhoto(t *testing.T, reduce int, mag [3]float64, quality int, s Settings) 
 	cam := sc.Camera()
 	cam.JPEGQuality = quality
 	cam.ChannelMag = mag
+	cam.Falloff = nil // lateral colour alone: the corners keep their light (and their noise)
 	data, err := cam.Encode(sc.Sheet())
 	if err != nil {
 		t.Fatal(err)
@@ -211,7 +212,8 @@ func TestLateralCAChartJPEG(t *testing.T) {
 // 1000 px: the red and blue sites' edges located against green's fit on
 // the mosaic give the displacement (truth: the difference of the
 // magnifications times the height in px). README quotes the curves within
-// 0.0086 px; the limit is about twice that.
+// 0.0087 px; the limit is about twice that. The truth includes the demo
+// lens's barrel distortion, applied after the colours' magnifications.
 func TestLateralCARaw(t *testing.T) {
 	nativeOnlyWhenShort(t)
 	sc := demo.PortraitSmall(4)
@@ -235,11 +237,31 @@ func TestLateralCARaw(t *testing.T) {
 		}
 		worst := 0.0
 		for i, h := range c.HeightMM {
-			worst = math.Max(worst, math.Abs(c.Px[i]-m*h*pxPerMM))
+			worst = math.Max(worst, math.Abs(c.Px[i]-distortedCA(sc, m, h*pxPerMM)))
 		}
-		t.Logf("raw %s: %d edges, curve within %.4f px; largest %.3f px at %.1f mm (truth %.3f)", c.Pair, c.Used, worst, c.MaxPx, c.MaxAtMM, m*c.MaxAtMM*pxPerMM)
+		t.Logf("raw %s: %d edges, curve within %.4f px; largest %.3f px at %.1f mm (truth %.3f)", c.Pair, c.Used, worst, c.MaxPx, c.MaxAtMM, distortedCA(sc, m, c.MaxAtMM*pxPerMM))
 		if worst > 0.017 {
 			t.Errorf("raw %s: curve off by %.4f px, want within 0.017", c.Pair, worst)
 		}
 	}
+}
+
+// distortedCA is the displacement along the radius, px, at hPx px from the
+// frame's centre of a colour imaged with magnification 1+m before the
+// scenario's radial distortion r(1 + k1 s^2 + k2 s^4) (s: r over the
+// half-diagonal): plain geometry, D(D^-1(h)(1+m)) - h.
+func distortedCA(sc demo.Scenario, m, hPx float64) float64 {
+	hd2 := (float64(sc.W)*float64(sc.W) + float64(sc.H)*float64(sc.H)) / 4
+	d := func(r float64) float64 {
+		s2 := r * r / hd2
+		return r * (1 + sc.Distortion.K1*s2 + sc.Distortion.K2*s2*s2)
+	}
+	if hPx == 0 {
+		return 0
+	}
+	r := hPx
+	for range 50 { // fixed point: r = h / (1 + k1 s^2 + k2 s^4), a contraction for mild distortion
+		r = hPx * r / d(r)
+	}
+	return d(r*(1+m)) - hPx
 }
