@@ -52,6 +52,10 @@ const (
 	SetupTilted Code = "setup-tilted"
 	// SetupOffCentre: the chart's centre is away from the frame's centre.
 	SetupOffCentre Code = "setup-off-centre"
+	// SetupSheetsMisaligned: two neighbouring sheets of a chart across
+	// sheets are hung apart, overlapping, shifted or turned against each
+	// other by more than the seam limits (core/chart, photo_tiles.go).
+	SetupSheetsMisaligned Code = "setup-sheets-misaligned"
 )
 
 // Analysis warnings, in Image.warnings.
