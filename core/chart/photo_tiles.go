@@ -24,7 +24,18 @@ import (
 //  3. the homography of the assembled chart is fitted to all marks so
 //     paired (FitHomography); the pairing is repeated through it, and
 //     each sheet's own homography is fitted to that sheet's marks (four:
-//     a homography; three: an affine map; fewer: the assembled chart's).
+//     a homography; three: an affine map; fewer: the assembled chart's);
+//  4. the sheets are rigid pieces of one plane, the wall: each sheet's
+//     marks are the wall's homography after the sheet's own turn and shift
+//     on the wall. The two are found in turn (settle): each sheet's turn
+//     and shift that best carry its designed marks onto where the wall's
+//     homography puts the found ones (the least-squares rotation of
+//     Procrustes analysis: J. C. Gower and G. B. Dijksterhuis,
+//     Procrustes Problems, 2004, ch. 4), then the wall's homography fitted
+//     to the marks so moved, five times; the turns and shifts are kept at
+//     zero mean, so the wall's homography is the camera's view of the
+//     assembled chart as a whole and the set-up checks read it without the
+//     sheets' misalignment.
 //
 // The assembled chart's homography carries the sheets' misalignment in its
 // residuals; each sheet's own maps its targets. A point on sheet s at chart
@@ -206,11 +217,95 @@ func recogniseTiles(p *plane.Plane, code, n int, found []FoundMark) (*Pose, note
 		}
 		pose.Sheets[s] = sp
 	}
+	pose.settle(use)
 	if !pose.sizesAgree() {
 		return nil, note.New(note.ChartMarksDisagree, "found chart marks that do not fit together: the photo may show two charts, or a mark is damaged")
 	}
 	pose.W, pose.Hpx = p.W, p.H
 	return pose, note.Note{}
+}
+
+// settle fits the wall's homography and the sheets' turns and shifts on
+// the wall in turn (step 4 above), and sets H and Inv to the wall's.
+func (ps *Pose) settle(use []FoundMark) {
+	d := ps.Design
+	type rigid struct{ turn, tx, ty float64 }
+	moves := make([]rigid, len(d.Sheets))
+	centre := func(s int) (float64, float64) {
+		sh := d.Sheets[s]
+		return (sh.X0 + sh.X1) / 2, (sh.Y0 + sh.Y1) / 2
+	}
+	move := func(s int, x, y float64) (float64, float64) {
+		cx, cy := centre(s)
+		sn, cs := math.Sincos(moves[s].turn)
+		return cs*(x-cx) - sn*(y-cy) + cx + moves[s].tx, sn*(x-cx) + cs*(y-cy) + cy + moves[s].ty
+	}
+	for range 5 {
+		// Each sheet's turn and shift, given the wall's homography.
+		var mt, mx, my float64
+		var k int
+		for s := range d.Sheets {
+			cx, cy := centre(s)
+			var src, dst [][2]float64
+			for _, m := range use {
+				if m.Sheet == s {
+					dm := d.markOf(m)
+					u, v := ps.Inv.Apply(m.XPx, m.YPx)
+					src = append(src, [2]float64{dm.X - cx, dm.Y - cy})
+					dst = append(dst, [2]float64{u - cx, v - cy})
+				}
+			}
+			if len(src) < 2 {
+				moves[s] = rigid{}
+				continue
+			}
+			var sa, sb [2]float64
+			for i := range src {
+				sa[0], sa[1] = sa[0]+src[i][0], sa[1]+src[i][1]
+				sb[0], sb[1] = sb[0]+dst[i][0], sb[1]+dst[i][1]
+			}
+			nn := float64(len(src))
+			sa[0], sa[1], sb[0], sb[1] = sa[0]/nn, sa[1]/nn, sb[0]/nn, sb[1]/nn
+			var cross, dot float64
+			for i := range src {
+				ax, ay := src[i][0]-sa[0], src[i][1]-sa[1]
+				bx, by := dst[i][0]-sb[0], dst[i][1]-sb[1]
+				cross += ax*by - ay*bx
+				dot += ax*bx + ay*by
+			}
+			th := math.Atan2(cross, dot)
+			sn, cs := math.Sincos(th)
+			moves[s] = rigid{th, sb[0] - (cs*sa[0] - sn*sa[1]), sb[1] - (sn*sa[0] + cs*sa[1])}
+			mt, mx, my, k = mt+th, mx+moves[s].tx, my+moves[s].ty, k+1
+		}
+		if k == 0 {
+			return
+		}
+		for s := range moves {
+			if moves[s] != (rigid{}) {
+				moves[s].turn -= mt / float64(k)
+				moves[s].tx -= mx / float64(k)
+				moves[s].ty -= my / float64(k)
+			}
+		}
+		// The wall's homography, given the sheets' moves.
+		src := make([][2]float64, len(use))
+		dst := make([][2]float64, len(use))
+		for i, m := range use {
+			dm := d.markOf(m)
+			x, y := move(m.Sheet, dm.X, dm.Y)
+			src[i], dst[i] = [2]float64{x, y}, [2]float64{m.XPx, m.YPx}
+		}
+		h, err := FitHomography(src, dst)
+		if err != nil {
+			return
+		}
+		inv, ok := h.Inverse()
+		if !ok {
+			return
+		}
+		ps.H, ps.Inv = h, inv
+	}
 }
 
 // uniqueMarks keeps one found mark per designed mark (sheet and index): the
@@ -259,6 +354,16 @@ func (ps *Pose) Placed(x, y float64) (float64, float64) {
 		return x, y
 	}
 	return ps.Inv.Apply(sp.H.Apply(x, y))
+}
+
+// At returns the homography (and its inverse) that maps the design's chart
+// units near (x, y) to image px: its sheet's own on a chart across sheets,
+// the chart's otherwise.
+func (ps *Pose) At(x, y float64) (h, inv Homography) {
+	if sp := ps.sheetOf(x, y); sp != nil {
+		return sp.H, sp.Inv
+	}
+	return ps.H, ps.Inv
 }
 
 // ImageXY returns where the design's point (x, y) chart units appears in
