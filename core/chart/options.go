@@ -47,6 +47,10 @@ type Options struct {
 	// larger chart drawn across that many sheets of Paper, to be cut and
 	// assembled on a wall (tiling.go, sheets.go).
 	Sheets string `json:"sheets,omitempty"`
+	// Sheet, for a chart across sheets, asks Render for one sheet only:
+	// 1 to N x N in reading order (the sheet "row-column" is (row - 1) N +
+	// column); 0 means every sheet.
+	Sheet int `json:"sheet,omitempty"`
 }
 
 // Paper sizes in millimetres, portrait (width <= height). ISO 216 for the A

@@ -25,11 +25,17 @@ const (
 //
 // A chart across several sheets (Options.Sheets) is one PDF with a page per
 // sheet, or for SVG and PNG a ZIP archive holding one file per sheet, named
-// as SheetFiles names them.
+// as SheetFiles names them; Options.Sheet asks for one sheet's file.
 func Render(opt Options, format string) ([]byte, error) {
 	ls, err := NewSheets(opt)
 	if err != nil {
 		return nil, err
+	}
+	if opt.Sheet != 0 {
+		if opt.Sheet < 0 || opt.Sheet > len(ls) {
+			return nil, optErr("there is no sheet %d: the chart has %d", opt.Sheet, len(ls))
+		}
+		return ls[opt.Sheet-1].Render(format)
 	}
 	if len(ls) == 1 {
 		return ls[0].Render(format)

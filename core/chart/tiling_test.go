@@ -119,9 +119,13 @@ func TestSheetsRender(t *testing.T) {
 	if len(files) != 4 || files[1].Name != "chart-1-2.svg" {
 		t.Errorf("files %d, second named %q", len(files), files[1].Name)
 	}
-	for _, bad := range []Options{{Sheets: "4x4"}, {Sheets: "3x3", Aspect: "1:1"}} {
+	one2, err := Render(Options{Sheets: "2x2", Sheet: 2}, "svg")
+	if err != nil || !bytes.Equal(one2, files[1].Bytes) {
+		t.Errorf("sheet 2 alone: %v, %d bytes, want chart-1-2.svg's %d", err, len(one2), len(files[1].Bytes))
+	}
+	for _, bad := range []Options{{Sheets: "4x4"}, {Sheets: "3x3", Aspect: "1:1"}, {Sheets: "2x2", Sheet: 5}} {
 		var oe OptionError
-		if _, err := NewSheets(bad); !errors.As(err, &oe) {
+		if _, err := Render(bad, "svg"); !errors.As(err, &oe) {
 			t.Errorf("%+v: got %v, want an OptionError", bad, err)
 		}
 	}
