@@ -84,7 +84,9 @@ func TestSheetsRender(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	ls, err := NewSheets(Options{Sheets: "2x2"})
+	// 150 dpi keeps the sine patterns' rasters small; the pages and the
+	// pieces' sizes do not depend on it.
+	ls, err := NewSheets(Options{Sheets: "2x2", DPI: 150})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -105,7 +107,7 @@ func TestSheetsRender(t *testing.T) {
 			t.Errorf("sheet %s: piece %v leaves the printable area", l.Piece.Name(), l.PieceMM)
 		}
 	}
-	b, err := Render(Options{Sheets: "2x2"}, "pdf")
+	b, err := Render(Options{Sheets: "2x2", DPI: 150}, "pdf")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -119,7 +121,7 @@ func TestSheetsRender(t *testing.T) {
 	if len(files) != 4 || files[1].Name != "chart-1-2.svg" {
 		t.Errorf("files %d, second named %q", len(files), files[1].Name)
 	}
-	one2, err := Render(Options{Sheets: "2x2", Sheet: 2}, "svg")
+	one2, err := Render(Options{Sheets: "2x2", DPI: 150, Sheet: 2}, "svg")
 	if err != nil || !bytes.Equal(one2, files[1].Bytes) {
 		t.Errorf("sheet 2 alone: %v, %d bytes, want chart-1-2.svg's %d", err, len(one2), len(files[1].Bytes))
 	}

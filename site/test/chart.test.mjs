@@ -152,3 +152,31 @@ test('the chart across 2 x 2 sheets: a preview of each sheet, a PDF of four page
   assert.deepEqual(errors, []);
   await context.close();
 });
+
+test('a photo of the chart across 2 x 2 sheets: each sheet placed, the joins reported as the tool reports them', async () => {
+  const photo = testPhoto('on-sheets.jpg', ['-chart', '-sheets', '-w', '3000', '-h', '2000']);
+  const context = await env.browser.newContext({ viewport: { width: 1400, height: 1000 } });
+  const page = await context.newPage();
+  const errors = [];
+  page.on('pageerror', (e) => errors.push(e.message));
+  await page.goto(env.server.url);
+  await waitEngine(page);
+  await page.setInputFiles('#file-input', photo);
+  assert.equal(await waitStatus(page, ['done', 'error']), 'done');
+  const got = await page.evaluate(() => window.sagitta.results);
+  const want = JSON.parse(cli(['--json'], [photo]));
+  assert.equal(diff(got, want, 1e-6), '');
+  const c = got.images[0].chart;
+  assert.equal(c.code, 'S1-3:2-L-2x2');
+  assert.equal(c.sheets.length, 4);
+  assert.equal(c.edges_identified, c.edges_expected);
+  const box = await page.textContent('.chart-found');
+  assert.match(box, /4 sheets, 4 placed by their own marks/);
+  for (const sm of c.seams) assert.ok(box.includes(`Sheets ${sm.sheet_a} and ${sm.sheet_b}`), `seam ${sm.sheet_a}|${sm.sheet_b} not shown`);
+  assert.equal(await page.locator('.setup-warnings li').count(), c.setup.warnings.length);
+  assert.ok(c.setup.warning_codes.includes('setup-sheets-misaligned'));
+  await page.waitForTimeout(300);
+  await shot(page.locator('.chart-found'), '35-photo-of-the-sheets');
+  assert.deepEqual(errors, []);
+  await context.close();
+});
