@@ -16,9 +16,10 @@ import (
 // simulation's own placement of every target:
 //
 //   - every target (square, star, grating, grey steps) is found at its true
-//     image position with its id and its sheet;
+//     image position, within 0.1 mm on the chart, with its id and its sheet;
 //   - each target's position on the assembled chart (Pose.Placed) agrees
-//     with where its sheet was hung, within 0.5 mm, up to one homography
+//     with where its sheet was hung, within 0.1 mm (the issue asks 0.5 mm;
+//     README quotes 0.06 mm), up to one homography
 //     (the assembled chart's units are the best fit of all marks, which
 //     the misalignment itself moves); the assembled chart's homography
 //     alone misses by more, so the sheets' own poses are what places them;
@@ -125,8 +126,10 @@ func TestRecogniseTiles(t *testing.T) {
 			placed, alone := resid(got), resid(single)
 			t.Logf("%d targets: image positions within %.3f px (%.3f mm), positions on the assembled chart within %.3f mm (the assembled chart's homography alone: %.2f mm)",
 				len(ts), worstPx, worstPx/pxPerMM, placed, alone)
-			if worstPx/pxPerMM > 0.5 || placed > 0.5 {
-				t.Errorf("targets placed within %.3f mm in the image and %.3f mm on the assembled chart, want 0.5 mm", worstPx/pxPerMM, placed)
+			// The issue asks 0.5 mm; README quotes 0.06 mm (the 3 x 3 case's
+			// 0.054), asserted here at 0.1 mm.
+			if worstPx/pxPerMM > 0.1 || placed > 0.1 {
+				t.Errorf("targets placed within %.3f mm in the image and %.3f mm on the assembled chart, want 0.1 mm", worstPx/pxPerMM, placed)
 			}
 			if alone <= 0.5 {
 				t.Errorf("the assembled chart's homography alone places targets within %.3f mm: the sheets' misalignment is too small to test", alone)

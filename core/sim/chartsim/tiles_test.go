@@ -19,7 +19,7 @@ import (
 // analyses the photo with analyze.Run: the chart is recognised as the 2 x 2
 // chart, every square edge in the photo is measured and tied to its
 // target, and each edge record lies on the true image of its square's edge
-// (within 1 px) and names the sheet the simulation hung it on; the seams
+// (within 0.04 px; README quotes 0.02) and names the sheet the simulation hung it on; the seams
 // are reported, and the misaligned ones warned about with their code, and
 // nothing else of the set-up (the camera is square to the wall).
 func TestTiledEndToEnd(t *testing.T) {
@@ -82,8 +82,9 @@ func TestTiledEndToEnd(t *testing.T) {
 		n++
 	}
 	t.Logf("%d edge records within %.2f px of their edges' true images", n, worst)
-	if worst > 1 {
-		t.Errorf("an edge record lies %.2f px from its edge's true image, want within 1 px", worst)
+	// README quotes 0.02 px (measured 0.01), asserted at 0.04 px.
+	if worst > 0.04 {
+		t.Errorf("an edge record lies %.3f px from its edge's true image, want within 0.04 px", worst)
 	}
 	// The camera is square to the wall: the sheets' misalignment must not
 	// read as a keystone or a turn of the whole chart.
