@@ -103,6 +103,19 @@ func TestTiledEndToEnd(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	// Resummarised from its JSON (as the page does for new settings), the
+	// result is the same: the sheets and seams survive the round trip.
+	var back analyze.Image
+	if err := json.Unmarshal(js, &back); err != nil {
+		t.Fatal(err)
+	}
+	again, err := analyze.Resummarise(&back, analyze.Settings{PitchUM: 24, Tone: "linear", ChartMM: shortMM})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if js2, _ := json.Marshal(again); string(js2) != string(js) {
+		t.Errorf("resummarised with the same settings, the JSON differs")
+	}
 	for _, key := range []string{`"sheets":[{"sheet":"1-1"`, `"seams":[{"sheet_a":`, `"sheet":"1-2"`, `"placed_xy":`} {
 		if !strings.Contains(string(js), key) {
 			t.Errorf("the JSON lacks %s", key)
