@@ -9,7 +9,8 @@ import (
 )
 
 // Tiling is a chart across N x N sheets of the user's paper (core/chart,
-// tiling.go) proposed when one sheet limits the measurement: the assembled
+// tiling.go) proposed when one sheet (or the 2 x 2 chart) limits the
+// measurement: the assembled
 // chart's size, the distance at which it fills the frame (the thin-lens
 // distances of the package doc), and the print's MTF at the field
 // frequencies and at Nyquist seen from there.
@@ -31,10 +32,18 @@ type Tiling struct {
 // proposeTiling sets Tiling and adds its advice, for a plan whose one sheet
 // limits the measurement.
 func (p *Plan) proposeTiling(opt Options, co chart.Options, pr printer) {
-	if t := strings.TrimSpace(co.Sheets); t != "" && t != "1x1" || opt.ChartMM[0] > 0 {
-		return
+	if opt.ChartMM[0] > 0 {
+		return // a chart printed elsewhere
 	}
-	for _, n := range []string{"2x2", "3x3"} {
+	// Larger tilings than the chart's own.
+	var cands []string
+	switch strings.ToLower(strings.ReplaceAll(strings.TrimSpace(co.Sheets), " ", "")) {
+	case "", "1x1", "1":
+		cands = []string{"2x2", "3x3"}
+	case "2x2", "2":
+		cands = []string{"3x3"}
+	}
+	for _, n := range cands {
 		c := co
 		c.Sheets = n
 		l, err := chart.NewLayout(c)
@@ -80,12 +89,21 @@ func (p *Plan) proposeTiling(opt Options, co chart.Options, pr printer) {
 	}
 	nn := t.Sheets[:1]
 	if t.Enough {
-		p.Advice = append(p.Advice, fmt.Sprintf("Or print the chart across %s x %s sheets of %s and assemble it on a wall: the chart is %.0f x %.0f mm, fills the frame from %.2f m (lens to chart), and the print keeps %.0f %% of its contrast at %g lp/mm on the sensor.",
-			nn, nn, p.paperName(), t.ChartMM[0], t.ChartMM[1], t.ObjectDistanceMM/1000, 100*worst.PrintMTF, worst.SensorLPMM))
+		p.Advice = append(p.Advice, fmt.Sprintf("Or print the chart across %s x %s sheets of %s and assemble it on a wall: the chart is %.0f x %.0f mm, fills the frame from %.2f m (lens to chart), and the print keeps %.0f %% of its contrast at %s lp/mm on the sensor.",
+			nn, nn, p.paperName(), t.ChartMM[0], t.ChartMM[1], t.ObjectDistanceMM/1000, 100*worst.PrintMTF, freqText(worst.SensorLPMM)))
 	} else {
-		p.Advice = append(p.Advice, fmt.Sprintf("A chart across %s x %s sheets of %s (%.0f x %.0f mm, from %.2f m) comes closer but is not enough: the print keeps %.0f %% of its contrast at %g lp/mm on the sensor.",
-			nn, nn, p.paperName(), t.ChartMM[0], t.ChartMM[1], t.ObjectDistanceMM/1000, 100*worst.PrintMTF, worst.SensorLPMM))
+		p.Advice = append(p.Advice, fmt.Sprintf("A chart across %s x %s sheets of %s (%.0f x %.0f mm, from %.2f m) comes closer but is not enough: the print keeps %.0f %% of its contrast at %s lp/mm on the sensor.",
+			nn, nn, p.paperName(), t.ChartMM[0], t.ChartMM[1], t.ObjectDistanceMM/1000, 100*worst.PrintMTF, freqText(worst.SensorLPMM)))
 	}
+}
+
+// freqText writes a sensor frequency: as given when whole (the field
+// frequencies), rounded otherwise (Nyquist).
+func freqText(f float64) string {
+	if f == math.Round(f) {
+		return fmt.Sprintf("%g", f)
+	}
+	return fmt.Sprintf("%.0f", f)
 }
 
 // paperName is the plan's sheet without its orientation.

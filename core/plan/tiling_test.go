@@ -57,12 +57,21 @@ func TestTiling(t *testing.T) {
 	if p.Verdict != VerdictFine || p.Tiling != nil {
 		t.Errorf("1-inch sensor: verdict %q, tiling %+v; want fine and none", p.Verdict, p.Tiling)
 	}
-	// A chart already across sheets gets no further proposal.
-	p, err = Compute(Options{FocalMM: 50, Sensor: "full-frame", PitchUM: 3, Chart: chart.Options{Sheets: "2x2"}})
+	// The 2 x 2 chart short of the sensor's Nyquist frequency (6 um
+	// pixels: 83 lp/mm) is offered the 3 x 3 one; the 3 x 3 chart gets no
+	// proposal.
+	p, err = Compute(Options{FocalMM: 50, Sensor: "full-frame", PitchUM: 6, Chart: chart.Options{Sheets: "2x2"}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if p.Verdict != VerdictBorderline || p.Tiling == nil || p.Tiling.Sheets != "3x3" {
+		t.Errorf("2x2 at 6 um: verdict %q, tiling %+v; want borderline and 3x3 proposed", p.Verdict, p.Tiling)
+	}
+	p, err = Compute(Options{FocalMM: 50, Sensor: "full-frame", PitchUM: 3, Chart: chart.Options{Sheets: "3x3"}})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if p.Tiling != nil {
-		t.Errorf("a 2x2 chart got a tiling proposal %+v", p.Tiling)
+		t.Errorf("a 3x3 chart got a tiling proposal %+v", p.Tiling)
 	}
 }
