@@ -3,8 +3,11 @@ package chart
 import (
 	"bytes"
 	"errors"
+	"image/png"
 	"math"
 	"testing"
+
+	"sagitta/core/plane"
 )
 
 // TestSheetPieces: every chart across sheets is cut along grid lines into
@@ -129,6 +132,74 @@ func TestSheetsRender(t *testing.T) {
 		var oe OptionError
 		if _, err := Render(bad, "svg"); !errors.As(err, &oe) {
 			t.Errorf("%+v: got %v, want an OptionError", bad, err)
+		}
+	}
+}
+
+// TestSheetFilesMarks reads each sheet's PNG file of the 2 x 2 chart back
+// (Go's image/png decoder) and finds its marks with the recogniser's own
+// disc finder and ring reader: each sheet shows exactly its four marks,
+// with the chart code's words, at the design's positions through the
+// sheet's layout within 0.2 mm (a ring's sector is now and then read as a
+// disc of its own, as on the one-sheet chart; such readings lie on their
+// mark, and the recogniser keeps the most certain reading of each). The files are what is printed; this ties
+// them to the design the recogniser expects.
+func TestSheetFilesMarks(t *testing.T) {
+	const dpi = 150
+	ls, err := NewSheets(Options{Sheets: "2x2", DPI: dpi})
+	if err != nil {
+		t.Fatal(err)
+	}
+	files, err := SheetFiles(ls, "chart", "png")
+	if err != nil {
+		t.Fatal(err)
+	}
+	d := ls[0].Design
+	want := Code{Aspect: "3:2", Sheets: 2}.value()
+	for i, f := range files {
+		img, err := png.Decode(bytes.NewReader(f.Bytes))
+		if err != nil {
+			t.Fatal(err)
+		}
+		b := img.Bounds()
+		p := plane.New(b.Dx(), b.Dy())
+		for y := 0; y < b.Dy(); y++ {
+			for x := 0; x < b.Dx(); x++ {
+				r, _, _, _ := img.At(b.Min.X+x, b.Min.Y+y).RGBA()
+				p.Pix[y*p.W+x] = float32(r) / 0xffff
+			}
+		}
+		best := map[int]float64{} // designed mark index -> nearest reading, mm
+		for _, dc := range findDiscs(p) {
+			m, ok := readMark(p, dc)
+			if !ok {
+				continue
+			}
+			// Pixel centres: (i + 0.5) / dots per mm.
+			xmm, ymm := m.XPx*25.4/dpi, m.YPx*25.4/dpi
+			u, v := (xmm-ls[i].CentreMM[0])/ls[i].UnitMM, (ymm-ls[i].CentreMM[1])/ls[i].UnitMM
+			var dm Mark
+			for _, c := range d.Marks {
+				if c.Sheet == i && c.Index == m.Index {
+					dm = c
+				}
+			}
+			e := math.Hypot(u-dm.X, v-dm.Y)
+			if m.code != want || dm.R == 0 || e > dm.R {
+				t.Errorf("%s: a mark of code %d index %d at (%.1f, %.1f) mm, want code %d and on one of the sheet's marks", f.Name, m.code, m.Index, xmm, ymm, want)
+				continue
+			}
+			if b, seen := best[m.Index]; !seen || e*ls[i].UnitMM < b {
+				best[m.Index] = e * ls[i].UnitMM
+			}
+		}
+		if len(best) != 4 {
+			t.Errorf("%s: %d of the sheet's 4 marks read", f.Name, len(best))
+		}
+		for k, e := range best {
+			if e > 0.2 {
+				t.Errorf("%s: mark %d found %.2f mm from its designed place", f.Name, k, e)
+			}
 		}
 	}
 }
