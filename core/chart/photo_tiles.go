@@ -166,8 +166,8 @@ func recogniseTiles(p *plane.Plane, code, n int, found []FoundMark) (*Pose, note
 				continue
 			}
 			got, cost := pair([2]float64{dm.X - u[0], dm.Y - u[1]})
-			if len(got) > len(use) || len(got) == len(use) && cost < bestCost {
-				use, bestCost = uniqueMarks(got), cost
+			if got = uniqueMarks(got); len(got) > len(use) || len(got) == len(use) && cost < bestCost {
+				use, bestCost = got, cost
 			}
 		}
 	}
