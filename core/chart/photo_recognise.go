@@ -117,13 +117,13 @@ func Recognise(p *plane.Plane) (*Pose, note.Note) {
 		tol := math.Max(2, 0.01*pose.markSpacingPx())
 		if res <= tol {
 			if !pose.sizesAgree() {
-				return nil, disagree
+				return nil, disagreeOrOneSheet(use, disagree)
 			}
 			pose.W, pose.Hpx = p.W, p.H
 			return pose, note.Note{}
 		}
 		if len(use) <= 4 {
-			return nil, disagree
+			return nil, disagreeOrOneSheet(use, disagree)
 		}
 		use = append(use[:worst], use[worst+1:]...)
 	}

@@ -71,6 +71,25 @@ func tiledMarks(marks []FoundMark, code int) (bool, int) {
 	return false, 0
 }
 
+// disagreeOrOneSheet returns the note for marks that do not fit a chart on
+// one sheet: when they are four or fewer, all of one tiling's indices (0-3
+// or 4-7, each once), they are most likely one sheet of a chart across
+// sheets photographed alone, which cannot be placed (the sheets repeat the
+// same words); else the marks disagree.
+func disagreeOrOneSheet(use []FoundMark, disagree note.Note) note.Note {
+	if len(use) < 3 || len(use) > 4 {
+		return disagree
+	}
+	lo, hi := use[0].Index, use[0].Index
+	for _, m := range use {
+		lo, hi = min(lo, m.Index), max(hi, m.Index)
+	}
+	if hi < 4 || lo >= 4 {
+		return note.New(note.ChartOneSheet, "found the marks of one sheet of a chart across sheets: frame the whole assembled chart, every sheet in the photo")
+	}
+	return disagree
+}
+
 // markOf returns the designed mark a found mark is: by index on a chart on
 // one sheet, by sheet and index on a chart across sheets.
 func (d *Design) markOf(m FoundMark) Mark {

@@ -182,3 +182,40 @@ func TestRecogniseTiles(t *testing.T) {
 		})
 	}
 }
+
+// TestOneSheetAlone: a photo of one sheet of the 2 x 2 chart, alone and
+// filling the frame, is not placed (its four marks repeat on every sheet)
+// and the note says to frame the whole assembled chart.
+func TestOneSheetAlone(t *testing.T) {
+	d, err := chart.NewDesign(chart.Code{Aspect: "3:2", Sheets: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := d.Sheets[1]
+	sub := *d
+	sub.Squares, sub.Stars, sub.Gratings, sub.Marks, sub.Wedge = nil, nil, nil, nil, chart.Wedge{}
+	for _, q := range d.Squares {
+		if s.Contains(q.X, q.Y) {
+			sub.Squares = append(sub.Squares, q)
+		}
+	}
+	for _, m := range d.Marks {
+		if m.Sheet == 1 {
+			sub.Marks = append(sub.Marks, m)
+		}
+	}
+	w, h := 900, 600
+	sc := 0.95 * math.Min(float64(w)/(s.X1-s.X0), float64(h)/(s.Y1-s.Y0))
+	cx, cy := (s.X0+s.X1)/2, (s.Y0+s.Y1)/2
+	hom := chart.Homography{sc, 0, float64(w)/2 - sc*cx, 0, sc, float64(h)/2 - sc*cy, 0, 0, 1}
+	cam := simcam.Camera{W: w, H: h, Lens: simcam.Fixed{PSF: simcam.Gaussian{Sigma1: lensSigma, Sigma2: lensSigma}}, FullWellE: 20000, ReadNoiseE: 3, Seed: 11}
+	p, err := cam.Render(chartsim.Scene(&sub, hom, chartsim.Print{}))
+	if err != nil {
+		t.Fatal(err)
+	}
+	pose, why := chart.Recognise(p)
+	if pose != nil || why.Code != note.ChartOneSheet {
+		t.Fatalf("pose %v, note %q (%s); want none and %q", pose != nil, why.Code, why.Text, note.ChartOneSheet)
+	}
+	t.Log(why.Text)
+}

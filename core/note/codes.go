@@ -38,6 +38,10 @@ const (
 	// ChartMarksDisagree: the marks read do not fit one chart (two charts,
 	// or a damaged mark).
 	ChartMarksDisagree Code = "chart-marks-disagree"
+	// ChartOneSheet: the marks read are those of one sheet of a chart
+	// across sheets (core/chart, photo_tiles.go); the whole assembled chart
+	// must be in the photo.
+	ChartOneSheet Code = "chart-one-sheet"
 	// SetupCover: the chart fills too little of the frame.
 	SetupCover Code = "setup-cover"
 	// SetupCutOff: part of the chart lies outside the frame.
