@@ -7,7 +7,7 @@ import { AbortError } from './pool.js';
 import { readSettings, settingsKey, watchSettings, settingsSummary } from './settings.js';
 import { renderResult, refreshUnits, outcome } from './results.js';
 import { saveBlob } from './plot.js';
-import { renderCompare } from './compare.js';
+import { renderCompare, seriesReport } from './compare.js';
 import { renderPrint } from './print.js';
 import { setPalette } from './colour.js';
 import { fmtFNumber } from './units.js';
@@ -609,11 +609,16 @@ async function exportCSV() {
   saveBlob(new Blob([text], { type: 'text/csv' }), 'sagitta-measurements.csv');
 }
 
-function exportReport() {
+async function exportReport() {
   const p = state.photos.find((q) => q.key === state.selected && q.result) || state.photos.find((q) => q.result);
   if (!p) return;
+  // The series of the photos ticked in Compare, printed after the photo
+  // (compare.js; hidden on screen).
+  document.getElementById('report-series')?.remove();
+  const series = await seriesReport(state);
   showPlace('measure');
   if (state.selected !== p.key) select(p.key);
+  if (series) $('place-measure').append(series);
   const box = document.getElementById('report-settings');
   if (box) box.textContent = settingsSummary(p.result) + ` Printed ${new Date().toLocaleString()}.`;
   setTimeout(() => window.print(), 50);

@@ -253,3 +253,63 @@ function balanceWords(s, f) {
 function seText(se) {
   return se < 0.005 ? '<0.01' : se.toFixed(2);
 }
+
+/**
+ * seriesReport returns the series of the photos ticked in Compare for the
+ * printable report, once the core has answered (null when they make no
+ * series): the aperture-series figure with the sharpest-stop words, and for
+ * a pair whose turn was chosen in Compare, the lens/set-up decomposition.
+ */
+export async function seriesReport(state) {
+  const ticked = sorted(state.photos.filter((p) => p.result && !view.unticked.has(p.key)));
+  const stops = new Set(ticked.map((p) => (p.result.exif || {}).f_number).filter(Boolean));
+  const turned = ticked.length === 2 && seriesView.turn !== '';
+  if (ticked.length < 2 || (stops.size < 2 && !turned)) return null;
+  const images = JSON.stringify(ticked.map((p) => p.result));
+  const sec = el('section', { class: 'report-only report-series', id: 'report-series' });
+  sec.append(el('h2', {}, 'Series'));
+  sec.append(el('p', { class: 'hint' }, `Photos: ${ticked.map(labelOf).join('; ')}.`));
+  if (stops.size >= 2) {
+    sec.append(el('h3', {}, 'Sharpest aperture'));
+    try {
+      const a = await state.pool.call('series', ['aperture', images, '{}']);
+      sec.append(el('p', { class: 'verdict', id: 'report-series-aperture' }, a.text));
+      const r = await state.pool.call('plot', ['series', JSON.stringify(a), JSON.stringify({ format: 'svg' })]);
+      const fig = el('figure', { class: 'plot-figure core-figure', 'data-kind': 'series' });
+      const svg = document.importNode(new DOMParser().parseFromString(r.svg, 'image/svg+xml').documentElement, true);
+      svg.classList.add('plot');
+      fig.append(svg);
+      sec.append(fig);
+    } catch (e) {
+      sec.append(el('p', { class: 'notes' }, `Not an aperture series: ${plain(e.message)}`));
+    }
+  }
+  if (turned) {
+    sec.append(el('h3', {}, 'Lens or set-up?'));
+    try {
+      const t = await state.pool.call('series', ['turned', images, JSON.stringify({ turn_deg: seriesView.turn === 'chart' ? 0 : +seriesView.turn })]);
+      sec.append(el('p', { class: 'verdict', id: 'report-series-turned' }, t.text));
+      // The split at each field frequency: differences between opposite
+      // sides (positive: left or top sharper), ± one standard error.
+      const tab = el('table', { class: 'split-table', id: 'report-series-split' });
+      tab.append(el('caption', {}, 'The differences between sides split into the part that stays with the lens and the part that turns with the set-up (positive: the left or top side sharper; ± one standard error).'));
+      const hr = tab.createTHead().insertRow();
+      for (const c of ['Frequency', 'Lens, left − right', 'Lens, top − bottom', 'Set-up, left − right', 'Set-up, top − bottom']) hr.append(el('th', { scope: 'col' }, c));
+      const tb = tab.createTBody();
+      const part = (q) => {
+        if (q.diff == null) return 'n/a';
+        const d = Math.abs(q.diff) < 0.005 ? 0 : q.diff; // no "-0.00"
+        return `${d > 0 ? '+' : ''}${d.toFixed(2)} ± ${seText(q.se)}${q.notable ? ' (notable)' : ''}`;
+      };
+      for (const b of t.by_freq) {
+        const tr = tb.insertRow();
+        tr.insertCell().textContent = `${b.freq_lp_mm} lp/mm`;
+        for (const q of [b.lens_left_right, b.lens_top_bottom, b.setup_left_right, b.setup_top_bottom]) tr.insertCell().textContent = part(q);
+      }
+      sec.append(tab, el('p', { class: 'notes' }, t.caution));
+    } catch (e) {
+      sec.append(el('p', { class: 'notes', id: 'report-series-turned' }, `Not a turned pair: ${plain(e.message)}`));
+    }
+  }
+  return sec;
+}

@@ -1,6 +1,6 @@
-// The Print and plan place: the printable chart (core/chart) with a live
-// preview, downloads (PDF, SVG, PNG) and printing at actual size with the
-// ruler check; beside it the shooting planner (core/plan): distance,
+// The Print and plan place: the printable chart (core/chart) on one sheet
+// or across 2 x 2 or 3 x 3 sheets, with a live preview of every sheet,
+// downloads (PDF, SVG, PNG) and printing at actual size with the ruler check; beside it the shooting planner (core/plan): distance,
 // magnification, the field frequencies on paper and whether the print
 // limits the measurement.
 
@@ -11,11 +11,11 @@ import { el } from './dom.js';
 // The form's state, kept between visits.
 const form = {
   paper: 'A4', customW: 300, customH: 400, orientation: 'landscape', aspect: '3:2', contrast: '4:1',
-  dpi: 600, margin: 10, ruler: '', focal: 50, sensor: 'full-frame', pixelsW: 6000, pixelsH: 4000, surface: 'photo',
+  dpi: 600, margin: 10, ruler: '', sheets: '1x1', focal: 50, sensor: 'full-frame', pixelsW: 6000, pixelsH: 4000, surface: 'photo',
 };
 
 let built = false;
-let previewURL = null;
+let previewURLs = [];
 let seq = 0;
 
 /** renderPrint fills the Print and plan place (once) and refreshes its preview and plan. */
@@ -33,7 +33,25 @@ function chartOptions() {
   if (form.paper === 'custom') o.paper_mm = [+form.customW, +form.customH];
   const r = parseFloat(form.ruler);
   if (r > 0) o.ruler_measured_mm = r;
+  if (form.sheets !== '1x1') o.sheets = form.sheets;
   return o;
+}
+
+// sheetCount is the number of sheets the chart is printed on.
+function sheetCount() {
+  return { '1x1': 1, '2x2': 4, '3x3': 9 }[form.sheets] || 1;
+}
+
+// sheetSVGs returns the SVG of every sheet, in reading order.
+async function sheetSVGs(state) {
+  const n = sheetCount();
+  const out = [];
+  for (let k = 1; k <= n; k++) {
+    const o = chartOptions();
+    if (n > 1) o.sheet = k;
+    out.push(await state.pool.call('chart', [JSON.stringify(o), 'svg']));
+  }
+  return out;
 }
 
 function planOptions(state) {
@@ -95,6 +113,7 @@ function build(root, state) {
   opts.append(field('Contrast', select('contrast', [['4:1', '4:1 grey (edges; recommended)'], ['high', 'High: black on white']], update)));
   opts.append(field('Printer resolution', number('dpi', { min: 100, max: 2880, step: 1 }, update), 'dots per inch'));
   opts.append(field('Margin', number('margin', { min: 3, max: 50, step: 1 }, update), 'mm of blank paper on every side'));
+  opts.append(field('Sheets', select('sheets', [['1x1', 'One sheet'], ['2x2', '2 × 2 sheets, assembled on a wall'], ['3x3', '3 × 3 sheets, assembled on a wall']], update), 'A larger chart lets you shoot from farther, where the print is sharper on the sensor. Each sheet carries its own marks; cut on the dashed lines and lay each cut edge on the next sheet\'s solid line.'));
   left.append(opts);
   const preview = el('div', { class: 'chart-preview', id: 'chart-preview', role: 'img', 'aria-label': 'Preview of the chart' });
   left.append(preview);
@@ -134,12 +153,15 @@ async function refresh(root, state) {
   const my = ++seq;
   const err = root.querySelector('#chart-error');
   try {
-    const svg = await state.pool.call('chart', [JSON.stringify(chartOptions()), 'svg']);
+    const svgs = await sheetSVGs(state);
     if (my !== seq) return;
-    if (previewURL) URL.revokeObjectURL(previewURL);
-    previewURL = URL.createObjectURL(new Blob([svg], { type: 'image/svg+xml' }));
-    const img = el('img', { src: previewURL, alt: 'The chart as it will print' });
-    root.querySelector('#chart-preview').replaceChildren(img);
+    for (const u of previewURLs) URL.revokeObjectURL(u);
+    previewURLs = svgs.map((svg) => URL.createObjectURL(new Blob([svg], { type: 'image/svg+xml' })));
+    const box = root.querySelector('#chart-preview');
+    const side = Math.round(Math.sqrt(svgs.length));
+    box.style.gridTemplateColumns = side > 1 ? `repeat(${side}, 1fr)` : '';
+    box.classList.toggle('sheets', side > 1);
+    box.replaceChildren(...previewURLs.map((u, i) => el('img', { src: u, alt: side > 1 ? `Sheet ${Math.floor(i / side) + 1}-${(i % side) + 1} as it will print` : 'The chart as it will print' })));
     err.hidden = true;
   } catch (e) {
     if (my !== seq) return;
@@ -168,6 +190,10 @@ function showPlan(box, p) {
   for (const f of p.frequencies) row(`${f.sensor_lp_mm} lp/mm on the sensor`, `${fmt(f.paper_lp_mm, 2)} lp/mm on paper; the print keeps ${Math.round(100 * f.print_mtf)} % of its contrast`);
   if (p.nyquist) row('Nyquist on paper', `${fmt(p.nyquist.paper_lp_mm, 2)} lp/mm; the print keeps ${Math.round(100 * p.nyquist.print_mtf)} %`);
   box.append(dl);
+  if (p.tiling && p.tiling.enough) {
+    const t = p.tiling;
+    row('Across sheets', `${t.sheets.replace('x', ' × ')} sheets: ${fmt(t.chart_mm[0], 0)} × ${fmt(t.chart_mm[1], 0)} mm, ${fmt(t.object_distance_mm / 1000, 2)} m from the lens; choose it under Sheets`);
+  }
   if (p.advice && p.advice.length) {
     const ul = el('ul', { class: 'advice' });
     for (const a of p.advice) ul.append(el('li', {}, a));
@@ -178,24 +204,29 @@ function showPlan(box, p) {
 
 async function download(state, format) {
   const bytes = await state.pool.call('chart', [JSON.stringify(chartOptions()), format]);
-  const type = { pdf: 'application/pdf', svg: 'image/svg+xml', png: 'image/png' }[format];
   const o = chartOptions();
-  const name = `sagitta-chart-${(o.paper === 'custom' ? o.paper_mm.join('x') + 'mm' : o.paper).replace('+', 'plus')}-${o.orientation}.${format}`;
+  // A chart across sheets comes as one PDF, or a ZIP of one SVG or PNG per sheet.
+  const zip = o.sheets && format !== 'pdf';
+  const type = zip ? 'application/zip' : { pdf: 'application/pdf', svg: 'image/svg+xml', png: 'image/png' }[format];
+  const name = `sagitta-chart-${(o.paper === 'custom' ? o.paper_mm.join('x') + 'mm' : o.paper).replace('+', 'plus')}-${o.orientation}${o.sheets ? '-' + o.sheets : ''}.${zip ? format + '.zip' : format}`;
   saveBlob(new Blob([bytes], { type }), name);
 }
 
 // printChart prints the chart's SVG alone, on a page of its exact size
 // (the SVG's width and height are in millimetres).
 async function printChart(state) {
-  const svg = new TextDecoder().decode(await state.pool.call('chart', [JSON.stringify(chartOptions()), 'svg']));
-  const doc = new DOMParser().parseFromString(svg, 'image/svg+xml').documentElement;
-  const w = doc.getAttribute('width');
-  const h = doc.getAttribute('height');
   const box = el('div', { class: 'print-sheet' });
-  box.append(document.importNode(doc, true));
+  let w = '';
+  let h = '';
+  for (const bytes of await sheetSVGs(state)) {
+    const doc = new DOMParser().parseFromString(new TextDecoder().decode(bytes), 'image/svg+xml').documentElement;
+    w = doc.getAttribute('width');
+    h = doc.getAttribute('height');
+    box.append(document.importNode(doc, true)); // one page per sheet
+  }
   document.body.append(box);
   const style = el('style');
-  style.textContent = `@page { size: ${w} ${h}; margin: 0; } @media print { body > *:not(.print-sheet) { display: none !important; } .print-sheet { display: block !important; } .print-sheet svg { width: ${w}; height: ${h}; display: block; } }`;
+  style.textContent = `@page { size: ${w} ${h}; margin: 0; } @media print { body > *:not(.print-sheet) { display: none !important; } .print-sheet { display: block !important; } .print-sheet svg { width: ${w}; height: ${h}; display: block; break-after: page; } }`;
   document.head.append(style);
   document.body.classList.add('printing-chart');
   const done = () => {

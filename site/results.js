@@ -530,6 +530,14 @@ function chartBox(r) {
   row('Keystone', `${fmt(st.keystone_left_right_pct, 1)} % left to right, ${fmt(st.keystone_top_bottom_pct, 1)} % top to bottom`);
   row('Off centre', `${fmt(st.off_centre_pct, 1)} % of the shorter side`);
   if (st.tilt_deg) row('Tilt', `${fmt(st.tilt_deg, 1)}° between the chart and the camera's axis`);
+  // A chart across sheets: each sheet placed on its own, and the joins.
+  if (c.sheets && c.sheets.length) {
+    row('Sheets', `${c.sheets.length} sheets, ${c.sheets.filter((s) => s.own_pose).length} placed by their own marks`);
+    for (const sm of c.seams || []) {
+      const gap = sm.gap_mm < 0 ? `overlapping by ${fmt(-sm.gap_mm, 1)} mm` : `${fmt(sm.gap_mm, 1)} mm apart`;
+      row(`Sheets ${sm.sheet_a} and ${sm.sheet_b}`, `${gap}, shifted ${fmt(Math.abs(sm.slide_mm), 1)} mm along their edge, turned ${fmt(Math.abs(sm.turn_deg), 1)}°`);
+    }
+  }
   box.append(dl);
   if (st.warnings && st.warnings.length) {
     const ul = el('ul', { class: 'setup-warnings' });

@@ -25,6 +25,9 @@ func recogniseChart(img *Image, pose *chart.Pose, why note.Note, s Settings) {
 		Patterns: []PatternTarget{}, Missing: []MissingTarget{}, OutsideFrame: []string{},
 	}
 	img.Chart = cr
+	for _, sp := range pose.Sheets {
+		cr.Sheets = append(cr.Sheets, SheetResult{Sheet: sp.Sheet.Name(), Homography: sp.H, Own: sp.Own, Marks: len(sp.Marks)})
+	}
 	cr.Print = printInfo(s, pose.Code)
 	cutAtPrint(img, pose, cr.Print)
 
@@ -51,6 +54,9 @@ func recogniseChart(img *Image, pose *chart.Pose, why note.Note, s Settings) {
 			m.ChartXY = &[2]float64{hit.X, hit.Y}
 			f := hit.Field
 			m.ChartField = &f
+			if hit.Sheet != "" {
+				m.Sheet, m.PlacedXY = hit.Sheet, &[2]float64{hit.PlacedX, hit.PlacedY}
+			}
 			got[key{hit.ID, hit.Edge}] = true
 		}
 		kept = append(kept, m)
@@ -165,5 +171,26 @@ func checkSetup(img *Image) error {
 		focalPx = f * 1000 / img.PitchUM
 	}
 	cr.Setup = setupOf(pose.Check(focalPx))
+	if len(cr.Sheets) > 0 {
+		if len(cr.Sheets) != len(d.Sheets) {
+			return ResultError("the chart's sheets do not match its code")
+		}
+		pose.Sheets = make([]chart.SheetPose, len(d.Sheets))
+		for i, sr := range cr.Sheets {
+			inv, ok := sr.Homography.Inverse()
+			if !ok {
+				return ResultError("a sheet's homography cannot be inverted")
+			}
+			pose.Sheets[i] = chart.SheetPose{Sheet: d.Sheets[i], H: sr.Homography, Inv: inv, Own: sr.Own}
+		}
+		seams := pose.Seams(cr.Print.ChartMM)
+		cr.Seams = cr.Seams[:0]
+		for _, sm := range seams {
+			cr.Seams = append(cr.Seams, SeamResult(sm))
+		}
+		texts, codes := chart.SeamWarnings(seams)
+		cr.Setup.Warnings = append(cr.Setup.Warnings, texts...)
+		cr.Setup.WarningCodes = append(cr.Setup.WarningCodes, codes...)
+	}
 	return nil
 }

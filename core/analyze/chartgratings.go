@@ -25,10 +25,11 @@ import (
 // outline in px and its frequency (cy/px) and direction (degrees) at its
 // centre.
 func designGrating(pose *chart.Pose, g chart.Grating) (q [4][2]float64, freq, dir float64) {
+	h, _ := pose.At(g.X, g.Y) // its own sheet's on a chart across sheets
 	for i, c := range [4][2]float64{{-1, -1}, {1, -1}, {1, 1}, {-1, 1}} {
-		q[i][0], q[i][1] = pose.H.Apply(g.X+c[0]*g.W/2, g.Y+c[1]*g.H/2)
+		q[i][0], q[i][1] = h.Apply(g.X+c[0]*g.W/2, g.Y+c[1]*g.H/2)
 	}
-	j := pose.H.Jacobian(g.X, g.Y)
+	j := h.Jacobian(g.X, g.Y)
 	det := j[0][0]*j[1][1] - j[0][1]*j[1][0]
 	// Rows of the inverse Jacobian: the gradients of u and v in px.
 	gu := [2]float64{j[1][1] / det, -j[0][1] / det}

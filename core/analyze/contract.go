@@ -153,6 +153,11 @@ type Measurement struct {
 	TargetEdge int         `json:"target_edge,omitempty"`
 	ChartXY    *[2]float64 `json:"chart_xy,omitempty"`
 	ChartField *float64    `json:"chart_field,omitempty"`
+	// On a chart across sheets: the number of the target's sheet ("1-2",
+	// row-column) and where the target's centre lies on the assembled
+	// chart, moved with its sheet (chart.Pose.Placed), chart units.
+	Sheet    string      `json:"sheet,omitempty"`
+	PlacedXY *[2]float64 `json:"placed_xy,omitempty"`
 }
 
 // Rejected is a candidate that was not measured or whose measurement was
@@ -235,6 +240,36 @@ type ChartResult struct {
 	// Print is the print assumed to cut sine patterns at its limit
 	// (printlimit.go).
 	Print PrintInfo `json:"print"`
+	// Sheets are the sheets of a chart across several (Code ends in
+	// "-2x2" or "-3x3"), each with its own homography; Homography is then
+	// the assembled chart's, fitted to all marks. Seams are the joins
+	// between neighbouring sheets (chart.Seam); a join past the limits is
+	// also a set-up warning (code setup-sheets-misaligned).
+	Sheets []SheetResult `json:"sheets,omitempty"`
+	Seams  []SeamResult  `json:"seams,omitempty"`
+}
+
+// SheetResult is one sheet of a chart across several, as found in the
+// photo: its number ("row-column"), its own homography (chart units of
+// the design to image px, row-major), and whether it was fitted to marks of
+// its own (three or more) or is the assembled chart's.
+type SheetResult struct {
+	Sheet      string           `json:"sheet"`
+	Homography chart.Homography `json:"homography"`
+	Own        bool             `json:"own_pose"`
+	Marks      int              `json:"marks"`
+}
+
+// SeamResult is the join between two neighbouring sheets (chart.Seam): the
+// second sheet (right of or below the first) lies gap_mm farther across
+// the seam than designed (negative: overlapping), slide_mm along it, and is
+// turned turn_deg against the first.
+type SeamResult struct {
+	A       string  `json:"sheet_a"`
+	B       string  `json:"sheet_b"`
+	GapMM   float64 `json:"gap_mm"`
+	SlideMM float64 `json:"slide_mm"`
+	TurnDeg float64 `json:"turn_deg"`
 }
 
 // PatternTarget ties a measured sine pattern to its chart target.

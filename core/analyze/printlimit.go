@@ -50,6 +50,11 @@ func printInfo(s Settings, code chart.Code) PrintInfo {
 	p := PrintInfo{DPI: s.PrintDPI, ChartMM: s.ChartMM, Source: "settings"}
 	if p.DPI <= 0 || p.ChartMM <= 0 {
 		p.Source = "assumed: the chart's default sheet (A4, 600 dpi)"
+		sheets := ""
+		if code.Sheets > 1 {
+			sheets = fmt.Sprintf("%dx%d", code.Sheets, code.Sheets)
+			p.Source = fmt.Sprintf("assumed: the chart's default sheets (%d x %d A4, 600 dpi)", code.Sheets, code.Sheets)
+		}
 		if p.DPI <= 0 {
 			p.DPI = defaultPrintDPI
 		}
@@ -58,7 +63,7 @@ func printInfo(s Settings, code chart.Code) PrintInfo {
 			if code.Portrait {
 				orient = "portrait"
 			}
-			if l, err := chart.NewLayout(chart.Options{Aspect: code.Aspect, Orientation: orient, DPI: p.DPI}); err == nil {
+			if l, err := chart.NewLayout(chart.Options{Aspect: code.Aspect, Orientation: orient, DPI: p.DPI, Sheets: sheets}); err == nil {
 				p.ChartMM = l.UnitMM * l.Scale
 			}
 		}

@@ -78,9 +78,10 @@ const (
 // pose's inverse) inside the chart-unit rectangle [x0, x1] x [y0, y1], and
 // their number.
 func meanIn(p *plane.Plane, pose *chart.Pose, x0, y0, x1, y1 float64) (float64, int) {
+	h, inv := pose.At((x0+x1)/2, (y0+y1)/2) // its own sheet's on a chart across sheets
 	bx0, by0, bx1, by1 := math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)
 	for _, c := range [4][2]float64{{x0, y0}, {x1, y0}, {x1, y1}, {x0, y1}} {
-		u, v := pose.H.Apply(c[0], c[1])
+		u, v := h.Apply(c[0], c[1])
 		bx0, by0, bx1, by1 = math.Min(bx0, u), math.Min(by0, v), math.Max(bx1, u), math.Max(by1, v)
 	}
 	i0, j0 := max(int(math.Floor(bx0)), 0), max(int(math.Floor(by0)), 0)
@@ -89,7 +90,7 @@ func meanIn(p *plane.Plane, pose *chart.Pose, x0, y0, x1, y1 float64) (float64, 
 	var n int
 	for j := j0; j <= j1; j++ {
 		for i := i0; i <= i1; i++ {
-			u, v := pose.Inv.Apply(float64(i)+0.5, float64(j)+0.5)
+			u, v := inv.Apply(float64(i)+0.5, float64(j)+0.5)
 			if u >= x0 && u <= x1 && v >= y0 && v <= y1 {
 				sum += float64(p.Pix[j*p.W+i])
 				n++

@@ -28,16 +28,24 @@ const shortCells = 7
 type Code struct {
 	Aspect   string `json:"aspect"`   // "3:2", "4:3", "16:9" or "1:1"
 	Portrait bool   `json:"portrait"` // the chart is taller than wide
+	// Sheets is 2 or 3 for a chart drawn across 2 x 2 or 3 x 3 sheets
+	// (tiling.go), 0 for one sheet.
+	Sheets int `json:"sheets,omitempty"`
 }
 
 // String is the chart code printed on the sheet, e.g. "S1-3:2-L" (design
-// version 1, 3:2, landscape) or "S1-16:9-P".
+// version 1, 3:2, landscape), "S1-16:9-P", or "S1-3:2-L-2x2" for a chart
+// across 2 x 2 sheets.
 func (c Code) String() string {
 	o := "L"
 	if c.Portrait {
 		o = "P"
 	}
-	return "S1-" + c.Aspect + "-" + o
+	s := "S1-" + c.Aspect + "-" + o
+	if c.Sheets > 1 {
+		s += fmt.Sprintf("-%dx%d", c.Sheets, c.Sheets)
+	}
+	return s
 }
 
 // value numbers the code 0..7 for the marks: aspect index times 2, plus 1
@@ -58,6 +66,18 @@ func (c Code) value() int {
 // ParseCode reads a chart code as String writes it ("S1-3:2-L"). It
 // returns an OptionError for any other text.
 func ParseCode(s string) (Code, error) {
+	sheets := 0
+	for _, n := range []int{2, 3} {
+		if t, ok := strings.CutSuffix(s, fmt.Sprintf("-%dx%d", n, n)); ok {
+			s, sheets = t, n
+		}
+	}
+	c, err := parseCode(s)
+	c.Sheets = sheets
+	return c, err
+}
+
+func parseCode(s string) (Code, error) {
 	rest, ok := strings.CutPrefix(s, "S1-")
 	if !ok || len(rest) < 3 || rest[len(rest)-2] != '-' {
 		return Code{}, optErr("%q is not a chart code (like S1-3:2-L)", s)
@@ -78,6 +98,23 @@ func ParseCode(s string) (Code, error) {
 
 // codeOf is the inverse of Code.value.
 func codeOf(v int) Code { return Code{Aspect: aspects[v/2].name, Portrait: v%2 == 1} }
+
+// gridFor returns the grid of a design: 7 cells along the short side (9 on
+// a chart across 3 x 3 sheets, so that every sheet holds at least 3 rows
+// and marks of its own on inner grid corners) and along the long side the
+// aspect's count, or for 9 rows the odd count nearest square cells. The
+// stars (0.27 of a cell instead of 0.37) and the grating blocks and step
+// wedge (0.55 instead of 0.72) shrink on the finer grid so that the
+// clearances of the package doc still hold in chart units
+// (design_test.go).
+func gridFor(c Code, a int) (long, short int, sq, star, grat float64) {
+	if c.Sheets != 3 {
+		return aspects[a].cells, shortCells, squareOfCell, starOfCell, gratingOfCell
+	}
+	r := aspects[a].ratio
+	long = 2*int(math.Round((9*r-1)/2)) + 1
+	return long, 9, 0.50, 0.27, 0.55
+}
 
 // Design is the chart's layout in chart units: the chart's short side is 1,
 // the origin is the chart's centre, x grows to the right and y down, angles
@@ -100,6 +137,9 @@ type Design struct {
 	Gratings   []Grating
 	Marks      []Mark
 	Wedge      Wedge
+	// Sheets are the pieces of a chart across several sheets (tiling.go),
+	// in reading order; nil for one sheet.
+	Sheets []Sheet
 }
 
 // Wedge is the chart's step wedge: WedgeCols x WedgeRows grey patches of
@@ -112,16 +152,15 @@ type Wedge struct {
 	Steps      []float64
 }
 
-// Wedge layout: a block of wedgeOfCell of the cell (as wide as a grating block), 4 x 3 patches, 12
+// Wedge layout: a block as wide as a grating block (0.72 of the cell), 4 x 3 patches, 12
 // reflectances evenly spaced in log from WedgeHi to WedgeLo. The darkest is
 // above the few per cent black ink reflects on matte paper (from memory),
 // so a printer reaches every step; the lightest is below the paper.
 const (
-	WedgeCols   = 4
-	WedgeRows   = 3
-	WedgeHi     = 0.9
-	WedgeLo     = 0.06
-	wedgeOfCell = 0.72
+	WedgeCols = 4
+	WedgeRows = 3
+	WedgeHi   = 0.9
+	WedgeLo   = 0.06
 )
 
 // Patch returns patch k's centre and size, chart units.
@@ -185,6 +224,7 @@ type Mark struct {
 	X, Y  float64 // centre, chart units
 	R     float64 // outer radius of the code ring, chart units
 	Word  uint16
+	Sheet int // the sheet it is printed on (Design.Sheets), 0 on one sheet
 }
 
 // Sizes in chart units or in fractions of a grid cell.
@@ -218,10 +258,17 @@ func NewDesign(c Code) (*Design, error) {
 	if v < 0 {
 		return nil, optErr("unknown aspect ratio %q (choose 3:2, 4:3, 16:9 or 1:1)", c.Aspect)
 	}
+	if c.Sheets != 0 && c.Sheets != 2 && c.Sheets != 3 {
+		return nil, optErr("a chart goes across 2 x 2 or 3 x 3 sheets, not %d x %d", c.Sheets, c.Sheets)
+	}
+	if c.Sheets == 3 && c.Aspect == "1:1" {
+		return nil, optErr("a 1:1 chart goes across 2 x 2 sheets at most: its middle sheets leave no room for their marks on 3 x 3")
+	}
 	a := aspects[v/2]
-	d := &Design{Code: c, W: a.ratio, H: 1, Cols: a.cells, Rows: shortCells}
+	long, short, squareOfCell, starOfCell, gratingOfCell := gridFor(c, v/2)
+	d := &Design{Code: c, W: a.ratio, H: 1, Cols: long, Rows: short}
 	if c.Portrait {
-		d.W, d.H, d.Cols, d.Rows = 1, a.ratio, shortCells, a.cells
+		d.W, d.H, d.Cols, d.Rows = 1, a.ratio, short, long
 	}
 	cw, ch := d.W/float64(d.Cols), d.H/float64(d.Rows)
 	cell := math.Min(cw, ch)
@@ -231,6 +278,13 @@ func NewDesign(c Code) (*Design, error) {
 	corner := func(i, j int) (float64, float64) { return -d.W/2 + float64(i)*cw, -d.H/2 + float64(j)*ch }
 	ic, jc := d.Cols/2, d.Rows/2
 
+	// On a chart across 3 x 3 sheets the gratings and the step wedge sit
+	// two cells from the centre instead of one, so that the middle sheet
+	// keeps grid corners clear for its own marks (tiling.go).
+	away := 1
+	if c.Sheets == 3 {
+		away = 2
+	}
 	// Stars: the centre and four cells towards the corners, at about 60 %
 	// of the way to the edge but clear of the corner marks' cells.
 	dc := min(max(int(math.Round(0.6*float64(ic))), 1), ic-2)
@@ -247,7 +301,7 @@ func NewDesign(c Code) (*Design, error) {
 	// separate patches, one per frequency, so that each is found and
 	// measured on its own.
 	for k, dir := range []float64{90, 0} {
-		i, j := ic, jc-1+2*k
+		i, j := ic, jc-away+2*away*k
 		used[[2]int{i, j}] = true
 		x0, y0 := centre(i, j)
 		pw := (gratingOfCell*cw - gratingGap) / 2
@@ -264,10 +318,10 @@ func NewDesign(c Code) (*Design, error) {
 	// The step wedge left of the centre: the part of the frame least
 	// shaded by the lens's fall-off after the centre itself.
 	{
-		i, j := ic-1, jc
+		i, j := ic-away, jc
 		used[[2]int{i, j}] = true
 		x, y := centre(i, j)
-		d.Wedge = Wedge{X: x, Y: y, W: wedgeOfCell * cell, H: wedgeOfCell * cell * WedgeRows / WedgeCols, Steps: wedgeSteps()}
+		d.Wedge = Wedge{X: x, Y: y, W: gratingOfCell * cell, H: gratingOfCell * cell * WedgeRows / WedgeCols, Steps: wedgeSteps()}
 	}
 	// Squares in every other cell, reading order.
 	for j := 0; j < d.Rows; j++ {
@@ -285,6 +339,10 @@ func NewDesign(c Code) (*Design, error) {
 	// Marks on grid corners: four near the frame's corners, four near the
 	// middles of its sides (placed off-centre so that no two marks are
 	// mirror images of each other's position).
+	if c.Sheets > 1 {
+		d.placeSheetMarks(v)
+		return d, nil
+	}
 	at := [][2]int{
 		{1, 1}, {d.Cols - 1, 1}, {d.Cols - 1, d.Rows - 1}, {1, d.Rows - 1},
 		{ic, 1}, {d.Cols - 1, jc}, {ic + 1, d.Rows - 1}, {1, jc + 1},

@@ -132,6 +132,12 @@ func allCodes() []Code {
 	var out []Code
 	for _, a := range aspects {
 		out = append(out, Code{Aspect: a.name}, Code{Aspect: a.name, Portrait: true})
+		for _, n := range []int{2, 3} {
+			if n == 3 && a.name == "1:1" {
+				continue // refused (tiling_test.go)
+			}
+			out = append(out, Code{Aspect: a.name, Sheets: n}, Code{Aspect: a.name, Portrait: true, Sheets: n})
+		}
 	}
 	return out
 }

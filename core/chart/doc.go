@@ -65,6 +65,16 @@
 // about the sheet's centre by 100 / measured, shrinking the chart first when
 // it enlarges the drawing so that it still fits the margins.
 //
+// # Across sheets
+//
+// Options.Sheets "2x2" or "3x3" draws a larger chart across that many sheets
+// of the paper (Code.Sheets, chart code "S1-3:2-L-2x2"): the design cut
+// along grid lines into pieces, each printed on its own sheet with four
+// marks of its own, its number and cutting and overlap guides (tiling.go,
+// sheets.go). Recognition finds one homography per sheet and the camera's
+// view of the assembled chart apart from the sheets' misalignment, ties
+// every target to its sheet, and measures the joins (photo_tiles.go).
+//
 // # The files
 //
 // Render writes PDF (page box the sheet in points, ISO 32000-1; the squares,

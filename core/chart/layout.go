@@ -42,6 +42,11 @@ type Layout struct {
 	Lines      []string
 	TextAt     [2]float64
 	TextSizeMM float64
+	// Piece is the sheet this layout prints of a chart across several
+	// (sheets.go); nil for a chart on one sheet. PieceMM is its printed
+	// position on this sheet: left, top, right, bottom, mm.
+	Piece   *Sheet
+	PieceMM [4]float64
 }
 
 // Sizes of the information strip, printed mm.
@@ -61,11 +66,20 @@ const (
 )
 
 // NewLayout places the chart for the options. Errors are OptionErrors in
-// plain words.
+// plain words. For a chart across several sheets it returns the first
+// sheet's layout (NewSheets gives them all); its ChartMM is the assembled
+// chart's size.
 func NewLayout(opt Options) (*Layout, error) {
 	s, err := opt.resolve()
 	if err != nil {
 		return nil, err
+	}
+	if s.sheets > 1 {
+		ls, err := newSheets(s)
+		if err != nil {
+			return nil, err
+		}
+		return ls[0], nil
 	}
 	d, err := NewDesign(Code{Aspect: aspects[s.aspect].name, Portrait: s.portrait})
 	if err != nil {

@@ -43,6 +43,14 @@ type Options struct {
 	// RulerMM times larger (or smaller) in the file, so that the same
 	// printer, at the same settings, prints the ruler at 100 mm.
 	RulerMM float64 `json:"ruler_measured_mm,omitempty"`
+	// Sheets is "" or "1x1" for a chart on one sheet, "2x2" or "3x3" for a
+	// larger chart drawn across that many sheets of Paper, to be cut and
+	// assembled on a wall (tiling.go, sheets.go).
+	Sheets string `json:"sheets,omitempty"`
+	// Sheet, for a chart across sheets, asks Render for one sheet only:
+	// 1 to N x N in reading order (the sheet "row-column" is (row - 1) N +
+	// column); 0 means every sheet.
+	Sheet int `json:"sheet,omitempty"`
 }
 
 // Paper sizes in millimetres, portrait (width <= height). ISO 216 for the A
@@ -104,6 +112,7 @@ type settings struct {
 	dpi            float64
 	highContrast   bool
 	rulerMM, scale float64 // measured ruler (0 if none) and the file scale 100/rulerMM
+	sheets         int     // 0 for one sheet, 2 or 3 for N x N sheets
 }
 
 // resolve checks the options and fills in the defaults.
@@ -171,6 +180,15 @@ func (o Options) resolve() (settings, error) {
 		s.highContrast = true
 	default:
 		return s, optErr("unknown contrast %q (choose 4:1 or high)", o.Contrast)
+	}
+	switch strings.ToLower(strings.ReplaceAll(strings.TrimSpace(o.Sheets), " ", "")) {
+	case "", "1x1", "1":
+	case "2x2", "2":
+		s.sheets = 2
+	case "3x3", "3":
+		s.sheets = 3
+	default:
+		return s, optErr("unknown sheet count %q (choose 1x1, 2x2 or 3x3)", o.Sheets)
 	}
 	s.scale = 1
 	if o.RulerMM != 0 {

@@ -40,6 +40,9 @@ func (l *Layout) Draw(c draw.Canvas) {
 	draw.BeginGroup(c, "squares", "slanted-edge squares")
 	var p draw.Path
 	for _, q := range d.Squares {
+		if !l.onPiece(q.X, q.Y) {
+			continue
+		}
 		p.Reset()
 		cs := q.Corners()
 		pts := make([]float64, 0, 8)
@@ -55,6 +58,9 @@ func (l *Layout) Draw(c draw.Canvas) {
 	draw.BeginGroup(c, "marks", "recognition marks")
 	black := color.Gray{Y: 0}
 	for _, m := range d.Marks {
+		if l.Piece != nil && m.Sheet != l.pieceIndex() {
+			continue
+		}
 		cx, cy := xy(m.X, m.Y)
 		r := m.R * k
 		p.Reset()
@@ -68,6 +74,9 @@ func (l *Layout) Draw(c draw.Canvas) {
 
 	draw.BeginGroup(c, "wedge", "grey steps for the tone curve")
 	for k, r := range d.Wedge.Steps {
+		if !l.onPiece(d.Wedge.X, d.Wedge.Y) {
+			break
+		}
 		x, y, pw, ph := d.Wedge.Patch(k)
 		p.Reset()
 		x0, y0 := xy(x-pw/2, y-ph/2)
@@ -79,16 +88,25 @@ func (l *Layout) Draw(c draw.Canvas) {
 
 	draw.BeginGroup(c, "sine", "sine stars and gratings")
 	for _, s := range d.Stars {
-		l.drawPattern(c, starPattern(l, s))
+		if l.onPiece(s.X, s.Y) {
+			l.drawPattern(c, starPattern(l, s))
+		}
 	}
 	for _, g := range d.Gratings {
-		l.drawPattern(c, gratingPattern(l, g))
+		if l.onPiece(g.X, g.Y) {
+			l.drawPattern(c, gratingPattern(l, g))
+		}
 	}
 	draw.EndGroup(c)
 
 	draw.BeginGroup(c, "frame", "corner marks of the chart frame")
 	l.drawCorners(c)
 	draw.EndGroup(c)
+	if l.Piece != nil {
+		draw.BeginGroup(c, "guides", "cutting and assembly guides")
+		l.drawGuides(c)
+		draw.EndGroup(c)
+	}
 	draw.BeginGroup(c, "ruler", "100 mm and 4 inch rulers")
 	l.drawRulers(c)
 	draw.EndGroup(c)
@@ -151,6 +169,9 @@ func (l *Layout) drawCorners(c draw.Canvas) {
 	w, h := l.ChartMM()
 	var p draw.Path
 	for _, s := range [4][2]float64{{-1, -1}, {1, -1}, {1, 1}, {-1, 1}} {
+		if !l.onPiece(s[0]*l.Design.W/2, s[1]*l.Design.H/2) {
+			continue
+		}
 		vx := l.CentreMM[0] + s[0]*(w/2+cornerOffMM+cornerWidthMM/2)
 		vy := l.CentreMM[1] + s[1]*(h/2+cornerOffMM+cornerWidthMM/2)
 		ax, ay := l.FileXY(vx-s[0]*cornerMarkMM, vy)

@@ -14,6 +14,12 @@ type Hit struct {
 	Edge  int     // square edge 1..4 (see Square), 0 otherwise
 	X, Y  float64 // the target's centre, chart units
 	Field float64 // the target centre's distance from the chart centre over the half diagonal
+	// Sheet is the number of the sheet the target is printed on ("1-2")
+	// on a chart across sheets, "" on one sheet; PlacedX, PlacedY are
+	// where its centre lies on the assembled chart (Pose.Placed), chart
+	// units: X, Y on one sheet.
+	Sheet            string
+	PlacedX, PlacedY float64
 }
 
 // Kinds of Hit.
@@ -35,8 +41,20 @@ const edgeTol = 0.15
 // point within edgeTol of a side of a square's edge (and within its length)
 // is on that edge.
 func (ps *Pose) Locate(x, y float64) Hit {
+	h := ps.locate(x, y)
+	if h.Kind == HitOutside || h.Kind == HitChart {
+		return h
+	}
+	h.PlacedX, h.PlacedY = ps.Placed(h.X, h.Y)
+	if sp := ps.sheetOf(h.X, h.Y); sp != nil {
+		h.Sheet = sp.Sheet.Name()
+	}
+	return h
+}
+
+func (ps *Pose) locate(x, y float64) Hit {
 	d := ps.Design
-	u, v := ps.Inv.Apply(x, y)
+	u, v := ps.designXY(x, y)
 	if math.IsNaN(u) || math.IsNaN(v) || math.Abs(u) > d.W/2 || math.Abs(v) > d.H/2 {
 		return Hit{Kind: HitOutside}
 	}
@@ -66,7 +84,11 @@ func (ps *Pose) Locate(x, y float64) Hit {
 	}
 	for _, m := range d.Marks {
 		if math.Hypot(u-m.X, v-m.Y) <= m.R {
-			return Hit{Kind: HitMark, ID: fmt.Sprintf("mark%d", m.Index), X: m.X, Y: m.Y, Field: d.Field(m.X, m.Y)}
+			id := fmt.Sprintf("mark%d", m.Index)
+			if len(d.Sheets) > 0 {
+				id = fmt.Sprintf("mark%d-%s", m.Index, d.Sheets[m.Sheet].Name())
+			}
+			return Hit{Kind: HitMark, ID: id, X: m.X, Y: m.Y, Field: d.Field(m.X, m.Y)}
 		}
 	}
 	return Hit{Kind: HitChart}
@@ -79,7 +101,7 @@ const wedgeTol = 0.01
 // InFrame reports whether the chart point (x, y) maps inside the photo with
 // margin px to spare.
 func (ps *Pose) InFrame(x, y, margin float64) bool {
-	u, v := ps.H.Apply(x, y)
+	u, v := ps.ImageXY(x, y)
 	return u >= margin && v >= margin && u <= float64(ps.W)-margin && v <= float64(ps.Hpx)-margin
 }
 
@@ -286,7 +308,7 @@ func (ps *Pose) OnCornerMark(x, y, chartMM float64) bool {
 		return false
 	}
 	d := ps.Design
-	u, v := ps.Inv.Apply(x, y)
+	u, v := ps.designXY(x, y)
 	if math.IsNaN(u) || math.IsNaN(v) {
 		return false
 	}

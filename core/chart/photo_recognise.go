@@ -15,7 +15,11 @@ type FoundMark struct {
 	XPx    float64 // centre of its disc, image px
 	YPx    float64
 	Errors int // code sectors read wrongly and corrected (0 or 1)
+	// Sheet is the sheet the mark is printed on, for a chart across
+	// several sheets (Design.Sheets); 0 otherwise.
+	Sheet  int
 	code   int
+	turn   float64 // direction of the chart's +x at the mark, degrees in the image (from its ring)
 	margin float64 // weakest sector's distance from the threshold, in units of the contrast
 	rPx    float64 // disc radius, px (geometric mean of the ellipse's semi-axes)
 }
@@ -37,6 +41,12 @@ type Pose struct {
 	// ResidualPx is the largest distance between a mark's found centre and
 	// where the pose puts it, px.
 	ResidualPx float64
+	// Sheets are the poses of the sheets of a chart across several
+	// (photo_tiles.go), in Design.Sheets' order; nil for one sheet. H and
+	// Inv are then the one homography that fits all marks best: the
+	// assembled chart as a whole, whose chart units are positions on the
+	// wall.
+	Sheets []SheetPose
 }
 
 // Recognise looks for a Sagitta chart in a linear-light photo. It returns
@@ -74,6 +84,9 @@ func Recognise(p *plane.Plane) (*Pose, note.Note) {
 			code, best = c, n
 		}
 	}
+	if tiled, n := tiledMarks(marks, code); tiled {
+		return recogniseTiles(p, code, n, marks)
+	}
 	byIndex := map[int]FoundMark{}
 	for _, m := range marks {
 		if m.code != code {
@@ -104,13 +117,13 @@ func Recognise(p *plane.Plane) (*Pose, note.Note) {
 		tol := math.Max(2, 0.01*pose.markSpacingPx())
 		if res <= tol {
 			if !pose.sizesAgree() {
-				return nil, disagree
+				return nil, disagreeOrOneSheet(use, disagree)
 			}
 			pose.W, pose.Hpx = p.W, p.H
 			return pose, note.Note{}
 		}
 		if len(use) <= 4 {
-			return nil, disagree
+			return nil, disagreeOrOneSheet(use, disagree)
 		}
 		use = append(use[:worst], use[worst+1:]...)
 	}
@@ -122,7 +135,8 @@ func fitPose(d *Design, use []FoundMark) (*Pose, int, float64) {
 	src := make([][2]float64, len(use))
 	dst := make([][2]float64, len(use))
 	for i, m := range use {
-		src[i] = [2]float64{d.Marks[m.Index].X, d.Marks[m.Index].Y}
+		dm := d.markOf(m)
+		src[i] = [2]float64{dm.X, dm.Y}
 		dst[i] = [2]float64{m.XPx, m.YPx}
 	}
 	var h Homography
@@ -171,7 +185,7 @@ func (ps *Pose) markSpacingPx() float64 {
 // mirror image).
 func (ps *Pose) sizesAgree() bool {
 	for _, m := range ps.Marks {
-		dm := ps.Design.Marks[m.Index]
+		dm := ps.Design.markOf(m)
 		j := ps.H.Jacobian(dm.X, dm.Y)
 		det := j[0][0]*j[1][1] - j[0][1]*j[1][0]
 		if !(det > 0) {
@@ -231,7 +245,7 @@ func readMark(p *plane.Plane, d disc) (FoundMark, bool) {
 			}
 			margin = math.Min(margin, math.Abs(m-thr)/span)
 		}
-		v, _, dist, good := decodeWord(word)
+		v, shift, dist, good := decodeWord(word)
 		if !good || margin < minMargin {
 			continue
 		}
@@ -239,7 +253,11 @@ func readMark(p *plane.Plane, d disc) (FoundMark, bool) {
 			bestErr, bestMargin = dist, margin
 			l1, l2 := eigen2(d.sxx, d.sxy, d.syy)
 			found = FoundMark{Index: v % marksPerChart, XPx: d.x, YPx: d.y, Errors: dist, code: v / marksPerChart,
-				margin: margin, rPx: 2 * math.Pow(l1*l2, 0.25)}
+				margin: margin, rPx: 2 * math.Pow(l1*l2, 0.25),
+				// Reading sector i starts at sample o + 8i, angle 360 (o +
+				// 8i) / 128 in the image, and holds the mark's sector i +
+				// shift, which starts at 22.5 (i + shift) on the chart.
+				turn: math.Mod(360*float64(o)/n-22.5*float64(shift)+720, 360)}
 			ok = true
 		}
 	}

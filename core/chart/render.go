@@ -1,6 +1,7 @@
 package chart
 
 import (
+	"archive/zip"
 	"bytes"
 	"errors"
 	"fmt"
@@ -21,12 +22,81 @@ const (
 // (case does not matter) and returns its bytes. Errors are in plain words:
 // an OptionError for options that make no chart, a FormatError for an
 // unknown format, and an OptionError when a PNG would be too large.
+//
+// A chart across several sheets (Options.Sheets) is one PDF with a page per
+// sheet, or for SVG and PNG a ZIP archive holding one file per sheet, named
+// as SheetFiles names them; Options.Sheet asks for one sheet's file.
 func Render(opt Options, format string) ([]byte, error) {
-	l, err := NewLayout(opt)
+	ls, err := NewSheets(opt)
 	if err != nil {
 		return nil, err
 	}
-	return l.Render(format)
+	if opt.Sheet != 0 {
+		if opt.Sheet < 0 || opt.Sheet > len(ls) {
+			return nil, optErr("there is no sheet %d: the chart has %d", opt.Sheet, len(ls))
+		}
+		return ls[opt.Sheet-1].Render(format)
+	}
+	if len(ls) == 1 {
+		return ls[0].Render(format)
+	}
+	if strings.EqualFold(strings.TrimPrefix(format, "."), FormatPDF) {
+		c, err := draw.NewPDF(ls[0].PageW, ls[0].PageH)
+		if err != nil {
+			return nil, optErr("the sheet %g x %g mm cannot be a PDF page: %v", ls[0].PageW, ls[0].PageH, err)
+		}
+		for i, l := range ls {
+			if i > 0 {
+				c.NewPage()
+			}
+			l.Draw(c)
+		}
+		return c.Bytes(), nil
+	}
+	files, err := SheetFiles(ls, "chart", format)
+	if err != nil {
+		return nil, err
+	}
+	var buf bytes.Buffer
+	z := zip.NewWriter(&buf)
+	for _, f := range files {
+		w, err := z.Create(f.Name)
+		if err != nil {
+			return nil, err
+		}
+		if _, err := w.Write(f.Bytes); err != nil {
+			return nil, err
+		}
+	}
+	if err := z.Close(); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+// SheetFile is one sheet's file of a chart across several sheets.
+type SheetFile struct {
+	Name  string // base + "-" + the sheet's number + "." + format, e.g. "chart-1-2.svg"
+	Bytes []byte
+}
+
+// SheetFiles renders each sheet's layout as its own file in format "svg",
+// "png" or "pdf", named base-ROW-COLUMN.format.
+func SheetFiles(ls []*Layout, base, format string) ([]SheetFile, error) {
+	ext := strings.ToLower(strings.TrimPrefix(format, "."))
+	out := make([]SheetFile, 0, len(ls))
+	for _, l := range ls {
+		b, err := l.Render(ext)
+		if err != nil {
+			return nil, err
+		}
+		name := base + "." + ext
+		if l.Piece != nil {
+			name = base + "-" + l.Piece.Name() + "." + ext
+		}
+		out = append(out, SheetFile{Name: name, Bytes: b})
+	}
+	return out, nil
 }
 
 // FormatError reports an output format Render does not write.
@@ -61,7 +131,11 @@ func (l *Layout) Render(format string) ([]byte, error) {
 		if err != nil {
 			return nil, optErr("the sheet %g x %g mm cannot be an SVG page: %v", l.PageW, l.PageH, err)
 		}
-		c.SetTitle("Sagitta sharpness chart " + l.Design.Code.String())
+		title := "Sagitta sharpness chart " + l.Design.Code.String()
+		if l.Piece != nil {
+			title += ", sheet " + l.Piece.Name()
+		}
+		c.SetTitle(title)
 		l.Draw(c)
 		return c.Bytes(), nil
 	case FormatPNG:

@@ -38,6 +38,10 @@ const (
 	// ChartMarksDisagree: the marks read do not fit one chart (two charts,
 	// or a damaged mark).
 	ChartMarksDisagree Code = "chart-marks-disagree"
+	// ChartOneSheet: the marks read are those of one sheet of a chart
+	// across sheets (core/chart, photo_tiles.go); the whole assembled chart
+	// must be in the photo.
+	ChartOneSheet Code = "chart-one-sheet"
 	// SetupCover: the chart fills too little of the frame.
 	SetupCover Code = "setup-cover"
 	// SetupCutOff: part of the chart lies outside the frame.
@@ -52,6 +56,10 @@ const (
 	SetupTilted Code = "setup-tilted"
 	// SetupOffCentre: the chart's centre is away from the frame's centre.
 	SetupOffCentre Code = "setup-off-centre"
+	// SetupSheetsMisaligned: two neighbouring sheets of a chart across
+	// sheets are hung apart, overlapping, shifted or turned against each
+	// other by more than the seam limits (core/chart, photo_tiles.go).
+	SetupSheetsMisaligned Code = "setup-sheets-misaligned"
 )
 
 // Analysis warnings, in Image.warnings.

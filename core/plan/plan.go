@@ -122,8 +122,12 @@ type Plan struct {
 	Verdict           string  `json:"verdict"`
 	// Summary says the verdict in words; Advice what to change; Warnings
 	// other cautions, with their codes aligned in WarningCodes (core/note).
-	Summary      string   `json:"summary"`
-	Advice       []string `json:"advice"`
+	Summary string   `json:"summary"`
+	Advice  []string `json:"advice"`
+	// Tiling, when one sheet limits the measurement (verdict not "fine")
+	// and the chart is on one sheet, is the chart across 2 x 2 or 3 x 3
+	// sheets of the same paper that would serve (tiling.go).
+	Tiling       *Tiling  `json:"tiling,omitempty"`
 	Warnings     []string `json:"warnings"`
 	WarningCodes []string `json:"warning_codes"`
 

@@ -49,6 +49,7 @@ func (p *Plan) verdict(opt Options, co chart.Options, pr printer) {
 	}
 	if p.Verdict != VerdictFine {
 		p.advise(opt, co, pr, crit)
+		p.proposeTiling(opt, co, pr)
 	}
 	if p.Nyquist == nil {
 		p.warn(note.PlanNoPitch, "Give the pixel pitch (or the photo's size in pixels) to check the print up to the sensor's Nyquist frequency.")

@@ -85,11 +85,23 @@ test('an aperture series: compare sorted by f-number, rename, printable report',
   await page.waitForFunction(() => /Not a turned pair: .*one stop/.test(document.querySelector('#series-turned')?.textContent || ''));
   await page.check('.pick li:nth-child(3) input[type=checkbox]');
 
-  // The printable report of the selected photo, as the browser prints it.
+  // The printable report of the selected photo, as the browser prints it,
+  // with the series of the photos ticked in Compare after it: the core's
+  // aperture-series figure and the same sharpest-stop words as the tool's.
   await page.click('#tab-measure');
   await page.click('.photo:nth-child(2) .open');
   await page.waitForFunction(() => document.getElementById('result-title')?.textContent === 'f/2.8, 35 mm' || document.getElementById('result-title')?.textContent === 'wide open');
+  await page.evaluate(() => {
+    window.print = () => {}; // the test prints through page.pdf below
+  });
+  await page.click('#export-menu summary');
+  await page.click('#export-report');
+  await page.waitForFunction(() => document.querySelector('#report-series svg'));
+  assert.equal(await page.textContent('#report-series-aperture'), seriesText);
+  assert.ok(await page.$eval('#report-series svg', (s) => [...s.querySelectorAll('text')].some((t) => t.textContent === 'Sharpness at each f-number')));
+  assert.equal(await page.isVisible('#report-series'), false, 'the series is for the printed report only');
   await page.emulateMedia({ media: 'print' });
+  assert.equal(await page.isVisible('#report-series'), true, 'the printed report shows the series');
   await shot(page, '23-report-print-media', { fullPage: true });
   const pdf = path.join(OUT, 'report.pdf');
   await page.pdf({ path: pdf, format: 'A4', printBackground: true });
@@ -99,6 +111,52 @@ test('an aperture series: compare sorted by f-number, rename, printable report',
   assert.ok(pages >= 1 && pages <= 6, `report has ${pages} pages`);
   for (const f of fs.readdirSync(OUT)) if (f.startsWith('24-report-page')) fs.rmSync(path.join(OUT, f));
   run('pdftoppm', ['-png', '-r', '50', pdf, path.join(OUT, '24-report-page')]);
+  // The PDF's text holds the series (poppler's pdftotext).
+  const text = run('pdftotext', [pdf, '-']).replace(/\s+/g, ' ');
+  assert.ok(text.includes('Sharpest aperture') && text.includes(seriesText.replace(/\s+/g, ' ').slice(0, 60)), 'the report PDF lacks the series');
+  assert.deepEqual(errors, []);
+  await context.close();
+});
+
+test('a turned pair in the printable report: the split into lens and set-up', async () => {
+  // Two photos of one set-up at one stop (different noise): a pair the
+  // core splits (whatever its verdict; the words are the tool's).
+  const files = ['1', '2'].map((k) => testPhoto(`pair-${k}.jpg`, ['-w', '1500', '-h', '1000', '-f', '5.6', '-seed', k]));
+  const context = await env.browser.newContext({ viewport: { width: 1400, height: 1000 } });
+  const page = await context.newPage();
+  const errors = [];
+  page.on('pageerror', (e) => errors.push(e.message));
+  await page.goto(env.server.url);
+  await waitEngine(page);
+  await dropFiles(page, files);
+  assert.equal(await waitStatus(page, ['done', 'error']), 'done');
+  await page.click('#tab-compare');
+  await page.selectOption('#series-turn', '180');
+  await page.waitForFunction(() => document.querySelector('#series-turned .verdict'));
+  const want = JSON.parse(cli(['--json', '--turned', '180'], files)).turned_pair;
+  assert.equal(await page.textContent('#series-turned .verdict'), want.text);
+  await page.click('#tab-measure');
+  await page.evaluate(() => {
+    window.print = () => {};
+  });
+  await page.click('#export-menu summary');
+  await page.click('#export-report');
+  await page.waitForFunction(() => document.querySelector('#report-series-split'));
+  assert.equal(await page.textContent('#report-series-turned'), want.text);
+  // One row per field frequency, the lens and set-up parts as the tool
+  // gives them, to two decimals.
+  const rows = await page.$$eval('#report-series-split tbody tr', (trs) => trs.map((tr) => [...tr.cells].map((c) => c.textContent)));
+  assert.equal(rows.length, want.by_freq.length);
+  want.by_freq.forEach((b, i) => {
+    assert.equal(rows[i][0], `${b.freq_lp_mm} lp/mm`);
+    [b.lens_left_right, b.lens_top_bottom, b.setup_left_right, b.setup_top_bottom].forEach((q, k) => {
+      const cell = rows[i][k + 1];
+      if (q.diff == null) assert.equal(cell, 'n/a');
+      else assert.ok(Math.abs(parseFloat(cell) - q.diff) <= 0.005 + 1e-9, `${b.freq_lp_mm} lp/mm part ${k}: page ${cell}, tool ${q.diff}`);
+    });
+  });
+  await page.emulateMedia({ media: 'print' });
+  await shot(page, '25-report-turned-pair', { fullPage: true });
   assert.deepEqual(errors, []);
   await context.close();
 });

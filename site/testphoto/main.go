@@ -33,19 +33,30 @@ func main() {
 	pitch := flag.Float64("pitch-um", 4.35, "pixel pitch, um (written to Exif as the focal-plane resolution)")
 	seed := flag.Uint64("seed", 1, "noise seed")
 	onChart := flag.Bool("chart", false, "photograph Sagitta's printed chart (3:2, core/chart) instead of the grid of squares, turned 2 degrees away")
+	sheets := flag.Bool("sheets", false, "with -chart: the chart across 2 x 2 A4 sheets, each hung up to 2 mm off and turned up to 1 degree")
 	patterns := flag.Bool("patterns", false, "add a sine star at the centre and a set of sine gratings below it")
 	orient := flag.Int("orientation", 0, "Exif orientation to write (1..8; 0 = none): how a viewer should turn the stored pixels")
 	out := flag.String("o", "photo.jpg", "output file: .jpg, .png, .tif or .dng")
 	flag.Parse()
-	if err := run(*w, *h, *fnum, *pitch, *seed, *orient, *patterns, *onChart, *out); err != nil {
+	if err := run(*w, *h, *fnum, *pitch, *seed, *orient, *patterns, *onChart, *sheets, *out); err != nil {
 		fmt.Fprintln(os.Stderr, "testphoto: "+err.Error())
 		os.Exit(1)
 	}
 }
 
-func run(w, h int, fnum, pitch float64, seed uint64, orient int, patterns, onChart bool, out string) error {
+func run(w, h int, fnum, pitch float64, seed uint64, orient int, patterns, onChart, sheets bool, out string) error {
 	scene := chart(w, h)
-	if onChart {
+	switch {
+	case onChart && sheets:
+		ls, err := sheet.NewSheets(sheet.Options{Sheets: "2x2"})
+		if err != nil {
+			return err
+		}
+		d := ls[0].Design
+		v := chartsim.View{W: w, H: h, Fill: 0.96, YawDeg: 2, FocalPx: 2 * float64(w)}
+		hung := []chartsim.Hung{{DXMM: 1.5, DYMM: -1, TurnDeg: 0.6}, {DXMM: -2, DYMM: 1, TurnDeg: -0.4}, {DXMM: 1, DYMM: 2, TurnDeg: 0.3}, {DXMM: -1, DYMM: -1.5, TurnDeg: -1}}
+		scene = chartsim.TiledScene(d, v.Homography(d), hung, ls[0].UnitMM, chartsim.Print{})
+	case onChart:
 		d, err := sheet.NewDesign(sheet.Code{Aspect: "3:2"})
 		if err != nil {
 			return err

@@ -22,10 +22,11 @@ func chartFlags(fs *flag.FlagSet) func() (chart.Options, error) {
 		dpi      = fs.Float64("dpi", 0, "printer resolution, dots per inch (default 600)")
 		contrast = fs.String("contrast", "4:1", "4:1 (dark parts reflect a quarter of the paper's light) or high (black ink)")
 		ruler    = fs.Float64("ruler-measured-mm", 0, "length you measured on a printout of the 100 mm ruler; the chart is redrawn so it prints at 100 mm")
+		sheets   = fs.String("sheets", "1x1", "1x1, or 2x2 or 3x3 for a larger chart across that many sheets, cut and assembled on a wall")
 	)
 	return func() (chart.Options, error) {
 		o := chart.Options{Paper: *paper, Orientation: *orient, Aspect: *aspect, MarginMM: *margin, DPI: *dpi,
-			Contrast: *contrast, RulerMM: *ruler}
+			Contrast: *contrast, RulerMM: *ruler, Sheets: *sheets}
 		if strings.ContainsAny(*paper, "xX") && !strings.EqualFold(*paper, "tabloid") {
 			wh, err := pair(*paper, "x")
 			if err != nil {
@@ -67,23 +68,46 @@ func cmdChart(args []string, stdout io.Writer) error {
 	if err != nil {
 		return fmt.Errorf("%w: %v", errUsage, err)
 	}
-	l, err := chart.NewLayout(opt)
+	ls, err := chart.NewSheets(opt)
 	if err != nil {
 		return err
 	}
-	b, err := l.Render(ext)
-	if err != nil {
-		return err
+	l := ls[0]
+	var files []chart.SheetFile
+	if len(ls) > 1 && ext != chart.FormatPDF {
+		// One file per sheet, named after the sheet: chart-1-1.svg ...
+		base := strings.TrimSuffix(*out, filepath.Ext(*out))
+		if files, err = chart.SheetFiles(ls, base, ext); err != nil {
+			return err
+		}
+	} else {
+		b, err := chart.Render(opt, ext)
+		if err != nil {
+			return err
+		}
+		files = []chart.SheetFile{{Name: *out, Bytes: b}}
 	}
-	if err := os.WriteFile(*out, b, 0o644); err != nil {
-		return fmt.Errorf("cannot write %s: %v", *out, unwrapPath(err))
+	for _, f := range files {
+		if err := os.WriteFile(f.Name, f.Bytes, 0o644); err != nil {
+			return fmt.Errorf("cannot write %s: %v", f.Name, unwrapPath(err))
+		}
 	}
 	w, h := l.ChartMM()
 	orient := "landscape"
 	if l.Portrait {
 		orient = "portrait"
 	}
-	fmt.Fprintf(stdout, "wrote %s: %s %s, chart %s (%.1f x %.1f mm), %g dpi\n", *out, l.Paper, orient, l.Design.Code, w, h, l.DPI)
+	names := files[0].Name
+	if len(files) > 1 {
+		names = fmt.Sprintf("%s ... %s", files[0].Name, files[len(files)-1].Name)
+	}
+	if len(ls) > 1 {
+		n := l.Design.Code.Sheets
+		fmt.Fprintf(stdout, "wrote %s: %d x %d sheets %s %s, chart %s (%.1f x %.1f mm assembled), %g dpi\n", names, n, n, l.Paper, orient, l.Design.Code, w, h, l.DPI)
+		fmt.Fprintln(stdout, "Cut each sheet on its dashed lines and lay the cut edge on the next sheet's solid line; hang the assembled chart flat.")
+	} else {
+		fmt.Fprintf(stdout, "wrote %s: %s %s, chart %s (%.1f x %.1f mm), %g dpi\n", names, l.Paper, orient, l.Design.Code, w, h, l.DPI)
+	}
 	fmt.Fprintln(stdout, "Print at 100 % (no fit to page) and measure the 100 mm ruler; if it is off, run again with --ruler-measured-mm.")
 	for _, n := range l.Notes() {
 		fmt.Fprintln(stdout, "Note: "+n)

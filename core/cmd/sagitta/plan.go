@@ -106,6 +106,9 @@ func writePlan(w io.Writer, opt plan.Options, p plan.Plan) {
 	for _, a := range p.Advice {
 		fmt.Fprintf(w, "  - %s\n", a)
 	}
+	if t := p.Tiling; t != nil && t.Enough {
+		fmt.Fprintf(w, "Across sheets:  sagitta chart --sheets %s -o chart.pdf (%.0f x %.0f mm; %.0f mm from the lens to the chart)\n", t.Sheets, t.ChartMM[0], t.ChartMM[1], t.ObjectDistanceMM)
+	}
 	for _, a := range p.Warnings {
 		fmt.Fprintf(w, "Note: %s\n", a)
 	}

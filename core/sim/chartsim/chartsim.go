@@ -202,6 +202,12 @@ const arcTolPx = 0.05
 // perspective; within the perspective's change of scale across one target
 // otherwise).
 func Scene(d *chart.Design, h chart.Homography, pr Print) simcam.Scene {
+	return scene(d, h, pr, func(x, y float64) bool { return true })
+}
+
+// scene is Scene drawing the frame's corner marks at the frame corners
+// (x, y) for which corner is true.
+func scene(d *chart.Design, h chart.Homography, pr Print, corner func(x, y float64) bool) simcam.Scene {
 	pr = pr.withDefaults()
 	s := simcam.Scene{Background: pr.Paper}
 	mp := func(x, y float64) [2]float64 {
@@ -234,6 +240,9 @@ func Scene(d *chart.Design, h chart.Homography, pr Print) simcam.Scene {
 			return simcam.Polygon{Pts: [][2]float64{mp(x0, y0), mp(x1, y0), mp(x1, y1), mp(x0, y1)}, Level: ink}
 		}
 		for _, sg := range [4][2]float64{{-1, -1}, {1, -1}, {1, 1}, {-1, 1}} {
+			if !corner(sg[0]*d.W/2, sg[1]*d.H/2) {
+				continue
+			}
 			vx, vy := sg[0]*(d.W/2+off), sg[1]*(d.H/2+off)
 			s.Polygons = append(s.Polygons,
 				rect(math.Min(vx, vx-sg[0]*arm), vy-hw, math.Max(vx, vx-sg[0]*arm), vy+hw),
