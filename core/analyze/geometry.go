@@ -35,7 +35,7 @@ func samplePaper(img *Image, p *plane.Plane, pose *chart.Pose) {
 	}
 	img.Falloff = &Falloff{Patches: []FalloffPatch{}}
 	for _, b := range blanks(pose) {
-		u, v := pose.H.Apply(b[0], b[1])
+		u, v := pose.ImageXY(b[0], b[1])
 		m, n := meanIn(p, pose, b[0]-b[2], b[1]-b[2], b[0]+b[2], b[1]+b[2])
 		if n < minPatchPx {
 			continue
@@ -88,12 +88,34 @@ func paperAround(pose *chart.Pose, x, y, r float64) bool {
 			s, c := math.Sincos(float64(k) * math.Pi / 8)
 			px, py = x+r*c, y+r*s
 		}
-		u, v := pose.H.Apply(px, py)
-		if hit := pose.Locate(u, v); hit.Kind != chart.HitChart || !pose.InFrame(px, py, 1) {
+		u, v := pose.ImageXY(px, py)
+		if hit := pose.Locate(u, v); hit.Kind != chart.HitChart || !pose.InFrame(px, py, 1) || nearSeam(pose, px, py) {
 			return false
 		}
 	}
 	return true
+}
+
+// nearSeam reports whether the chart point (x, y) lies on a join of a
+// chart across sheets, where cutting and overlap guides are printed and
+// two sheets' paper meet: within 1 % of the chart's short side of an edge
+// of its sheet that is not the chart's own border.
+func nearSeam(pose *chart.Pose, x, y float64) bool {
+	d := pose.Design
+	if len(d.Sheets) == 0 {
+		return false
+	}
+	m := 0.01 * math.Min(d.W, d.H)
+	for _, sh := range d.Sheets {
+		if !sh.Contains(x, y) {
+			continue
+		}
+		inner := func(v, edge, border float64) bool { return math.Abs(v-edge) < m && math.Abs(edge-border) > 1e-9 }
+		if inner(x, sh.X0, -d.W/2) || inner(x, sh.X1, d.W/2) || inner(y, sh.Y0, -d.H/2) || inner(y, sh.Y1, d.H/2) {
+			return true
+		}
+	}
+	return false
 }
 
 // summariseGeometry fits the distortion and the fall-off for the field
@@ -111,6 +133,13 @@ func summariseGeometry(img *Image, geo field.Geometry) {
 func distortionOf(img *Image, fr distortion.Frame) *Distortion {
 	if img.Chart == nil {
 		return distortionFromEdges(img, fr)
+	}
+	if len(img.Chart.Sheets) > 0 {
+		// Each sheet hangs a little off (up to millimetres): one homography
+		// for the whole chart does not hold, and each sheet's own takes up
+		// part of the distortion.
+		return &Distortion{Reason: "not measured: the chart is printed across sheets, which never hang exactly in line; photograph a chart on one sheet for distortion",
+			ReasonCode: string(note.DistortionTiled)}
 	}
 	pts := chartPoints(img)
 	fit, err := distortion.FitChart(pts, [9]float64(img.Chart.Homography), fr)

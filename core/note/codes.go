@@ -245,6 +245,9 @@ const (
 	// DistortionFewPoints: the chart was recognised but too few of its
 	// targets were located to fit the distortion.
 	DistortionFewPoints Code = "distortion-few-points"
+	// DistortionTiled: the chart is printed across sheets; their small
+	// misalignments would read as distortion, so it is not measured.
+	DistortionTiled Code = "distortion-tiled"
 	// DistortionSetup: the chart's set-up checks warn (turned, tilted, not
 	// filling the frame): the fitted distortion is unreliable.
 	DistortionSetup Code = "distortion-setup"

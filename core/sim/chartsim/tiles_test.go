@@ -99,6 +99,21 @@ func TestTiledEndToEnd(t *testing.T) {
 	if len(cr.Seams) != 4 || warned == 0 {
 		t.Errorf("%d seams, %d warned, want 4 seams and the misaligned ones warned", len(cr.Seams), warned)
 	}
+	// Distortion needs one homography for the whole chart, which sheets
+	// hung apart break: not measured, with its reason. The paper's light is
+	// read through each sheet's own homography, away from the joins; this
+	// camera adds no fall-off, so every patch reads the centre's level.
+	if d := img.Distortion; d == nil || d.Measured || d.ReasonCode != string(note.DistortionTiled) {
+		t.Errorf("distortion on a chart across sheets: %+v, want not measured (%s)", d, note.DistortionTiled)
+	}
+	if f := img.Falloff; f == nil || !f.Measured {
+		t.Errorf("light fall-off not measured on a chart across sheets: %+v", f)
+	} else {
+		t.Logf("fall-off: %d patches, corner %.4f EV, rms %.4f EV", f.Points, f.CornerEV, f.ResidualEV)
+		if math.Abs(f.CornerEV) > 0.02 || f.ResidualEV > 0.02 {
+			t.Errorf("fall-off on an evenly lit chart across sheets: corner %.4f EV, rms %.4f EV, want within 0.02", f.CornerEV, f.ResidualEV)
+		}
+	}
 	js, err := json.Marshal(img)
 	if err != nil {
 		t.Fatal(err)
