@@ -143,9 +143,19 @@ const fitBandPx = 12
 // within returns the samples within band px (across the region) of the
 // fitted line.
 func within(s samples, f lineFit, band float64) samples {
-	var out samples
+	in := func(i int) bool {
+		return math.Abs(s.w[i]-f.Rho-f.Alpha*s.u[i]-f.Kappa*s.u[i]*s.u[i]) <= band
+	}
+	n := 0
 	for i := range s.v {
-		if math.Abs(s.w[i]-f.Rho-f.Alpha*s.u[i]-f.Kappa*s.u[i]*s.u[i]) <= band {
+		if in(i) {
+			n++
+		}
+	}
+	buf := make([]float64, 3*n) // one allocation for the three columns
+	out := samples{u: buf[:0:n], w: buf[n : n : 2*n], v: buf[2*n : 2*n : 3*n]}
+	for i := range s.v {
+		if in(i) {
 			out.u = append(out.u, s.u[i])
 			out.w = append(out.w, s.w[i])
 			out.v = append(out.v, s.v[i])
@@ -161,23 +171,21 @@ func levenberg(f *lineFit, s samples, halfLen float64) bool {
 	const np = 6
 	// p: Dark, Step, Width, Rho, Alpha*L, Kappa*L^2
 	p := [np]float64{f.Dark, f.Step, f.Width, f.Rho, f.Alpha * halfLen, f.Kappa * halfLen * halfLen}
-	cost := func(p [np]float64) float64 {
+	un := make([]float64, len(s.u))
+	for i, u := range s.u {
+		un[i] = u / halfLen
+	}
+	// eval returns the cost (sum of squared residuals) at p and the normal
+	// equations' J^T J (lower triangle) and J^T r there, in one pass: the
+	// step accepted at one iteration is where the next linearises, so each
+	// exponential is taken once.
+	eval := func(p [np]float64, jtj *[np][np]float64, jtr *[np]float64) float64 {
+		*jtj, *jtr = [np][np]float64{}, [np]float64{}
 		var c float64
 		for i := range s.v {
-			r := s.v[i] - model(p, s.u[i]/halfLen, s.w[i])
-			c += r * r
-		}
-		return c
-	}
-	lambda := 1e-3
-	c0 := cost(p)
-	for iter := 0; iter < 60; iter++ {
-		var jtj [np][np]float64
-		var jtr [np]float64
-		for i := range s.v {
-			un := s.u[i] / halfLen
 			var g [np]float64
-			r := s.v[i] - modelGrad(p, un, s.w[i], &g)
+			r := s.v[i] - modelGrad(p, un[i], s.w[i], &g)
+			c += r * r
 			for a := 0; a < np; a++ {
 				jtr[a] += g[a] * r
 				for b := 0; b <= a; b++ {
@@ -185,6 +193,13 @@ func levenberg(f *lineFit, s samples, halfLen float64) bool {
 				}
 			}
 		}
+		return c
+	}
+	lambda := 1e-3
+	var jtj, qtj [np][np]float64
+	var jtr, qtr [np]float64
+	c0 := eval(p, &jtj, &jtr)
+	for iter := 0; iter < 60; iter++ {
 		for a := 0; a < np; a++ {
 			for b := a + 1; b < np; b++ {
 				jtj[a][b] = jtj[b][a]
@@ -212,10 +227,11 @@ func levenberg(f *lineFit, s samples, halfLen float64) bool {
 			if q[2] <= 0.02 {
 				q[2] = 0.02
 			}
-			c1 := cost(q)
+			c1 := eval(q, &qtj, &qtr)
 			if c1 < c0 {
 				small := math.Abs(dp[3]) < 1e-4 && math.Abs(dp[4]) < 1e-4 && math.Abs(dp[5]) < 1e-4 || c0-c1 < 1e-10*c0
 				p, c0 = q, c1
+				jtj, jtr = qtj, qtr
 				lambda = max(lambda/10, 1e-9)
 				improved = true
 				if small {
@@ -233,11 +249,6 @@ func levenberg(f *lineFit, s samples, halfLen float64) bool {
 		Alpha: p[4] / halfLen, Kappa: p[5] / (halfLen * halfLen),
 		RMS: math.Sqrt(c0 / float64(len(s.v)))}
 	return !math.IsNaN(c0)
-}
-
-func model(p [6]float64, un, w float64) float64 {
-	var g [6]float64
-	return modelGrad(p, un, w, &g)
 }
 
 // modelGrad evaluates v = Dark + Step*L(d/Width) with the logistic
