@@ -48,7 +48,8 @@ type Sharpening struct {
 	// "above-diffraction-limit". Empty when the edge shows none.
 	Signs []string
 	// LobeZ is the deepest lobe in standard errors of the noise (0 when
-	// none dips beyond the plateaus).
+	// none dips beyond the plateaus), at most maxLobeZ (a plateau without
+	// noise).
 	LobeZ float64
 	// LobeDepth is the deepest lobe as a fraction of the step.
 	LobeDepth float64
@@ -61,6 +62,7 @@ type Sharpening struct {
 const (
 	lobeZ             = 5     // lobe depth in standard errors (Gaussian tail 3e-7 per window)
 	lobeFloor         = 0.012 // smallest lobe counted, fraction of the step: above the ringing of JPEG compression at quality 75 and better (up to 1.0 % on simulated edges) and of 8-bit quantisation
+	maxLobeZ          = 1000  // the lobe's size in standard errors reported when the plateau has no noise (JSON has no infinity)
 	riseZ             = 4     // rise above 1 or above the limit, standard errors
 	riseFloor         = 0.01  // smallest rise counted
 	boundFloor        = 0.01  // smallest excess over the diffraction limit counted
@@ -147,9 +149,9 @@ func judgeSharpening(m *Measurement, s samples, f lineFit, sdDark, sdLight float
 			continue
 		}
 		se := sd * math.Sqrt(1/sc+1/math.Max(np, 1))
-		z := math.Inf(1)
+		z := float64(maxLobeZ) // no noise on the plateau: beyond any threshold
 		if se > 0 {
-			z = exc / se
+			z = math.Min(exc/se, maxLobeZ)
 		}
 		if exc > lobeFloor*step && z > lobeZ {
 			if exc/step > sh.LobeDepth {
