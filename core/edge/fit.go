@@ -63,10 +63,25 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 	const stripPx = 2.0
 	nStrip := int(2*halfLen/stripPx) + 1
 	type pt struct{ w, v float64 }
-	strips := make([][]pt, nStrip)
+	// The strips share one array, filled by a counting sort in sample
+	// order.
+	stripOf := func(i int) int { return int((s.u[i] + halfLen) / stripPx) }
+	start := make([]int, nStrip+1)
 	for i := range s.v {
-		k := int((s.u[i] + halfLen) / stripPx)
-		if k >= 0 && k < nStrip {
+		if k := stripOf(i); k >= 0 && k < nStrip {
+			start[k+1]++
+		}
+	}
+	for k := range nStrip {
+		start[k+1] += start[k]
+	}
+	all := make([]pt, start[nStrip])
+	strips := make([][]pt, nStrip)
+	for k := range strips {
+		strips[k] = all[start[k]:start[k]:start[k+1]]
+	}
+	for i := range s.v {
+		if k := stripOf(i); k >= 0 && k < nStrip {
 			strips[k] = append(strips[k], pt{s.w[i], s.v[i]})
 		}
 	}
