@@ -194,35 +194,44 @@ func stieltjes(mid, wts, dv, nv, freq []float64, shape func(float64) float64) (o
 		s, c := math.Sincos(-2 * math.Pi * step * m)
 		sr[i], si[i] = c, s
 	}
+	// The noise power sum_j nv[j] |w[j-1] e(m[j-1]) - w[j] e(m[j])|^2
+	// expands, with |e| = 1, into a part that does not depend on f,
+	// sum_j nv[j] (w[j-1]^2 + w[j]^2), less the cross terms
+	// sum_j 2 nv[j] w[j-1] w[j] Re(e(m[j-1]) conj(e(m[j]))), which the
+	// same pass as the signal sums.
+	a := make([]float64, k)  // w_i dv_i
+	cc := make([]float64, k) // 2 nv[i] w[i-1] w[i] (cc[0] = 0)
+	var pw float64
+	for i := 0; i <= k; i++ {
+		if i > 0 {
+			pw += nv[i] * wts[i-1] * wts[i-1]
+		}
+		if i < k {
+			pw += nv[i] * wts[i] * wts[i]
+			a[i] = wts[i] * dv[i]
+		}
+		if i > 0 && i < k {
+			cc[i] = 2 * nv[i] * wts[i-1] * wts[i]
+		}
+	}
 	out = make([]float64, len(freq))
 	se = make([]float64, len(freq))
 	for j := range freq {
-		if j > 0 {
-			for i := range zr {
-				zr[i], zi[i] = zr[i]*sr[i]-zi[i]*si[i], zr[i]*si[i]+zi[i]*sr[i]
+		var re, im, cross, pr, pi float64
+		for i := range zr {
+			r, q := zr[i], zi[i]
+			if j > 0 {
+				r, q = r*sr[i]-q*si[i], r*si[i]+q*sr[i]
+				zr[i], zi[i] = r, q
 			}
-		}
-		var re, im float64
-		for i := range mid {
-			a := wts[i] * dv[i]
-			re += a * zr[i]
-			im += a * zi[i]
+			re += a[i] * r
+			im += a[i] * q
+			cross += cc[i] * (pr*r + pi*q)
+			pr, pi = r, q
 		}
 		p := re*re + im*im
 		if j > 0 {
-			var pn float64
-			for i := 0; i <= k; i++ {
-				var ar, ai float64
-				if i > 0 {
-					ar += wts[i-1] * zr[i-1]
-					ai += wts[i-1] * zi[i-1]
-				}
-				if i < k {
-					ar -= wts[i] * zr[i]
-					ai -= wts[i] * zi[i]
-				}
-				pn += nv[i] * (ar*ar + ai*ai)
-			}
+			pn := math.Max(pw-cross, 0)
 			// The shaped power is subtracted; the standard error takes
 			// the larger of the shaped and the white power, because the
 			// shaping leaves out what the window's taper leaks between
