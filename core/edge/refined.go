@@ -311,19 +311,23 @@ func unshade(u, d, v []float64, core float64) []float64 {
 // planeStats accumulates a least-squares plane v = c0 + c1 x + c2 y.
 type planeStats struct {
 	n float64
-	m [3][3]float64 // normal matrix
+	m [3][3]float64 // normal matrix (add fills the upper triangle; coef mirrors it)
 	r [3]float64    // right-hand side
 }
 
+// add accumulates the point (x, y) of value v: the products of (1, x, y)
+// with itself and with v.
 func (p *planeStats) add(x, y, v float64) {
 	p.n++
-	e := [3]float64{1, x, y}
-	for i := range 3 {
-		for j := range 3 {
-			p.m[i][j] += e[i] * e[j]
-		}
-		p.r[i] += e[i] * v
-	}
+	p.m[0][0]++
+	p.m[0][1] += x
+	p.m[0][2] += y
+	p.m[1][1] += x * x
+	p.m[1][2] += x * y
+	p.m[2][2] += y * y
+	p.r[0] += v
+	p.r[1] += x * v
+	p.r[2] += y * v
 }
 
 // coef solves the normal equations by Gaussian elimination with partial
@@ -333,6 +337,7 @@ func (p *planeStats) coef() (c [3]float64, ok bool) {
 		return c, false
 	}
 	m, r := p.m, p.r
+	m[1][0], m[2][0], m[2][1] = m[0][1], m[0][2], m[1][2]
 	for k := range 3 {
 		piv := k
 		for i := k + 1; i < 3; i++ {
