@@ -150,6 +150,7 @@ func Measure(p *plane.Plane, r Region, opt Options) (*Measurement, error) {
 		return nil, ErrNoEdge
 	}
 	flipped := orient(&fit, &s)
+	s.dists(fit) // computed once for the estimator and the checks
 	m := &Measurement{Method: opt.Method.String()}
 	geometry(m, r, fit, s, flipped)
 	freq := opt.grid()

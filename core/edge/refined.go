@@ -55,13 +55,11 @@ type point struct {
 }
 
 func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark, sdLight float64, shape noiseShape) error {
-	n := len(s.v)
-	d := make([]float64, n)
+	d := s.dists(f)
 	reach := math.Inf(1) // distance to the nearest end of the sampled profile
 	lo, hi := math.Inf(1), math.Inf(-1)
-	for i := range s.v {
-		d[i] = f.dist(s.u[i], s.w[i])
-		lo, hi = math.Min(lo, d[i]), math.Max(hi, d[i])
+	for _, x := range d {
+		lo, hi = math.Min(lo, x), math.Max(hi, x)
 	}
 	reach = math.Min(-lo, hi)
 	if reach < 3 {

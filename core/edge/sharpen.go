@@ -87,11 +87,10 @@ func judgeSharpening(m *Measurement, s samples, f lineFit, sdDark, sdLight float
 	if n == 0 {
 		return
 	}
-	d := make([]float64, n)
+	d := s.dists(f)
 	lo, hi := math.Inf(1), math.Inf(-1)
-	for i := range d {
-		d[i] = f.dist(s.u[i], s.w[i])
-		lo, hi = math.Min(lo, d[i]), math.Max(hi, d[i])
+	for _, x := range d {
+		lo, hi = math.Min(lo, x), math.Max(hi, x)
 	}
 	reach := math.Min(-lo, hi)
 	if reach < 3 {
