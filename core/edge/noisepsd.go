@@ -133,15 +133,36 @@ func measureNoiseShape(p *plane.Plane, r Region, f lineFit, flipped bool, core f
 			}
 		}
 	}
+	// The plateau pixels in row order, so that each lag visits only them
+	// (in the same order as a scan of the whole box).
+	type site struct{ i, x, y int32 }
+	n := 0
+	for _, k := range side {
+		if k > 0 {
+			n++
+		}
+	}
+	at := make([]site, 0, n)
+	for y := range h {
+		for x := range w {
+			if i := y*w + x; side[i] > 0 {
+				at = append(at, site{int32(i), int32(x), int32(y)})
+			}
+		}
+	}
 	cov := func(lx, ly int) (float64, float64) {
 		var s, n float64
-		for y := max(0, -ly); y < h-max(0, ly); y++ {
-			for x := max(0, -lx); x < w-max(0, lx); x++ {
-				i, j := y*w+x, (y+ly)*w+x+lx
-				if side[i] > 0 && side[i] == side[j] {
-					s += res[i] * res[j]
-					n++
-				}
+		xa, xb := max(0, -lx), w-max(0, lx)
+		ya, yb := max(0, -ly), h-max(0, ly)
+		for _, q := range at {
+			i, x, y := int(q.i), int(q.x), int(q.y)
+			if y < ya || y >= yb || x < xa || x >= xb {
+				continue
+			}
+			j := i + ly*w + lx
+			if side[i] == side[j] {
+				s += res[i] * res[j]
+				n++
 			}
 		}
 		return s, n
