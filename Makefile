@@ -13,7 +13,7 @@ TESTDIR := site/test
 TESTOUT := $(BIN)/test
 ADDR ?= 127.0.0.1:8080
 
-.PHONY: all build test test-go test-wasm test-browser test-fuzz test-race mutants lint-js vet run bench deps tools clean demo wasm dist browser-deps FORCE
+.PHONY: all build test test-go test-wasm test-browser test-fuzz test-race mutants lint-js vet run bench bench-go deps tools clean demo wasm dist browser-deps FORCE
 
 all: build
 
@@ -145,7 +145,18 @@ $(DEMO): build
 
 demo: $(DEMO)
 
-bench: deps
+# One markdown table: the native analysis per stage (time, bytes allocated,
+# peak resident memory) of simulated 24 and 50 MP chart JPEGs (q95, with
+# noise; rendered once into $TMPDIR/sagitta-bench), and the command-line
+# tool's whole run on each (core/analyze/stages_bench_test.go). Times are
+# printed, never asserted. BENCH_SIZES=24 for the 24 MP photo alone.
+BENCH_SIZES ?= 24,50
+bench: build
+	@$(GO) test -run '^$$' -bench '^BenchmarkStageTable$$' -benchtime 1x -timeout 60m ./core/analyze \
+	  -args -sizes $(BENCH_SIZES) -cli $(CURDIR)/$(BIN)/sagitta | grep '^|'
+
+# Every Go benchmark of the core (the old `make bench`).
+bench-go: deps
 	$(GO) test -run '^$$' -bench . -benchmem ./core/...
 
 clean:
