@@ -190,25 +190,8 @@ func levenberg(f *lineFit, s samples, halfLen float64) bool {
 	for i, u := range s.u {
 		un[i] = u / halfLen
 	}
-	// eval returns the cost (sum of squared residuals) at p and the normal
-	// equations' J^T J (lower triangle) and J^T r there, in one pass: the
-	// step accepted at one iteration is where the next linearises, so each
-	// exponential is taken once.
 	eval := func(p [np]float64, jtj *[np][np]float64, jtr *[np]float64) float64 {
-		*jtj, *jtr = [np][np]float64{}, [np]float64{}
-		var c float64
-		for i := range s.v {
-			var g [np]float64
-			r := s.v[i] - modelGrad(p, un[i], s.w[i], &g)
-			c += r * r
-			for a := 0; a < np; a++ {
-				jtr[a] += g[a] * r
-				for b := 0; b <= a; b++ {
-					jtj[a][b] += g[a] * g[b]
-				}
-			}
-		}
-		return c
+		return normalEquations(p, un, s.w, s.v, jtj, jtr)
 	}
 	lambda := 1e-3
 	var jtj, qtj [np][np]float64
@@ -264,6 +247,71 @@ func levenberg(f *lineFit, s samples, halfLen float64) bool {
 		Alpha: p[4] / halfLen, Kappa: p[5] / (halfLen * halfLen),
 		RMS: math.Sqrt(c0 / float64(len(s.v)))}
 	return !math.IsNaN(c0)
+}
+
+// normalEquations returns the cost (sum of squared residuals) of the edge
+// model at p over the samples (un = u / halfLen, w, v) and fills the normal
+// equations' J^T J (lower triangle) and J^T r there, in one pass: the step
+// levenberg accepts at one iteration is where the next linearises, so each
+// exponential is taken once.
+//
+// The loop is modelGrad with the sums written out: the derivative by Dark
+// is 1, so its products are plain sums, and the 27 running sums stay in
+// locals rather than behind the pointers. It does the same operations in
+// the same order as the general form, so it gives the same numbers (the
+// test compares them bit for bit).
+func normalEquations(p [6]float64, un, w, v []float64, jtj *[6][6]float64, jtr *[6]float64) float64 {
+	var c float64
+	var a00, a10, a11, a20, a21, a22, a30, a31, a32, a33 float64
+	var a40, a41, a42, a43, a44, a50, a51, a52, a53, a54, a55 float64
+	var b0, b1, b2, b3, b4, b5 float64
+	for i := range v {
+		u := un[i]
+		e := p[3] + p[4]*u + p[5]*u*u
+		z := (w[i] - e) / p[2]
+		l := 1 / (1 + math.Exp(-z))
+		k := p[1] * l * (1 - l) / p[2]
+		g1, g2, g3, g4, g5 := l, -k*z, -k, -k*u, -k*u*u
+		r := v[i] - (p[0] + p[1]*l)
+		c += r * r
+		b0 += r
+		b1 += g1 * r
+		b2 += g2 * r
+		b3 += g3 * r
+		b4 += g4 * r
+		b5 += g5 * r
+		a00++
+		a10 += g1
+		a11 += g1 * g1
+		a20 += g2
+		a21 += g2 * g1
+		a22 += g2 * g2
+		a30 += g3
+		a31 += g3 * g1
+		a32 += g3 * g2
+		a33 += g3 * g3
+		a40 += g4
+		a41 += g4 * g1
+		a42 += g4 * g2
+		a43 += g4 * g3
+		a44 += g4 * g4
+		a50 += g5
+		a51 += g5 * g1
+		a52 += g5 * g2
+		a53 += g5 * g3
+		a54 += g5 * g4
+		a55 += g5 * g5
+	}
+	*jtr = [6]float64{b0, b1, b2, b3, b4, b5}
+	*jtj = [6][6]float64{
+		{a00},
+		{a10, a11},
+		{a20, a21, a22},
+		{a30, a31, a32, a33},
+		{a40, a41, a42, a43, a44},
+		{a50, a51, a52, a53, a54, a55},
+	}
+	return c
 }
 
 // modelGrad evaluates v = Dark + Step*L(d/Width) with the logistic
