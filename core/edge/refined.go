@@ -183,22 +183,23 @@ func stieltjes(mid, wts, dv, nv, freq []float64, shape func(float64) float64) (o
 	if len(freq) > 1 {
 		step = freq[1] - freq[0]
 	}
-	zr := make([]float64, k) // exp(-2 pi i f m) at the current frequency
-	zi := make([]float64, k)
-	sr := make([]float64, k) // exp(-2 pi i step m)
-	si := make([]float64, k)
+	// Everything the pass over the samples reads, side by side in memory.
+	type term struct {
+		zr, zi float64 // exp(-2 pi i f m) at the current frequency
+		sr, si float64 // exp(-2 pi i step m)
+		a      float64 // w_i dv_i
+		cc     float64 // 2 nv[i] w[i-1] w[i] (0 for i = 0), see below
+	}
+	ts := make([]term, k)
 	for i, m := range mid {
-		zr[i] = 1
 		s, c := math.Sincos(-2 * math.Pi * step * m)
-		sr[i], si[i] = c, s
+		ts[i] = term{zr: 1, sr: c, si: s}
 	}
 	// The noise power sum_j nv[j] |w[j-1] e(m[j-1]) - w[j] e(m[j])|^2
 	// expands, with |e| = 1, into a part that does not depend on f,
 	// sum_j nv[j] (w[j-1]^2 + w[j]^2), less the cross terms
 	// sum_j 2 nv[j] w[j-1] w[j] Re(e(m[j-1]) conj(e(m[j]))), which the
 	// same pass as the signal sums.
-	a := make([]float64, k)  // w_i dv_i
-	cc := make([]float64, k) // 2 nv[i] w[i-1] w[i] (cc[0] = 0)
 	var pw float64
 	for i := 0; i <= k; i++ {
 		if i > 0 {
@@ -206,25 +207,26 @@ func stieltjes(mid, wts, dv, nv, freq []float64, shape func(float64) float64) (o
 		}
 		if i < k {
 			pw += nv[i] * wts[i] * wts[i]
-			a[i] = wts[i] * dv[i]
+			ts[i].a = wts[i] * dv[i]
 		}
 		if i > 0 && i < k {
-			cc[i] = 2 * nv[i] * wts[i-1] * wts[i]
+			ts[i].cc = 2 * nv[i] * wts[i-1] * wts[i]
 		}
 	}
 	out = make([]float64, len(freq))
 	se = make([]float64, len(freq))
 	for j := range freq {
 		var re, im, cross, pr, pi float64
-		for i := range zr {
-			r, q := zr[i], zi[i]
+		for i := range ts {
+			t := &ts[i]
+			r, q := t.zr, t.zi
 			if j > 0 {
-				r, q = r*sr[i]-q*si[i], r*si[i]+q*sr[i]
-				zr[i], zi[i] = r, q
+				r, q = r*t.sr-q*t.si, r*t.si+q*t.sr
+				t.zr, t.zi = r, q
 			}
-			re += a[i] * r
-			im += a[i] * q
-			cross += cc[i] * (pr*r + pi*q)
+			re += t.a * r
+			im += t.a * q
+			cross += t.cc * (pr*r + pi*q)
 			pr, pi = r, q
 		}
 		p := re*re + im*im
