@@ -231,8 +231,9 @@ func stageRows(b *testing.B, size string, data []byte) {
 }
 
 // cliRow times the command-line tool's whole analysis of the file (JSON to
-// a discarded output) and reads its peak RSS from the kernel's accounting
-// of the child (getrusage, ru_maxrss in kB on Linux).
+// a discarded output) and reads its peak RSS and CPU time (user + system,
+// which a busy machine inflates less than the wall time) from the kernel's
+// accounting of the child (getrusage; ru_maxrss in kB on Linux).
 func cliRow(b *testing.B, size, path string) {
 	cmd := exec.Command(*tableCLI, "analyze", "--json", path)
 	cmd.Stdout, cmd.Stderr = nil, os.Stderr
@@ -245,5 +246,6 @@ func cliRow(b *testing.B, size, path string) {
 		c.peakKB = int64(ru.Maxrss)
 	}
 	st, _ := os.Stat(path)
-	row("CLI", size, fmt.Sprintf("whole analysis (%.1f MB file)", float64(st.Size())/1e6), c)
+	cpu := cmd.ProcessState.UserTime() + cmd.ProcessState.SystemTime()
+	row("CLI", size, fmt.Sprintf("whole analysis (%.1f MB file; %.1f s CPU)", float64(st.Size())/1e6, cpu.Seconds()), c)
 }
