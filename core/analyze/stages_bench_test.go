@@ -39,13 +39,15 @@ var (
 )
 
 // benchFrame is the size of a stage-table photo: 6000 x 4000 and 8688 x
-// 5792 px, both 3:2 like the chart.
-var benchFrame = map[string][2]int{"24": {6000, 4000}, "50": {8688, 5792}}
+// 5792 px, both 3:2 like the chart, and the full well that makes its JPEG
+// a camera's size (5.4 and 8.2 MB).
+var benchFrame = map[string][3]int{"24": {6000, 4000, 3000}, "50": {8688, 5792, 6000}}
 
 // benchChartPhoto returns the simulated chart photo of a size, rendered once
 // and cached under the temp directory (it takes tens of seconds to render).
-// The camera: full well 3000 e- at full scale and 3 e- read noise (a high
-// ISO's noise, which makes q95 files of 4-10 MB, as cameras write), colour
+// The camera: full well 3000 e- (24 MP) or 6000 e- (50 MP) at full scale
+// and 3 e- read noise (a high ISO's noise, which makes q95 files of 4-10 MB,
+// as cameras write), colour
 // JPEG with equal channels, chroma 4:2:0 as Go's encoder writes; an invented
 // lens as site/testphoto's, 4.35 um pixels named in Exif.
 func benchChartPhoto(b *testing.B, size string) (string, []byte) {
@@ -54,7 +56,7 @@ func benchChartPhoto(b *testing.B, size string) (string, []byte) {
 		b.Fatalf("no stage-table photo of %s MP", size)
 	}
 	dir := filepath.Join(os.TempDir(), "sagitta-bench")
-	path := filepath.Join(dir, fmt.Sprintf("chart-%sMP-v2.jpg", size))
+	path := filepath.Join(dir, fmt.Sprintf("chart-%sMP-%de.jpg", size, wh[2]))
 	if data, err := os.ReadFile(path); err == nil {
 		return path, data
 	}
@@ -75,7 +77,7 @@ func benchChartPhoto(b *testing.B, size string) (string, []byte) {
 		FNumber: 5.6, FocalLengthMM: 35, ExposureTimeS: 1.0 / 125, ISO: 800,
 		FocalPlaneXRes: 10000 / pitch, FocalPlaneYRes: 10000 / pitch, FocalPlaneResUnit: exif.UnitCentimetre,
 	}
-	cam := simcam.Camera{W: w, H: h, Lens: lens, FullWellE: 3000, ReadNoiseE: 3, Seed: 7,
+	cam := simcam.Camera{W: w, H: h, Lens: lens, FullWellE: float64(wh[2]), ReadNoiseE: 3, Seed: 7,
 		Encoding: simcam.SRGB8, Colour: true, JPEGQuality: 95, ExifAPP1: exif.Encode(tags)}
 	data, err := cam.Encode(scene)
 	if err != nil {
