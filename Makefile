@@ -59,11 +59,12 @@ test-fuzz: deps
 	$(GO) test -run '^$$' -fuzz '^FuzzParse$$' -fuzztime $(FUZZTIME) ./core/exif
 	$(GO) test -run '^$$' -fuzz '^FuzzDecode$$' -fuzztime $(FUZZTIME) ./core/raw
 
-# The goroutines live in core/decode (luminance rows), core/analyze (edges
+# The goroutines live in core/decode (luminance rows, the fitted tone curve),
+# core/internal/coarse (the reduced views' rows), core/analyze (edges
 # and sine patterns measured in parallel) and core/sim/simcam (rendering);
 # the selected tests drive each of them on small images.
 test-race: deps
-	$(GO) test -race -short -count=1 ./core/decode
+	$(GO) test -race -short -count=1 ./core/decode ./core/internal/coarse
 	$(GO) test -race -short -count=1 -run 'TestStarOnlyPhoto|TestNoChart' ./core/analyze
 	$(GO) test -race -short -count=1 -run 'TestDeterministic|TestNoSeams|TestStarModulation|TestGratingInterior' ./core/sim/simcam
 
