@@ -48,8 +48,7 @@ type Sharpening struct {
 	// "above-diffraction-limit". Empty when the edge shows none.
 	Signs []string
 	// LobeZ is the deepest lobe in standard errors of the noise (0 when
-	// none dips beyond the plateaus), at most maxLobeZ (a plateau without
-	// noise).
+	// none dips beyond the plateaus); maxLobeZ when the plateau has no noise.
 	LobeZ float64
 	// LobeDepth is the deepest lobe as a fraction of the step.
 	LobeDepth float64
@@ -150,7 +149,7 @@ func judgeSharpening(m *Measurement, s samples, f lineFit, sdDark, sdLight float
 		se := sd * math.Sqrt(1/sc+1/math.Max(np, 1))
 		z := float64(maxLobeZ) // no noise on the plateau: beyond any threshold
 		if se > 0 {
-			z = math.Min(exc/se, maxLobeZ)
+			z = exc / se
 		}
 		if exc > lobeFloor*step && z > lobeZ {
 			if exc/step > sh.LobeDepth {
