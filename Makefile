@@ -13,7 +13,7 @@ TESTDIR := site/test
 TESTOUT := $(BIN)/test
 ADDR ?= 127.0.0.1:8080
 
-.PHONY: all build test test-go test-wasm test-browser test-fuzz test-race mutants lint-js vet run bench deps tools clean demo wasm dist browser-deps FORCE
+.PHONY: all build test test-go test-wasm test-browser test-fuzz test-race mutants lint-js vet run bench bench-go deps tools clean demo wasm dist browser-deps FORCE
 
 all: build
 
@@ -59,11 +59,12 @@ test-fuzz: deps
 	$(GO) test -run '^$$' -fuzz '^FuzzParse$$' -fuzztime $(FUZZTIME) ./core/exif
 	$(GO) test -run '^$$' -fuzz '^FuzzDecode$$' -fuzztime $(FUZZTIME) ./core/raw
 
-# The goroutines live in core/decode (luminance rows), core/analyze (edges
+# The goroutines live in core/decode (luminance rows, the fitted tone curve),
+# core/internal/coarse (the reduced views' rows), core/analyze (edges
 # and sine patterns measured in parallel) and core/sim/simcam (rendering);
 # the selected tests drive each of them on small images.
 test-race: deps
-	$(GO) test -race -short -count=1 ./core/decode
+	$(GO) test -race -short -count=1 ./core/decode ./core/internal/coarse
 	$(GO) test -race -short -count=1 -run 'TestStarOnlyPhoto|TestNoChart|TestChromaSubsampledJPEG' ./core/analyze
 	$(GO) test -race -short -count=1 -run 'TestDeterministic|TestNoSeams|TestStarModulation|TestGratingInterior' ./core/sim/simcam
 
@@ -145,7 +146,18 @@ $(DEMO): build
 
 demo: $(DEMO)
 
-bench: deps
+# One markdown table: the native analysis per stage (time, bytes allocated,
+# peak resident memory) of simulated 24 and 50 MP chart JPEGs (q95, with
+# noise; rendered once into $TMPDIR/sagitta-bench), and the command-line
+# tool's whole run on each (core/analyze/stages_bench_test.go). Times are
+# printed, never asserted. BENCH_SIZES=24 for the 24 MP photo alone.
+BENCH_SIZES ?= 24,50
+bench: build
+	@$(GO) test -run '^$$' -bench '^BenchmarkStageTable$$' -benchtime 1x -timeout 60m ./core/analyze \
+	  -args -sizes $(BENCH_SIZES) -cli $(CURDIR)/$(BIN)/sagitta | grep '^|'
+
+# Every Go benchmark of the core (the old `make bench`).
+bench-go: deps
 	$(GO) test -run '^$$' -bench . -benchmem ./core/...
 
 clean:

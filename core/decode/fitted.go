@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"sort"
+	"sync"
 
 	"sagitta/core/plane"
 )
@@ -106,10 +107,19 @@ func (f *Fitted) At(x float64) float64 {
 // top of the file's values) is kept, and no other value is mapped onto or
 // above it.
 func (f *Fitted) Apply(p *plane.Plane, scale float64) {
+	// Both passes run over row ranges in parallel (parallelRows); the
+	// largest value does not depend on the order it is found in.
+	var mu sync.Mutex
 	var hi float32
-	for _, v := range p.Pix {
-		hi = max(hi, v)
-	}
+	parallelRows(p.W, p.H, func(y0, y1 int) {
+		var h float32
+		for _, v := range p.Pix[y0*p.W : y1*p.W] {
+			h = max(h, v)
+		}
+		mu.Lock()
+		hi = max(hi, h)
+		mu.Unlock()
+	})
 	if !(hi > 0) {
 		return
 	}
@@ -120,16 +130,19 @@ func (f *Fitted) Apply(p *plane.Plane, scale float64) {
 	}
 	k := float32(n) / hi
 	const top = float32(plane.ClipLevel - 1e-4)
-	for i, v := range p.Pix {
-		if v >= plane.ClipLevel {
-			continue
+	parallelRows(p.W, p.H, func(y0, y1 int) {
+		pix := p.Pix[y0*p.W : y1*p.W]
+		for i, v := range pix {
+			if v >= plane.ClipLevel {
+				continue
+			}
+			t := max(v, 0) * k
+			j := int(t)
+			if j > n {
+				j = n
+			}
+			fr := t - float32(j)
+			pix[i] = min(lut[j]+fr*(lut[j+1]-lut[j]), top)
 		}
-		t := max(v, 0) * k
-		j := int(t)
-		if j > n {
-			j = n
-		}
-		fr := t - float32(j)
-		p.Pix[i] = min(lut[j]+fr*(lut[j+1]-lut[j]), top)
-	}
+	})
 }

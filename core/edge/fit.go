@@ -63,10 +63,25 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 	const stripPx = 2.0
 	nStrip := int(2*halfLen/stripPx) + 1
 	type pt struct{ w, v float64 }
-	strips := make([][]pt, nStrip)
+	// The strips share one array, filled by a counting sort in sample
+	// order.
+	stripOf := func(i int) int { return int((s.u[i] + halfLen) / stripPx) }
+	start := make([]int, nStrip+1)
 	for i := range s.v {
-		k := int((s.u[i] + halfLen) / stripPx)
-		if k >= 0 && k < nStrip {
+		if k := stripOf(i); k >= 0 && k < nStrip {
+			start[k+1]++
+		}
+	}
+	for k := range nStrip {
+		start[k+1] += start[k]
+	}
+	all := make([]pt, start[nStrip])
+	strips := make([][]pt, nStrip)
+	for k := range strips {
+		strips[k] = all[start[k]:start[k]:start[k+1]]
+	}
+	for i := range s.v {
+		if k := stripOf(i); k >= 0 && k < nStrip {
 			strips[k] = append(strips[k], pt{s.w[i], s.v[i]})
 		}
 	}
@@ -143,9 +158,19 @@ const fitBandPx = 12
 // within returns the samples within band px (across the region) of the
 // fitted line.
 func within(s samples, f lineFit, band float64) samples {
-	var out samples
+	in := func(i int) bool {
+		return math.Abs(s.w[i]-f.Rho-f.Alpha*s.u[i]-f.Kappa*s.u[i]*s.u[i]) <= band
+	}
+	n := 0
 	for i := range s.v {
-		if math.Abs(s.w[i]-f.Rho-f.Alpha*s.u[i]-f.Kappa*s.u[i]*s.u[i]) <= band {
+		if in(i) {
+			n++
+		}
+	}
+	buf := make([]float64, 3*n) // one allocation for the three columns
+	out := samples{u: buf[:0:n], w: buf[n : n : 2*n], v: buf[2*n : 2*n : 3*n]}
+	for i := range s.v {
+		if in(i) {
 			out.u = append(out.u, s.u[i])
 			out.w = append(out.w, s.w[i])
 			out.v = append(out.v, s.v[i])
@@ -161,30 +186,18 @@ func levenberg(f *lineFit, s samples, halfLen float64) bool {
 	const np = 6
 	// p: Dark, Step, Width, Rho, Alpha*L, Kappa*L^2
 	p := [np]float64{f.Dark, f.Step, f.Width, f.Rho, f.Alpha * halfLen, f.Kappa * halfLen * halfLen}
-	cost := func(p [np]float64) float64 {
-		var c float64
-		for i := range s.v {
-			r := s.v[i] - model(p, s.u[i]/halfLen, s.w[i])
-			c += r * r
-		}
-		return c
+	un := make([]float64, len(s.u))
+	for i, u := range s.u {
+		un[i] = u / halfLen
+	}
+	eval := func(p [np]float64, jtj *[np][np]float64, jtr *[np]float64) float64 {
+		return normalEquations(p, un, s.w, s.v, jtj, jtr)
 	}
 	lambda := 1e-3
-	c0 := cost(p)
+	var jtj, qtj [np][np]float64
+	var jtr, qtr [np]float64
+	c0 := eval(p, &jtj, &jtr)
 	for iter := 0; iter < 60; iter++ {
-		var jtj [np][np]float64
-		var jtr [np]float64
-		for i := range s.v {
-			un := s.u[i] / halfLen
-			var g [np]float64
-			r := s.v[i] - modelGrad(p, un, s.w[i], &g)
-			for a := 0; a < np; a++ {
-				jtr[a] += g[a] * r
-				for b := 0; b <= a; b++ {
-					jtj[a][b] += g[a] * g[b]
-				}
-			}
-		}
 		for a := 0; a < np; a++ {
 			for b := a + 1; b < np; b++ {
 				jtj[a][b] = jtj[b][a]
@@ -212,10 +225,11 @@ func levenberg(f *lineFit, s samples, halfLen float64) bool {
 			if q[2] <= 0.02 {
 				q[2] = 0.02
 			}
-			c1 := cost(q)
+			c1 := eval(q, &qtj, &qtr)
 			if c1 < c0 {
 				small := math.Abs(dp[3]) < 1e-4 && math.Abs(dp[4]) < 1e-4 && math.Abs(dp[5]) < 1e-4 || c0-c1 < 1e-10*c0
 				p, c0 = q, c1
+				jtj, jtr = qtj, qtr
 				lambda = max(lambda/10, 1e-9)
 				improved = true
 				if small {
@@ -235,9 +249,69 @@ func levenberg(f *lineFit, s samples, halfLen float64) bool {
 	return !math.IsNaN(c0)
 }
 
-func model(p [6]float64, un, w float64) float64 {
-	var g [6]float64
-	return modelGrad(p, un, w, &g)
+// normalEquations returns the cost (sum of squared residuals) of the edge
+// model at p over the samples (un = u / halfLen, w, v) and fills the normal
+// equations' J^T J (lower triangle) and J^T r there, in one pass: the step
+// levenberg accepts at one iteration is where the next linearises, so each
+// exponential is taken once.
+//
+// The loop is modelGrad with the sums written out: the derivative by Dark
+// is 1, so its products are plain sums, and the 27 running sums stay in
+// locals rather than behind the pointers. It does the same operations in
+// the same order as the general form, so it gives the same numbers (the
+// test compares them bit for bit).
+func normalEquations(p [6]float64, un, w, v []float64, jtj *[6][6]float64, jtr *[6]float64) float64 {
+	var c float64
+	var a00, a10, a11, a20, a21, a22, a30, a31, a32, a33 float64
+	var a40, a41, a42, a43, a44, a50, a51, a52, a53, a54, a55 float64
+	var b0, b1, b2, b3, b4, b5 float64
+	for i := range v {
+		u := un[i]
+		e := p[3] + p[4]*u + p[5]*u*u
+		z := (w[i] - e) / p[2]
+		l := 1 / (1 + math.Exp(-z))
+		k := p[1] * l * (1 - l) / p[2]
+		g1, g2, g3, g4, g5 := l, -k*z, -k, -k*u, -k*u*u
+		r := v[i] - (p[0] + p[1]*l)
+		c += r * r
+		b0 += r
+		b1 += g1 * r
+		b2 += g2 * r
+		b3 += g3 * r
+		b4 += g4 * r
+		b5 += g5 * r
+		a00++
+		a10 += g1
+		a11 += g1 * g1
+		a20 += g2
+		a21 += g2 * g1
+		a22 += g2 * g2
+		a30 += g3
+		a31 += g3 * g1
+		a32 += g3 * g2
+		a33 += g3 * g3
+		a40 += g4
+		a41 += g4 * g1
+		a42 += g4 * g2
+		a43 += g4 * g3
+		a44 += g4 * g4
+		a50 += g5
+		a51 += g5 * g1
+		a52 += g5 * g2
+		a53 += g5 * g3
+		a54 += g5 * g4
+		a55 += g5 * g5
+	}
+	*jtr = [6]float64{b0, b1, b2, b3, b4, b5}
+	*jtj = [6][6]float64{
+		{a00},
+		{a10, a11},
+		{a20, a21, a22},
+		{a30, a31, a32, a33},
+		{a40, a41, a42, a43, a44},
+		{a50, a51, a52, a53, a54, a55},
+	}
+	return c
 }
 
 // modelGrad evaluates v = Dark + Step*L(d/Width) with the logistic
@@ -306,7 +380,52 @@ func solve(m [6][6]float64, b [6]float64) ([6]float64, bool) {
 // it.
 func percentiles(v []float64, p, q float64) (float64, float64) {
 	c := append([]float64(nil), v...)
-	slices.Sort(c)
-	at := func(q float64) float64 { return c[int(q*float64(len(c)-1))] }
+	at := func(q float64) float64 { return nth(c, int(q*float64(len(c)-1))) }
 	return at(p), at(q)
+}
+
+// nth returns the k-th smallest value of c (0-based; the value c[k] would
+// have after sorting), reordering c: Hoare's selection (C. A. R. Hoare,
+// "Algorithm 65: Find", Comm. ACM 4(7), 1961) with a median-of-three pivot,
+// linear time on average instead of a sort's n log n. The values must not
+// be NaN.
+func nth(c []float64, k int) float64 {
+	lo, hi := 0, len(c)-1
+	for hi > lo {
+		mid := lo + (hi-lo)/2
+		if c[mid] < c[lo] {
+			c[mid], c[lo] = c[lo], c[mid]
+		}
+		if c[hi] < c[lo] {
+			c[hi], c[lo] = c[lo], c[hi]
+		}
+		if c[hi] < c[mid] {
+			c[hi], c[mid] = c[mid], c[hi]
+		}
+		pivot := c[mid]
+		i, j := lo, hi
+		for i <= j {
+			for c[i] < pivot {
+				i++
+			}
+			for c[j] > pivot {
+				j--
+			}
+			if i <= j {
+				c[i], c[j] = c[j], c[i]
+				i++
+				j--
+			}
+		}
+		// Now c[lo..j] <= pivot <= c[i..hi], and c[j+1..i-1] == pivot.
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return c[k]
+		}
+	}
+	return c[k]
 }

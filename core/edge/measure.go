@@ -155,6 +155,7 @@ func Measure(p *plane.Plane, r Region, opt Options) (*Measurement, error) {
 		return nil, ErrNoEdge
 	}
 	flipped := orient(&fit, &s)
+	s.dists(fit) // computed once for the estimator and the checks
 	m := &Measurement{Method: opt.Method.String(), fit: fit, flipped: flipped, region: r}
 	geometry(m, r, fit, s, flipped)
 	freq := opt.grid()

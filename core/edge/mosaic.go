@@ -73,6 +73,7 @@ func MeasureSites(p *plane.Plane, sites Sites, r Region, opt Options) (*Measurem
 		return nil, ErrNoEdge
 	}
 	flipped := orient(&fit, &s)
+	s.dists(fit) // computed once for the estimator and the checks
 	m := &Measurement{Method: Refined.String(), fit: fit, flipped: flipped, region: r}
 	geometry(m, r, fit, s, flipped)
 	freq := opt.grid()

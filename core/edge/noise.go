@@ -41,7 +41,6 @@ func pairNoiseAt(p *plane.Plane, r Region, f lineFit, flipped bool, core float64
 	if math.Abs(ty) > math.Abs(tx) {
 		sx, sy = 0, step
 	}
-	var dd, dl []float64
 	ex := math.Abs(r.HalfLen*tx) + math.Abs(r.HalfWidth*nx)
 	ey := math.Abs(r.HalfLen*ty) + math.Abs(r.HalfWidth*ny)
 	x0 := max(int(math.Floor(r.X-ex-0.5)), 0)
@@ -63,13 +62,30 @@ func pairNoiseAt(p *plane.Plane, r Region, f lineFit, flipped bool, core float64
 		}
 		return 0
 	}
+	// Over every pixel (keep nil) each pixel's side is needed twice, as a
+	// pixel and as a neighbour: it is classified once, into a grid over
+	// the pixels and their neighbours.
+	sideAt := side
+	if gw, gh := x1+sx-x0+1, y1+sy-y0+1; keep == nil && gw > 0 && gh > 0 {
+		grid := make([]int8, gw*gh)
+		for y := y0; y <= y1+sy; y++ {
+			for x := x0; x <= x1+sx; x++ {
+				grid[(y-y0)*gw+x-x0] = int8(side(x, y))
+			}
+		}
+		sideAt = func(x, y int) float64 { return float64(grid[(y-y0)*gw+x-x0]) }
+	}
+	// Room for the pairs of every pixel of the region, split between the
+	// two sides, so the lists rarely grow.
+	n := int(2*r.HalfLen*r.HalfWidth) + 16
+	dd, dl := make([]float64, 0, n), make([]float64, 0, n)
 	for y := y0; y <= y1; y++ {
 		for x := x0; x <= x1; x++ {
 			if keep != nil && !keep(x, y) {
 				continue
 			}
-			s := side(x, y)
-			if s == 0 || side(x+sx, y+sy) != s {
+			s := sideAt(x, y)
+			if s == 0 || sideAt(x+sx, y+sy) != s {
 				continue
 			}
 			diff := math.Abs(float64(p.At(x, y) - p.At(x+sx, y+sy)))

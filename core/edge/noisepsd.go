@@ -36,6 +36,8 @@ const maxLag = 3
 type noiseShape struct {
 	ok     bool
 	rho    map[[2]int]float64 // autocorrelation at lags (lx, ly), both signs
+	lags   [][2]int           // the lags of rho in a fixed order (see order)
+	vals   []float64          // rho at lags
 	rhoS   float64            // at the pair step of pairNoise
 	nx, ny float64            // edge normal in image axes
 }
@@ -46,8 +48,26 @@ func (n noiseShape) factor(f float64) float64 {
 	if !n.ok {
 		return 1
 	}
-	// Summed in a fixed order of the lags (a map's order changes from run
-	// to run, and with it the last bit of the sum).
+	lags, vals := n.lags, n.vals
+	if len(lags) != len(n.rho) || len(vals) != len(lags) {
+		lags = n.order()
+		vals = make([]float64, len(lags))
+		for i, l := range lags {
+			vals[i] = n.rho[l]
+		}
+	}
+	var r float64
+	for i, l := range lags {
+		r += vals[i] * math.Cos(2*math.Pi*f*(float64(l[0])*n.nx+float64(l[1])*n.ny))
+	}
+	return math.Max(r, 0)
+}
+
+// order returns the lags of rho sorted by lx, then ly: factor sums in this
+// fixed order (a map's order changes from run to run, and with it the last
+// bit of the sum). measureNoiseShape keeps it in lags, as factor is called
+// at every frequency of the curve.
+func (n noiseShape) order() [][2]int {
 	lags := make([][2]int, 0, len(n.rho))
 	for l := range n.rho {
 		lags = append(lags, l)
@@ -58,11 +78,7 @@ func (n noiseShape) factor(f float64) float64 {
 		}
 		return a[1] - b[1]
 	})
-	var r float64
-	for _, l := range lags {
-		r += n.rho[l] * math.Cos(2*math.Pi*f*(float64(l[0])*n.nx+float64(l[1])*n.ny))
-	}
-	return math.Max(r, 0)
+	return lags
 }
 
 // sdScale returns 1 / sqrt(1 - rho(s)): the factor from the pair-difference
@@ -133,15 +149,36 @@ func measureNoiseShape(p *plane.Plane, r Region, f lineFit, flipped bool, core f
 			}
 		}
 	}
+	// The plateau pixels in row order, so that each lag visits only them
+	// (in the same order as a scan of the whole box).
+	type site struct{ i, x, y int32 }
+	n := 0
+	for _, k := range side {
+		if k > 0 {
+			n++
+		}
+	}
+	at := make([]site, 0, n)
+	for y := range h {
+		for x := range w {
+			if i := y*w + x; side[i] > 0 {
+				at = append(at, site{int32(i), int32(x), int32(y)})
+			}
+		}
+	}
 	cov := func(lx, ly int) (float64, float64) {
 		var s, n float64
-		for y := max(0, -ly); y < h-max(0, ly); y++ {
-			for x := max(0, -lx); x < w-max(0, lx); x++ {
-				i, j := y*w+x, (y+ly)*w+x+lx
-				if side[i] > 0 && side[i] == side[j] {
-					s += res[i] * res[j]
-					n++
-				}
+		xa, xb := max(0, -lx), w-max(0, lx)
+		ya, yb := max(0, -ly), h-max(0, ly)
+		for _, q := range at {
+			i, x, y := int(q.i), int(q.x), int(q.y)
+			if y < ya || y >= yb || x < xa || x >= xb {
+				continue
+			}
+			j := i + ly*w + lx
+			if side[i] == side[j] {
+				s += res[i] * res[j]
+				n++
 			}
 		}
 		return s, n
@@ -179,5 +216,10 @@ func measureNoiseShape(p *plane.Plane, r Region, f lineFit, flipped bool, core f
 		step = [2]int{0, 1}
 	}
 	ns.rhoS = math.Min(ns.rho[step], 0.95)
+	ns.lags = ns.order()
+	ns.vals = make([]float64, len(ns.lags))
+	for i, l := range ns.lags {
+		ns.vals[i] = ns.rho[l]
+	}
 	return ns
 }

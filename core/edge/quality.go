@@ -31,10 +31,7 @@ func coreWidth(f lineFit) float64 { return 4*f.Width + plateauMarginPx }
 // the quality flags.
 func assess(m *Measurement, s samples, f lineFit, sdD, sdL float64) {
 	core := coreWidth(f)
-	d := make([]float64, len(s.v))
-	for i := range d {
-		d[i] = f.dist(s.u[i], s.w[i])
-	}
+	d := s.dists(f)
 	if m.NoiseRMS == 0 {
 		dark, light, _, _ := plateaus(d, s.v, core)
 		if !math.IsNaN(dark) && !math.IsNaN(light) {

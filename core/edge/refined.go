@@ -55,13 +55,11 @@ type point struct {
 }
 
 func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark, sdLight float64, shape noiseShape) error {
-	n := len(s.v)
-	d := make([]float64, n)
+	d := s.dists(f)
 	reach := math.Inf(1) // distance to the nearest end of the sampled profile
 	lo, hi := math.Inf(1), math.Inf(-1)
-	for i := range s.v {
-		d[i] = f.dist(s.u[i], s.w[i])
-		lo, hi = math.Min(lo, d[i]), math.Max(hi, d[i])
+	for _, x := range d {
+		lo, hi = math.Min(lo, x), math.Max(hi, x)
 	}
 	reach = math.Min(-lo, hi)
 	if reach < 3 {
@@ -185,44 +183,55 @@ func stieltjes(mid, wts, dv, nv, freq []float64, shape func(float64) float64) (o
 	if len(freq) > 1 {
 		step = freq[1] - freq[0]
 	}
-	zr := make([]float64, k) // exp(-2 pi i f m) at the current frequency
-	zi := make([]float64, k)
-	sr := make([]float64, k) // exp(-2 pi i step m)
-	si := make([]float64, k)
+	// Everything the pass over the samples reads, side by side in memory.
+	type term struct {
+		zr, zi float64 // exp(-2 pi i f m) at the current frequency
+		sr, si float64 // exp(-2 pi i step m)
+		a      float64 // w_i dv_i
+		cc     float64 // 2 nv[i] w[i-1] w[i] (0 for i = 0), see below
+	}
+	ts := make([]term, k)
 	for i, m := range mid {
-		zr[i] = 1
 		s, c := math.Sincos(-2 * math.Pi * step * m)
-		sr[i], si[i] = c, s
+		ts[i] = term{zr: 1, sr: c, si: s}
+	}
+	// The noise power sum_j nv[j] |w[j-1] e(m[j-1]) - w[j] e(m[j])|^2
+	// expands, with |e| = 1, into a part that does not depend on f,
+	// sum_j nv[j] (w[j-1]^2 + w[j]^2), less the cross terms
+	// sum_j 2 nv[j] w[j-1] w[j] Re(e(m[j-1]) conj(e(m[j]))), which the
+	// same pass as the signal sums.
+	var pw float64
+	for i := 0; i <= k; i++ {
+		if i > 0 {
+			pw += nv[i] * wts[i-1] * wts[i-1]
+		}
+		if i < k {
+			pw += nv[i] * wts[i] * wts[i]
+			ts[i].a = wts[i] * dv[i]
+		}
+		if i > 0 && i < k {
+			ts[i].cc = 2 * nv[i] * wts[i-1] * wts[i]
+		}
 	}
 	out = make([]float64, len(freq))
 	se = make([]float64, len(freq))
 	for j := range freq {
-		if j > 0 {
-			for i := range zr {
-				zr[i], zi[i] = zr[i]*sr[i]-zi[i]*si[i], zr[i]*si[i]+zi[i]*sr[i]
+		var re, im, cross, pr, pi float64
+		for i := range ts {
+			t := &ts[i]
+			r, q := t.zr, t.zi
+			if j > 0 {
+				r, q = r*t.sr-q*t.si, r*t.si+q*t.sr
+				t.zr, t.zi = r, q
 			}
-		}
-		var re, im float64
-		for i := range mid {
-			a := wts[i] * dv[i]
-			re += a * zr[i]
-			im += a * zi[i]
+			re += t.a * r
+			im += t.a * q
+			cross += t.cc * (pr*r + pi*q)
+			pr, pi = r, q
 		}
 		p := re*re + im*im
 		if j > 0 {
-			var pn float64
-			for i := 0; i <= k; i++ {
-				var ar, ai float64
-				if i > 0 {
-					ar += wts[i-1] * zr[i-1]
-					ai += wts[i-1] * zi[i-1]
-				}
-				if i < k {
-					ar -= wts[i] * zr[i]
-					ai -= wts[i] * zi[i]
-				}
-				pn += nv[i] * (ar*ar + ai*ai)
-			}
+			pn := math.Max(pw-cross, 0)
 			// The shaped power is subtracted; the standard error takes
 			// the larger of the shaped and the white power, because the
 			// shaping leaves out what the window's taper leaks between
@@ -302,19 +311,23 @@ func unshade(u, d, v []float64, core float64) []float64 {
 // planeStats accumulates a least-squares plane v = c0 + c1 x + c2 y.
 type planeStats struct {
 	n float64
-	m [3][3]float64 // normal matrix
+	m [3][3]float64 // normal matrix (add fills the upper triangle; coef mirrors it)
 	r [3]float64    // right-hand side
 }
 
+// add accumulates the point (x, y) of value v: the products of (1, x, y)
+// with itself and with v.
 func (p *planeStats) add(x, y, v float64) {
 	p.n++
-	e := [3]float64{1, x, y}
-	for i := range 3 {
-		for j := range 3 {
-			p.m[i][j] += e[i] * e[j]
-		}
-		p.r[i] += e[i] * v
-	}
+	p.m[0][0]++
+	p.m[0][1] += x
+	p.m[0][2] += y
+	p.m[1][1] += x * x
+	p.m[1][2] += x * y
+	p.m[2][2] += y * y
+	p.r[0] += v
+	p.r[1] += x * v
+	p.r[2] += y * v
 }
 
 // coef solves the normal equations by Gaussian elimination with partial
@@ -324,6 +337,7 @@ func (p *planeStats) coef() (c [3]float64, ok bool) {
 		return c, false
 	}
 	m, r := p.m, p.r
+	m[1][0], m[2][0], m[2][1] = m[0][1], m[0][2], m[1][2]
 	for k := range 3 {
 		piv := k
 		for i := k + 1; i < 3; i++ {

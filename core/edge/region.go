@@ -41,6 +41,24 @@ func (r Region) Corners() [4][2]float64 {
 // linear pixel value.
 type samples struct {
 	u, w, v []float64
+	// d caches each sample's distance from the fitted edge (see dists).
+	d []float64
+}
+
+// dists returns each sample's distance from the fitted edge f
+// (lineFit.dist). The estimator, the quality checks and the sharpening
+// check all read it for the one final fit of a measurement, so it is
+// computed once, by the first of them, and shared (read-only) after. Call it
+// only with that final fit, after orient.
+func (s *samples) dists(f lineFit) []float64 {
+	if len(s.d) == len(s.v) && s.d != nil {
+		return s.d
+	}
+	s.d = make([]float64, len(s.v))
+	for i := range s.d {
+		s.d[i] = f.dist(s.u[i], s.w[i])
+	}
+	return s.d
 }
 
 // gather collects every pixel whose centre lies inside the region and inside
@@ -58,7 +76,7 @@ func gatherSites(p *plane.Plane, r Region, keep func(x, y int) bool) samples {
 	y0 := max(int(math.Floor(r.Y-ey-0.5)), 0)
 	y1 := min(int(math.Ceil(r.Y+ey-0.5)), p.H-1)
 	n := int(4*r.HalfLen*r.HalfWidth) + 16
-	s := samples{make([]float64, 0, n), make([]float64, 0, n), make([]float64, 0, n)}
+	s := samples{u: make([]float64, 0, n), w: make([]float64, 0, n), v: make([]float64, 0, n)}
 	for y := y0; y <= y1; y++ {
 		dy := float64(y) + 0.5 - r.Y
 		row := p.Pix[y*p.W : (y+1)*p.W]

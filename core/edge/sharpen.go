@@ -48,7 +48,7 @@ type Sharpening struct {
 	// "above-diffraction-limit". Empty when the edge shows none.
 	Signs []string
 	// LobeZ is the deepest lobe in standard errors of the noise (0 when
-	// none dips beyond the plateaus).
+	// none dips beyond the plateaus); maxLobeZ when the plateau has no noise.
 	LobeZ float64
 	// LobeDepth is the deepest lobe as a fraction of the step.
 	LobeDepth float64
@@ -61,6 +61,7 @@ type Sharpening struct {
 const (
 	lobeZ             = 5     // lobe depth in standard errors (Gaussian tail 3e-7 per window)
 	lobeFloor         = 0.012 // smallest lobe counted, fraction of the step: above the ringing of JPEG compression at quality 75 and better (up to 1.0 % on simulated edges) and of 8-bit quantisation
+	maxLobeZ          = 1000  // the lobe's size in standard errors reported when the plateau has no noise (JSON has no infinity)
 	riseZ             = 4     // rise above 1 or above the limit, standard errors
 	riseFloor         = 0.01  // smallest rise counted
 	boundFloor        = 0.01  // smallest excess over the diffraction limit counted
@@ -85,11 +86,10 @@ func judgeSharpening(m *Measurement, s samples, f lineFit, sdDark, sdLight float
 	if n == 0 {
 		return
 	}
-	d := make([]float64, n)
+	d := s.dists(f)
 	lo, hi := math.Inf(1), math.Inf(-1)
-	for i := range d {
-		d[i] = f.dist(s.u[i], s.w[i])
-		lo, hi = math.Min(lo, d[i]), math.Max(hi, d[i])
+	for _, x := range d {
+		lo, hi = math.Min(lo, x), math.Max(hi, x)
 	}
 	reach := math.Min(-lo, hi)
 	if reach < 3 {
@@ -147,7 +147,7 @@ func judgeSharpening(m *Measurement, s samples, f lineFit, sdDark, sdLight float
 			continue
 		}
 		se := sd * math.Sqrt(1/sc+1/math.Max(np, 1))
-		z := math.Inf(1)
+		z := float64(maxLobeZ) // no noise on the plateau: beyond any threshold
 		if se > 0 {
 			z = exc / se
 		}

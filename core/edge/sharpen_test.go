@@ -215,3 +215,21 @@ func TestUnsharpenedNotFlagged(t *testing.T) {
 		t.Errorf("%d of %d unsharpened edges flagged (want under 1 %%)", flagged, total)
 	}
 }
+
+// TestNoiseFreeLobeFinite: on a noise-free edge whose plateaus are flat
+// (a sharp lens, sigma 0.5 px, with an unsharp mask of 1.5 at 1 px) the noise
+// is 0, so a lobe's size in standard errors has no finite value; it is
+// reported as maxLobeZ (the result must stay a finite number for JSON), and
+// the edge is still flagged as sharpened.
+func TestNoiseFreeLobeFinite(t *testing.T) {
+	m := usmEdge(t, simcam.Gaussian{Sigma1: 0.5, Sigma2: 0.5}, 6, 1.5, 1, 0, 1, Options{})
+	if m.NoiseRMS != 0 {
+		t.Fatalf("the noise-free edge shows noise %v: the test needs flat plateaus", m.NoiseRMS)
+	}
+	if z := m.Sharpening.LobeZ; math.IsInf(z, 0) || math.IsNaN(z) || z != maxLobeZ {
+		t.Errorf("lobe of a noise-free edge: %v standard errors, want %v", z, maxLobeZ)
+	}
+	if !hasFlag(m, FlagSharpened) {
+		t.Errorf("noise-free edge with an unsharp mask of 1.5 at 1 px not flagged: %+v", m.Sharpening)
+	}
+}

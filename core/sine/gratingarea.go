@@ -163,16 +163,53 @@ func parabola(a, b, c float64) float64 {
 }
 
 // amplitude returns the amplitude of the least-squares sinusoid of
-// frequency (fx, fy) over px.
-func amplitude(p *plane.Plane, px []pix, fx, fy float64) float64 {
+// frequency (fx, fy) over the pixels of a.
+//
+// The phase 2 pi (fx x + fy y) of a pixel is the sum of a column's and a
+// row's, so its cosine and sine come from one table of each by the angle-sum
+// identities instead of a Sincos per pixel (they agree to about 1e-15).
+func (a *ampArea) amplitude(fx, fy float64) float64 {
+	for i := range a.cx {
+		a.sx[i], a.cx[i] = math.Sincos(2 * math.Pi * fx * (float64(a.x0+i) + 0.5))
+	}
+	for j := range a.cy {
+		a.sy[j], a.cy[j] = math.Sincos(2 * math.Pi * fy * (float64(a.y0+j) + 0.5))
+	}
 	var h harmonic
-	for _, q := range px {
-		w := 2 * math.Pi * (fx*(float64(q.x)+0.5) + fy*(float64(q.y)+0.5))
-		s, c := math.Sincos(w)
-		h.add(c, s, float64(p.Pix[q.y*p.W+q.x]))
+	for _, q := range a.px {
+		i, j := q.x-a.x0, q.y-a.y0
+		c := a.cx[i]*a.cy[j] - a.sx[i]*a.sy[j]
+		s := a.sx[i]*a.cy[j] + a.cx[i]*a.sy[j]
+		h.add(c, s, float64(a.p.Pix[q.y*a.p.W+q.x]))
 	}
 	f := h.solve()
 	return math.Hypot(f.b, f.c)
+}
+
+// ampArea holds the pixels amplitude fits over, their bounding columns
+// x0.. and rows y0.., and the trigonometric tables it fills per frequency.
+type ampArea struct {
+	p              *plane.Plane
+	px             []pix
+	x0, y0         int
+	cx, sx, cy, sy []float64
+}
+
+func newAmpArea(p *plane.Plane, px []pix) *ampArea {
+	a := &ampArea{p: p, px: px}
+	if len(px) == 0 {
+		return a
+	}
+	x0, y0, x1, y1 := px[0].x, px[0].y, px[0].x, px[0].y
+	for _, q := range px {
+		x0, x1 = min(x0, q.x), max(x1, q.x)
+		y0, y1 = min(y0, q.y), max(y1, q.y)
+	}
+	a.x0, a.y0 = x0, y0
+	nx, ny := x1-x0+1, y1-y0+1
+	buf := make([]float64, 2*nx+2*ny)
+	a.cx, a.sx, a.cy, a.sy = buf[:nx], buf[nx:2*nx], buf[2*nx:2*nx+ny], buf[2*nx+ny:]
+	return a
 }
 
 // refineFreq maximises the fitted amplitude over the frequency and the
@@ -192,8 +229,9 @@ func refineFreq(p *plane.Plane, px []pix, fx, fy float64) (float64, float64) {
 	}
 	lu, lv := math.Max(hi[0]-lo[0], 1), math.Max(hi[1]-lo[1], 1)
 	df, dth := 0.5/lu, 0.5/(f*lv)
+	area := newAmpArea(p, px)
 	amp := func(f, th float64) float64 {
-		return amplitude(p, px, f*math.Cos(th), f*math.Sin(th))
+		return area.amplitude(f*math.Cos(th), f*math.Sin(th))
 	}
 	for range 3 {
 		f = golden(func(x float64) float64 { return amp(x, th) }, f-df, f+df)

@@ -5,8 +5,10 @@ package coarse
 
 import (
 	"math"
+	"runtime"
 	"slices"
 
+	"sagitta/core/internal/parallel"
 	"sagitta/core/plane"
 )
 
@@ -22,25 +24,40 @@ func Shrink(p *plane.Plane, k int) *plane.Plane {
 	w, h := p.W/k, p.H/k
 	out := plane.New(w, h)
 	inv := 1 / float32(k*k)
-	acc := make([]float32, w)
-	for j := range h {
-		clear(acc)
-		for y := j * k; y < (j+1)*k; y++ {
-			row := p.Pix[y*p.W : y*p.W+w*k]
-			for i := range w {
-				var s float32
-				for _, v := range row[i*k : (i+1)*k] {
-					s += v
+	rows(h, w*k*k, func(j0, j1 int) {
+		acc := make([]float32, w)
+		for j := j0; j < j1; j++ {
+			clear(acc)
+			for y := j * k; y < (j+1)*k; y++ {
+				row := p.Pix[y*p.W : y*p.W+w*k]
+				for i := range w {
+					var s float32
+					for _, v := range row[i*k : (i+1)*k] {
+						s += v
+					}
+					acc[i] += s
 				}
-				acc[i] += s
+			}
+			dst := out.Pix[j*w : (j+1)*w]
+			for i := range dst {
+				dst[i] = acc[i] * inv
 			}
 		}
-		dst := out.Pix[j*w : (j+1)*w]
-		for i := range dst {
-			dst[i] = acc[i] * inv
-		}
-	}
+	})
 	return out
+}
+
+// rows runs f over ranges [j0, j1) covering [0, h) on several goroutines
+// when the work (about size samples read per row) is large and more than one
+// CPU is available (never under js/wasm, where GOMAXPROCS is 1). Every
+// output row is computed alone, so the result does not depend on the split.
+func rows(h, size int, f func(j0, j1 int)) {
+	n := runtime.GOMAXPROCS(0)
+	if n < 2 || h < 2 || h*size < 1<<18 {
+		f(0, h)
+		return
+	}
+	parallel.Ranges(h, min(n, 8, h), f)
 }
 
 // Level returns, for every pixel of c, the level that separates dark from
@@ -57,21 +74,23 @@ func Level(c *plane.Plane, tile int, minRatio float64) *plane.Plane {
 	tw, th := (c.W+tile-1)/tile, (c.H+tile-1)/tile
 	level := make([]float64, tw*th)
 	known := make([]bool, tw*th)
-	buf := make([]float32, 0, tile*tile)
-	for ty := range th {
-		for tx := range tw {
-			buf = buf[:0]
-			for y := ty * tile; y < min((ty+1)*tile, c.H); y += 2 {
-				buf = append(buf, c.Pix[y*c.W+tx*tile:y*c.W+min((tx+1)*tile, c.W)]...)
-			}
-			slices.Sort(buf)
-			lo, hi := float64(buf[len(buf)*5/100]), float64(buf[len(buf)*95/100])
-			if hi > 0.01 && hi >= minRatio*lo {
-				level[ty*tw+tx] = math.Sqrt(math.Max(lo, hi*1e-3) * hi)
-				known[ty*tw+tx] = true
+	rows(th, c.W*tile/2*8, func(ty0, ty1 int) { // a sort costs about 8 passes
+		buf := make([]float32, 0, tile*tile)
+		for ty := ty0; ty < ty1; ty++ {
+			for tx := range tw {
+				buf = buf[:0]
+				for y := ty * tile; y < min((ty+1)*tile, c.H); y += 2 {
+					buf = append(buf, c.Pix[y*c.W+tx*tile:y*c.W+min((tx+1)*tile, c.W)]...)
+				}
+				slices.Sort(buf)
+				lo, hi := float64(buf[len(buf)*5/100]), float64(buf[len(buf)*95/100])
+				if hi > 0.01 && hi >= minRatio*lo {
+					level[ty*tw+tx] = math.Sqrt(math.Max(lo, hi*1e-3) * hi)
+					known[ty*tw+tx] = true
+				}
 			}
 		}
-	}
+	})
 	// Spread known levels into unknown blocks, ring by ring.
 	for {
 		changed := false
@@ -96,20 +115,22 @@ func Level(c *plane.Plane, tile int, minRatio float64) *plane.Plane {
 		}
 	}
 	out := plane.New(c.W, c.H)
-	for y := range c.H {
-		fy := (float64(y)+0.5)/float64(tile) - 0.5
-		y0 := min(max(int(math.Floor(fy)), 0), th-1)
-		y1 := min(y0+1, th-1)
-		ay := math.Min(math.Max(fy-float64(y0), 0), 1)
-		for x := range c.W {
-			fx := (float64(x)+0.5)/float64(tile) - 0.5
-			x0 := min(max(int(math.Floor(fx)), 0), tw-1)
-			x1 := min(x0+1, tw-1)
-			ax := math.Min(math.Max(fx-float64(x0), 0), 1)
-			v := (sm[y0*tw+x0]*(1-ax)+sm[y0*tw+x1]*ax)*(1-ay) + (sm[y1*tw+x0]*(1-ax)+sm[y1*tw+x1]*ax)*ay
-			out.Pix[y*c.W+x] = float32(v)
+	rows(c.H, 4*c.W, func(ya, yb int) {
+		for y := ya; y < yb; y++ {
+			fy := (float64(y)+0.5)/float64(tile) - 0.5
+			y0 := min(max(int(math.Floor(fy)), 0), th-1)
+			y1 := min(y0+1, th-1)
+			ay := math.Min(math.Max(fy-float64(y0), 0), 1)
+			for x := range c.W {
+				fx := (float64(x)+0.5)/float64(tile) - 0.5
+				x0 := min(max(int(math.Floor(fx)), 0), tw-1)
+				x1 := min(x0+1, tw-1)
+				ax := math.Min(math.Max(fx-float64(x0), 0), 1)
+				v := (sm[y0*tw+x0]*(1-ax)+sm[y0*tw+x1]*ax)*(1-ay) + (sm[y1*tw+x0]*(1-ax)+sm[y1*tw+x1]*ax)*ay
+				out.Pix[y*c.W+x] = float32(v)
+			}
 		}
-	}
+	})
 	return out
 }
 

@@ -1,6 +1,8 @@
 package coarse
 
 import (
+	"runtime"
+	"slices"
 	"testing"
 
 	"sagitta/core/plane"
@@ -55,5 +57,32 @@ func TestLevelSeparates(t *testing.T) {
 	}
 	if Level(flat, 32, 1.5).At(10, 10) != 0 {
 		t.Error("a flat image must have no level")
+	}
+}
+
+// TestSplitRowsSame: the reduction and the level are the same, bit for
+// bit, on one CPU and on several (their rows are computed alone, over row
+// ranges in parallel); the photo is large enough to be split. With -race
+// (make test-race) it also checks that the ranges share nothing.
+func TestSplitRowsSame(t *testing.T) {
+	p := plane.New(1201, 903)
+	for y := range p.H {
+		for x := range p.W {
+			v := float32(0.7)
+			if (x/37+y/29)%2 == 0 {
+				v = 0.05
+			}
+			p.Set(x, y, v*(1-float32(x)/3000)+float32((x*7+y*13)%17)/1000)
+		}
+	}
+	run := func(procs int) (*plane.Plane, *plane.Plane) {
+		defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(procs))
+		c := Shrink(p, 2)
+		return c, Level(c, 32, 1.3)
+	}
+	c1, l1 := run(1)
+	c2, l2 := run(4)
+	if !slices.Equal(c1.Pix, c2.Pix) || !slices.Equal(l1.Pix, l2.Pix) {
+		t.Error("the planes differ between one CPU and several")
 	}
 }
