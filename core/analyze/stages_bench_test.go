@@ -21,7 +21,6 @@ import (
 
 	sheet "sagitta/core/chart"
 	"sagitta/core/decode"
-	"sagitta/core/edge"
 	"sagitta/core/edgefind"
 	"sagitta/core/exif"
 	"sagitta/core/sim/chartsim"
