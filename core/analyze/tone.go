@@ -44,6 +44,9 @@ type ToneFit struct {
 	Curve [][2]float64 `json:"curve"`
 	// Code is FlagToneCurve when MaxDiff exceeds ToneTol, else "".
 	Code string `json:"code,omitempty"`
+	// fitX, fitY are the points the curve was fitted through (decoded
+	// value, reflectance), for measuring the photo elsewhere (Plan).
+	fitX, fitY []float64
 }
 
 // toneAssumed is the caution for a camera JPEG without Sagitta's chart.
@@ -156,6 +159,7 @@ func fitTone(p *plane.Plane, pose *chart.Pose, apply bool) (*ToneFit, string) {
 		v := 0.05 * float64(k)
 		tf.Curve = append(tf.Curve, [2]float64{v, f.At(v * paper)})
 	}
+	tf.fitX, tf.fitY = xs, ys
 	if apply {
 		f.Apply(p, paper)
 		tf.Applied = true
