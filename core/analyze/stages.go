@@ -80,6 +80,8 @@ type Measurer struct {
 	plan    Plan
 	method  edge.Method
 	workers int // goroutines; 0 = GOMAXPROCS
+	// prepared: made by Prepare, waiting for its plan (Use)
+	prepared bool
 }
 
 // Found is a photo after the find stage: decoded, its candidates found,
@@ -96,6 +98,12 @@ type Found struct {
 
 // Targets is the number of candidates to measure.
 func (m *Measurer) Targets() int { return len(m.plan.Regions) }
+
+// Frame returns the photo's size in px and its Exif orientation (0 when
+// none), for showing it while its targets are measured.
+func (f *Found) Frame() (width, height, orientation int) {
+	return f.dec.Width, f.dec.Height, f.dec.Exif.Orientation
+}
 
 // Plan returns the plan that Prepare needs to measure this photo's
 // candidates elsewhere.
@@ -197,10 +205,11 @@ func Find(ctx context.Context, ph Photo, s Settings, progress Progress) (f *Foun
 }
 
 // Prepare decodes a photo in another process for measuring a part of the
-// candidates that Find found in it: the same decoding (settings' tone and
-// pixel limit, the same Pixels or none), then the plan's tone curve. Its
-// Measure gives the same Parts as the Found's.
-func Prepare(ph Photo, s Settings, plan Plan) (m *Measurer, err error) {
+// candidates that Find finds in it: the same decoding (the settings' tone
+// and pixel limit, the same Pixels or none). It may run while Find runs
+// elsewhere; Use then gives it Find's plan, and its Measure gives the same
+// Parts as the Found's.
+func Prepare(ph Photo, s Settings) (m *Measurer, err error) {
 	defer func() {
 		if r := recover(); r != nil {
 			m, err = nil, fmt.Errorf("analyze: internal error on %s: %v", ph.Name, r)
@@ -214,14 +223,26 @@ func Prepare(ph Photo, s Settings, plan Plan) (m *Measurer, err error) {
 	if err != nil {
 		return nil, err
 	}
+	return &Measurer{dec: dec, method: chk.method, workers: s.Workers, prepared: true}, nil
+}
+
+// Use sets the plan of a Measurer that Prepare made: its regions, and the
+// tone curve fitted by Find, applied to the pixels as Find applied it. It
+// may be called once.
+func (m *Measurer) Use(plan Plan) error {
+	if !m.prepared {
+		return errors.New("analyze: Use on a measurer that has its plan")
+	}
+	m.prepared = false
 	if len(plan.ToneX) > 0 {
 		fit, err := decode.Fit(plan.ToneX, plan.ToneY)
 		if err != nil {
-			return nil, fmt.Errorf("analyze: the plan's tone curve: %w", err)
+			return fmt.Errorf("analyze: the plan's tone curve: %w", err)
 		}
-		fit.Apply(dec.Lum, plan.TonePaper)
+		fit.Apply(m.dec.Lum, plan.TonePaper)
 	}
-	return &Measurer{dec: dec, plan: plan, method: chk.method, workers: s.Workers}, nil
+	m.plan = plan
+	return nil
 }
 
 // Measure measures the candidates lo to hi-1 (0 <= lo <= hi <= Targets(),

@@ -149,3 +149,28 @@ func jpegFrame(data []byte) (bits, comps int, ok bool) {
 	}
 	return 0, 0, false
 }
+
+// LumDiff compares the luminance of a file decoded by Decode with that of
+// pixels another decoder made of it (as FromPixels reads them): the
+// largest and the mean absolute difference, in linear light with full
+// scale 1. It is the check of a browser's decoder against the core's.
+func LumDiff(data []byte, pix image.Image, opt Options) (maxDiff, meanDiff float64, err error) {
+	a, err := Decode(data, opt)
+	if err != nil {
+		return 0, 0, err
+	}
+	b, err := FromPixels(data, pix, opt)
+	if err != nil {
+		return 0, 0, err
+	}
+	var sum float64
+	for i, v := range a.Lum.Pix {
+		d := float64(v - b.Lum.Pix[i])
+		if d < 0 {
+			d = -d
+		}
+		sum += d
+		maxDiff = max(maxDiff, d)
+	}
+	return maxDiff, sum / float64(len(a.Lum.Pix)), nil
+}
