@@ -48,7 +48,10 @@ func TestStagesEqualRun(t *testing.T) {
 					lo, hi := k*n/ranges, (k+1)*n/ranges
 					m := &f.Measurer
 					if k%2 == 1 {
-						if m, err = Prepare(Photo{Name: "p.jpg", Data: data}, s, plan); err != nil {
+						if m, err = Prepare(Photo{Name: "p.jpg", Data: data}, s); err != nil {
+							t.Fatal(err)
+						}
+						if err := m.Use(plan); err != nil {
 							t.Fatal(err)
 						}
 					}

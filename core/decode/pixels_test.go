@@ -70,6 +70,9 @@ func TestFromPixelsEqualsDecode(t *testing.T) {
 					t.Fatalf("pixel %d: %g, want %g", i, got.Lum.Pix[i], v)
 				}
 			}
+			if mx, mean, err := LumDiff(tc.data, nrgbaOf(img), Options{}); err != nil || mx != 0 || mean != 0 {
+				t.Errorf("LumDiff %g, %g, %v; want 0, 0", mx, mean, err)
+			}
 		})
 	}
 }
