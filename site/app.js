@@ -216,6 +216,7 @@ async function measure(p) {
     p.fraction = fraction;
     updateRow(p);
     setStatus();
+    if (stage === 'measuring' && !p.shown && state.selected === p.key) displayBitmap(p); // ready for the first targets
   }, (parts, count) => {
     // Results as they come: the targets measured so far, on the photo.
     if (p.job !== job) return;
@@ -516,11 +517,9 @@ async function showSelected() {
   }
 }
 
-// showPartial shows a photo being measured: the photo and the targets
-// measured so far.
-async function showPartial(sec, p) {
-  sec.hidden = false;
-  // The photo is decoded for display once (the result then reuses it).
+// displayBitmap decodes a photo for display once, while it is measured (the
+// result then reuses it); null for TIFF, which the browser cannot show.
+function displayBitmap(p) {
   if (!p.shown) {
     p.shown = (async () => {
       if (isTIFF(new Uint8Array(await p.file.slice(0, 4).arrayBuffer()))) return null;
@@ -531,7 +530,14 @@ async function showPartial(sec, p) {
       }
     })();
   }
-  const source = await p.shown;
+  return p.shown;
+}
+
+// showPartial shows a photo being measured: the photo and the targets
+// measured so far.
+async function showPartial(sec, p) {
+  sec.hidden = false;
+  const source = await displayBitmap(p);
   if (state.selected !== p.key || p.result || !p.partial) return;
   if (source && source.width === 0) {
     p.shown = null; // closed meanwhile, when another photo was shown

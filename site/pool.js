@@ -49,6 +49,9 @@ export class AbortError extends Error {
 
 let nextId = 1;
 
+/** FIRST_RANGE is the length of each worker's first range of targets. */
+const FIRST_RANGE = 8;
+
 /**
  * chunkSize is how many targets one "measure" message asks for: small
  * enough that the first targets show early and every worker keeps busy to
@@ -336,8 +339,13 @@ export class Pool {
     job.parts = [];
     job.measured = 0;
     job.pending = [];
+    // The first range of each worker is short, so that targets show soon.
     const n = chunkSize(msg.targets, this.size);
-    for (let lo = 0; lo < msg.targets; lo += n) job.pending.push([lo, Math.min(msg.targets, lo + n)]);
+    for (let lo = 0, k = 0; lo < msg.targets; k++) {
+      const hi = Math.min(msg.targets, lo + (k < this.size ? Math.min(n, FIRST_RANGE) : n));
+      job.pending.push([lo, hi]);
+      lo = hi;
+    }
     job.outstanding = 0;
     if (job.onProgress) job.onProgress(STAGE_MEASURING, 0.3);
     this.dispatch(job);

@@ -77,7 +77,11 @@ async function handle(msg) {
     if (!run) throw new Error(`unknown message type "${msg.type}"`);
     await run(msg);
   } catch (e) {
-    if (msg.id) self.sagittaRelease && self.sagittaRelease(msg.id);
+    try {
+      if (msg.id && self.sagittaRelease) self.sagittaRelease(msg.id); // the photo, if any, is dropped
+    } catch {
+      // the Go program has stopped: nothing to drop
+    }
     held.delete(msg.id);
     self.postMessage({ type: 'error', id: msg.id, message: text(e), fatal: isDead(e), fileFault: !!(e && e.fileFault === true), memory: memory() });
   }
