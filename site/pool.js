@@ -355,8 +355,13 @@ export class Pool {
   // asks the finder to finish once all are measured.
   dispatch(job) {
     if (job.state !== 'measuring') return;
+    const callWaits = this.queue.some((j) => j.urgent);
     for (const slot of [job.finder, ...job.helpers]) {
       if (slot.working || (slot !== job.finder && !slot.prepared)) continue;
+      if (slot !== job.finder && callWaits && job.pending.length > 0) {
+        this.release(slot, job); // a quick call waits: the helper takes it instead of the next range
+        continue;
+      }
       const range = job.pending.shift();
       if (!range) break;
       job.outstanding++;

@@ -291,3 +291,41 @@ test('cancelling a photo replaces its finder and its helpers', async () => {
   assert.deepEqual(workers.map((w) => w.terminated), [true, true]);
   assert.equal(p.slots.length, 0);
 });
+
+test('a quick call does not wait for a photo spread over every worker: a helper takes it between ranges', async () => {
+  const { p, workers } = pool(2);
+  const job = p.analyze('a', pngHeader(1000, 1000), {}, 0);
+  await tick();
+  const [f, h] = workers;
+  h.reply({ type: 'prepared', id: h.inbox[0].id });
+  f.reply({ type: 'found', id: f.inbox[0].id, targets: 100, plan: 'PLAN' });
+  await tick();
+  const csv = p.call('csv', ['{}']);
+  await tick();
+  h.reply({ type: 'measured', id: h.inbox[1].id, lo: h.inbox[1].lo, hi: h.inbox[1].hi, parts: partsOf(h.inbox[1].lo, h.inbox[1].hi) });
+  await tick();
+  assert.deepEqual(h.inbox.slice(2).map((m) => m.type), ['release', 'call'], 'the helper lets the photo go and runs the call');
+  h.reply({ type: 'result', id: h.inbox[3].id, result: 'file,id\n' });
+  assert.equal(await csv, 'file,id\n');
+  // The finder measures the rest; the freed worker may help again.
+  for (let guard = 0; guard < 50; guard++) {
+    await tick();
+    for (const w of workers) {
+      const m = w.inbox.at(-1);
+      if (m && m.type === 'measure' && !m.done) {
+        m.done = true;
+        w.reply({ type: 'measured', id: m.id, lo: m.lo, hi: m.hi, parts: partsOf(m.lo, m.hi) });
+      } else if (m && m.type === 'prepare' && !m.done) {
+        m.done = true;
+        w.reply({ type: 'prepared', id: m.id });
+      }
+    }
+    const fin = f.inbox.find((m) => m.type === 'finish');
+    if (fin) {
+      assert.equal(JSON.parse(fin.parts).length, 100);
+      f.reply({ type: 'result', id: fin.id, result: { file: 'a' } });
+      break;
+    }
+  }
+  assert.equal((await job.promise).result.file, 'a');
+});
