@@ -159,6 +159,7 @@ bench: build
 # Every Go benchmark of the core (the old `make bench`).
 bench-go: deps
 	$(GO) test -run '^$$' -bench . -benchmem ./core/...
+	$(MAKE) browser-deps build wasm dist >/dev/null && $(GO) build -o $(BIN)/serve ./site/serve && $(GO) build -o $(BIN)/testphoto ./site/testphoto && cd $(TESTDIR) && SAGITTA_ROOT=$(CURDIR) node bench.mjs
 
 clean:
 	rm -rf $(BIN) dist $(TESTDIR)/out

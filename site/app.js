@@ -5,7 +5,7 @@
 import { engine, demoEngine } from './engine.js';
 import { AbortError } from './pool.js';
 import { readSettings, settingsKey, watchSettings, settingsSummary } from './settings.js';
-import { renderResult, refreshUnits, outcome } from './results.js';
+import { renderResult, renderPartial, refreshUnits, outcome } from './results.js';
 import { saveBlob } from './plot.js';
 import { renderCompare, seriesReport } from './compare.js';
 import { renderPrint } from './print.js';
@@ -29,6 +29,12 @@ window.sagitta = {
   get results() {
     return { images: state.photos.filter((p) => p.result).map((p) => p.result) };
   },
+  // who decoded each measured photo ("browser" or "core"), in the order of results
+  get decodedBy() {
+    return state.photos.filter((p) => p.result).map((p) => p.decodedBy);
+  },
+  // the measuring workers' WebAssembly memory, bytes
+  workerMemory: () => (state.pool ? state.pool.memory : 0),
 };
 
 // The page's status: working while any photo is queued, measured or updated;
@@ -202,6 +208,7 @@ async function measure(p) {
     }
   }
   if (!state.photos.includes(p)) return; // removed meanwhile
+  p.partial = null;
   const job = state.pool.analyze(p.name, bytes, settings, tiff ? 2048 : 0, (stage, fraction) => {
     if (p.job !== job) return;
     p.status = 'working';
@@ -209,12 +216,26 @@ async function measure(p) {
     p.fraction = fraction;
     updateRow(p);
     setStatus();
+    if (stage === 'measuring' && !p.shown && state.selected === p.key) displayBitmap(p); // ready for the first targets
+  }, (parts, count) => {
+    // Results as they come: the targets measured so far, on the photo.
+    if (p.job !== job) return;
+    if (!p.partial) p.partial = { records: [], measured: 0, targets: 0 };
+    for (const part of parts) if (part.record) p.partial.records.push({ ...part.record, id: part.index });
+    p.partial.frame = count.frame;
+    p.partial.measured = count.measured;
+    p.partial.targets = count.targets;
+    updateRow(p);
+    if (state.selected === p.key) showSelected();
   });
   p.job = job;
   try {
-    const { result, preview } = await job.promise;
+    const { result, preview, decodedBy } = await job.promise;
     if (p.job !== job) return; // replaced by a newer job
     p.job = null;
+    p.partial = null;
+    p.shown = null;
+    p.decodedBy = decodedBy || 'core';
     p.result = result;
     p.status = 'done';
     if (preview) p.preview = previewCanvas(preview);
@@ -343,7 +364,7 @@ function updateRow(p) {
       bar.removeAttribute('value');
       break;
     case 'working':
-      text = stageWords(p.stage) + ` (${Math.round(p.fraction * 100)} %)`;
+      text = p.partial && p.stage === 'measuring' ? `${stageWords(p.stage)}: ${p.partial.measured} of ${p.partial.targets} targets` : stageWords(p.stage) + ` (${Math.round(p.fraction * 100)} %)`;
       break;
     case 'updating':
       text = 'Applying the new settings…';
@@ -450,6 +471,7 @@ let shownBitmap = null;
 async function showSelected() {
   const sec = $('result');
   const p = state.photos.find((q) => q.key === state.selected);
+  if (p && !p.result && p.partial) return showPartial(sec, p);
   if (!p || !p.result) {
     sec.hidden = !p;
     if (p) {
@@ -493,6 +515,45 @@ async function showSelected() {
     shownBitmap = source && !p.preview ? source : null;
     shownKey = shownBitmap ? p.key : null;
   }
+}
+
+// displayBitmap decodes a photo for display once, while it is measured (the
+// result then reuses it); null for TIFF, which the browser cannot show.
+function displayBitmap(p) {
+  if (!p.shown) {
+    p.shown = (async () => {
+      if (isTIFF(new Uint8Array(await p.file.slice(0, 4).arrayBuffer()))) return null;
+      try {
+        return await bitmap(p.file);
+      } catch {
+        return null;
+      }
+    })();
+  }
+  return p.shown;
+}
+
+// showPartial shows a photo being measured: the photo and the targets
+// measured so far.
+async function showPartial(sec, p) {
+  sec.hidden = false;
+  const source = await displayBitmap(p);
+  if (state.selected !== p.key || p.result || !p.partial) return;
+  if (source && source.width === 0) {
+    p.shown = null; // closed meanwhile, when another photo was shown
+    return showPartial(sec, p);
+  }
+  if (source && shownBitmap !== source) {
+    if (shownBitmap) shownBitmap.close();
+    shownBitmap = source;
+    shownKey = p.key;
+  }
+  // As in showSelected: the browser turns a JPEG by its Exif orientation.
+  const o = p.partial.frame.orientation || 1;
+  const orientation = source && o > 1 && (await turnsPhotos()) ? o : 1;
+  if (state.selected !== p.key || p.result || !p.partial) return;
+  renderPartial(sec, p, { source, orientation });
+  document.body.dataset.shownTargets = String(p.partial.records.length);
 }
 
 // ---------------------------------------------------------------- settings

@@ -26,7 +26,10 @@ export function engine() {
 
 async function start() {
   const [module, url] = await Promise.all([compile(compressed('core-wasm-gzip', 'sagitta-wasm.js', 'sagittaCoreGzip')), workerURL()]);
-  return new Pool({ module, spawn: () => new Worker(url), size: poolSize() });
+  // ?decoder=core or ?decoder=browser chooses who decodes JPEG and 8-bit
+  // PNG photos (for the decoders' comparison and the benchmark).
+  const decoder = new URLSearchParams(location.search).get('decoder');
+  return new Pool({ module, spawn: () => new Worker(url), size: poolSize(), ...(decoder === 'core' || decoder === 'browser' ? { decoder } : {}) });
 }
 
 /**

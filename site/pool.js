@@ -10,7 +10,7 @@
 // whose WebAssembly memory grew past a limit (after a large photo) is
 // replaced once its job is done. The messages are described in protocol.js.
 
-import { FROM_WORKER, TO_WORKER, analyzeMessage, callMessage } from './protocol.js';
+import { FROM_WORKER, TO_WORKER, STAGE_MEASURING, STAGE_SUMMING, analyzeMessage, callMessage } from './protocol.js';
 import { declaredSize } from './header.js';
 
 /**
@@ -24,6 +24,12 @@ import { declaredSize } from './header.js';
 const PIXEL_BUDGET = 128e6;
 const MEMORY_LIMIT = 1536 * 2 ** 20;
 const CORE_MAX_PIXELS = 120e6;
+
+/**
+ * DECODER is who decodes JPEG and 8-bit PNG photos by default (see the
+ * Pool's decoder option).
+ */
+const DECODER = 'core';
 
 /** photoPixels is what a photo counts against the budget: its declared pixels. */
 function photoPixels(bytes) {
@@ -43,6 +49,18 @@ export class AbortError extends Error {
 
 let nextId = 1;
 
+/** FIRST_RANGE is the length of each worker's first range of targets. */
+const FIRST_RANGE = 8;
+
+/**
+ * chunkSize is how many targets one "measure" message asks for: small
+ * enough that the first targets show early and every worker keeps busy to
+ * the end, large enough that messages cost little (8 to 48).
+ */
+export function chunkSize(targets, workers) {
+  return Math.max(8, Math.min(48, Math.ceil(targets / (6 * Math.max(1, workers)))));
+}
+
 export class Pool {
   /**
    * @param {object} o
@@ -52,8 +70,11 @@ export class Pool {
    * @param {number} [o.idleMs] stop a worker after this long without work
    * @param {number} [o.pixelBudget] most pixels measured at once
    * @param {number} [o.memoryLimit] replace a worker whose memory passed this, bytes
+   * @param {string} [o.decoder] "browser": JPEG and 8-bit PNG decoded by the
+   *   browser where the core allows it; "core": every file by the core
    */
-  constructor({ module, spawn, size, idleMs = 30000, pixelBudget = PIXEL_BUDGET, memoryLimit = MEMORY_LIMIT }) {
+  constructor({ module, spawn, size, idleMs = 30000, pixelBudget = PIXEL_BUDGET, memoryLimit = MEMORY_LIMIT, decoder = DECODER }) {
+    this.decoder = decoder;
     this.module = module;
     this.spawn = spawn;
     this.size = Math.max(1, size | 0);
@@ -63,20 +84,28 @@ export class Pool {
     this.recycled = 0; // workers replaced for their memory, for tests and diagnostics
     this.queue = [];
     this.slots = [];
+    this.running = []; // photos being found, measured or finished
     this.started = 0; // workers started, for tests and diagnostics
     this.functions = new Set(); // core functions reachable by call()
   }
 
   /**
-   * analyze queues one photo. onProgress(stage, fraction) reports progress.
-   * Returns {id, promise, cancel}; the promise gives {result, preview} or
-   * rejects with an Error (AbortError when cancelled).
+   * analyze queues one photo. onProgress(stage, fraction) reports progress;
+   * onParts(parts, {measured, targets, decodedBy, frame}) gives each range's
+   * parts as they come (the core's analyze.Part: {index, record} or
+   * {index, rejected}; records not yet placed in the field; frame: the
+   * photo's {width, height, orientation}). One
+   * worker finds the photo's targets; every free worker then measures a
+   * share of them (each decodes the photo itself) and the finder merges and
+   * summarises them. Returns {id, promise, cancel}; the promise gives
+   * {result, preview, decodedBy} or rejects with an Error (AbortError when
+   * cancelled).
    */
-  analyze(name, bytes, settings, previewSide, onProgress) {
+  analyze(name, bytes, settings, previewSide, onProgress, onParts) {
     const id = nextId++;
     const pixels = photoPixels(bytes);
-    const { message, transfer } = analyzeMessage(id, name, bytes, settings, previewSide);
-    return this.enqueue({ id, message, transfer, onProgress, urgent: false, pixels });
+    const photo = { name, bytes, settings, previewSide, pixels };
+    return this.enqueue({ id, photo, onProgress, onParts, urgent: false, pixels });
   }
 
   /** call runs one of the core's quick functions; resolves with its result. */
@@ -108,6 +137,11 @@ export class Pool {
     return this.queue.length > 0 || this.slots.some((s) => s.job);
   }
 
+  /** memory is the WebAssembly memory of the running workers as they last reported it, bytes. */
+  get memory() {
+    return this.slots.reduce((n, s) => n + (s.memory || 0), 0);
+  }
+
   enqueue(job) {
     const promise = new Promise((resolve, reject) => {
       job.resolve = resolve;
@@ -123,7 +157,7 @@ export class Pool {
     return { id: job.id, promise, cancel: () => this.cancel(job.id) };
   }
 
-  /** cancel stops a job: dropped from the queue, or its worker replaced. */
+  /** cancel stops a job: dropped from the queue, or its workers replaced. */
   cancel(id) {
     const q = this.queue.findIndex((j) => j.id === id);
     if (q >= 0) {
@@ -131,10 +165,11 @@ export class Pool {
       job.reject(new AbortError());
       return;
     }
-    const slot = this.slots.find((s) => s.job && s.job.id === id);
-    if (!slot) return;
-    const job = slot.job;
-    this.retire(slot); // a running WebAssembly call cannot be interrupted
+    const slots = this.slots.filter((s) => s.job && s.job.id === id);
+    if (slots.length === 0) return;
+    const job = slots[0].job;
+    for (const slot of slots) this.retire(slot);
+    if (job.photo) this.end(job); // a running WebAssembly call cannot be interrupted
     job.reject(new AbortError());
     this.pump();
   }
@@ -145,36 +180,91 @@ export class Pool {
     for (const slot of [...this.slots]) if (slot.job) this.cancel(slot.job.id);
   }
 
-  /** pixelsInFlight is the sum of the declared pixels of the photos being measured. */
+  /** pixelsInFlight is the sum of the declared pixels of the photos each worker holds. */
   get pixelsInFlight() {
     return this.slots.reduce((n, s) => n + (s.job && s.job.pixels ? s.job.pixels : 0), 0);
   }
 
   pump() {
-    while (this.queue.length > 0) {
+    for (;;) {
       let slot = this.slots.find((s) => !s.job);
       if (!slot && this.slots.length >= this.size) return;
-      // Photos in order, each only while the budget allows (or alone).
-      const next = this.queue[0];
       const inFlight = this.pixelsInFlight;
-      if (next.pixels && inFlight > 0 && inFlight + next.pixels > this.pixelBudget) return;
+      // A waiting job first: calls, then photos in order, each only while
+      // the budget allows (or alone).
+      const next = this.queue[0];
+      if (next && !(next.pixels && inFlight > 0 && inFlight + next.pixels > this.pixelBudget)) {
+        if (!slot) slot = this.startWorker();
+        this.queue.shift();
+        this.begin(slot, next);
+        continue;
+      }
+      // Else help a running photo with targets still to measure.
+      const photo = this.running.find((j) => this.wantsHelp(j) && inFlight + j.pixels <= this.pixelBudget);
+      if (!photo) return;
       if (!slot) slot = this.startWorker();
-      const job = this.queue.shift();
-      clearTimeout(slot.idleTimer);
-      slot.job = job;
-      slot.ready.then(
-        () => {
-          if (slot.job === job) slot.worker.postMessage(job.message, job.transfer);
-        },
-        (err) => this.fail(slot, job, err.message),
-      );
+      this.help(slot, photo);
     }
+  }
+
+  // begin sends a job to a worker: a call, or a photo to find (the worker
+  // becomes the photo's finder).
+  begin(slot, job) {
+    clearTimeout(slot.idleTimer);
+    slot.job = job;
+    if (job.photo) {
+      const p = job.photo;
+      job.finder = slot;
+      job.helpers = new Set();
+      job.state = 'finding';
+      this.running.push(job);
+      // The finder gets the photo's bytes; a copy stays for helpers.
+      const bytes = p.bytes;
+      p.bytes = bytes.byteLength > 0 ? bytes.slice(0) : bytes;
+      const { message, transfer } = analyzeMessage(job.id, p.name, bytes, p.settings, p.previewSide, this.decoder);
+      job.message = message;
+      this.send(slot, job, message, transfer);
+    } else {
+      this.send(slot, job, job.message, job.transfer);
+    }
+  }
+
+  // wantsHelp reports whether a photo could use one more worker.
+  wantsHelp(job) {
+    if (!(job.pixels > 0) || job.helpers.size + 1 >= this.size) return false;
+    if (job.state === 'finding') return true;
+    return job.state === 'measuring' && job.pending.length > 1;
+  }
+
+  // help makes a worker a helper of a running photo: it decodes the photo
+  // now and measures ranges of its targets once they are found.
+  help(slot, job) {
+    clearTimeout(slot.idleTimer);
+    slot.job = job;
+    slot.prepared = false;
+    slot.planned = false;
+    job.helpers.add(slot);
+    const p = job.photo;
+    const bytes = p.bytes.slice(0);
+    this.send(slot, job, { type: TO_WORKER.prepare, id: job.id, name: p.name, bytes, settings: JSON.stringify(p.settings), decoder: this.decoder }, [bytes]);
+  }
+
+  // send posts a message once the worker is ready; a worker that failed
+  // to start fails the job.
+  send(slot, job, message, transfer = []) {
+    slot.working = true;
+    slot.ready.then(
+      () => {
+        if (slot.job === job) slot.worker.postMessage(message, transfer);
+      },
+      (err) => this.fail(slot, job, err.message),
+    );
   }
 
   startWorker() {
     const worker = this.spawn();
     this.started++;
-    const slot = { worker, job: null, idleTimer: 0 };
+    const slot = { worker, job: null, idleTimer: 0, memory: 0 };
     slot.ready = new Promise((resolve, reject) => {
       slot.resolveReady = resolve;
       slot.rejectReady = reject;
@@ -205,15 +295,27 @@ export class Pool {
     }
     const job = slot.job;
     if (!job || msg.id !== job.id) return; // stale reply of a cancelled job
+    if (msg.memory) slot.memory = msg.memory;
+    slot.working = false;
+    if (job.photo && job.finder !== slot) return this.fromHelper(slot, job, msg);
     switch (msg.type) {
       case FROM_WORKER.progress:
-        if (job.onProgress) job.onProgress(msg.stage, msg.fraction);
+        slot.working = true;
+        if (job.onProgress && job.state === 'finding') job.onProgress(msg.stage, msg.fraction);
+        break;
+      case FROM_WORKER.found:
+        this.found(job, msg);
+        break;
+      case FROM_WORKER.measured:
+        this.measured(slot, job, msg);
         break;
       case FROM_WORKER.result:
+        if (job.photo) this.end(job);
         this.finish(slot, msg.memory);
-        job.resolve({ result: msg.result, preview: msg.preview });
+        job.resolve({ result: msg.result, preview: msg.preview, decodedBy: msg.decodedBy });
         break;
       case FROM_WORKER.error:
+        if (job.photo) this.end(job);
         if (msg.fatal) this.fail(slot, job, msg.message);
         else {
           this.finish(slot, msg.memory);
@@ -223,12 +325,137 @@ export class Pool {
         }
         break;
     }
+    this.pump();
+  }
+
+  // found starts the measuring of a photo's targets, in ranges shared out
+  // to its finder and its helpers.
+  found(job, msg) {
+    job.state = 'measuring';
+    job.targets = msg.targets;
+    job.plan = msg.plan;
+    job.decodedBy = msg.decodedBy;
+    job.frame = { width: msg.width, height: msg.height, orientation: msg.orientation || 0 };
+    job.parts = [];
+    job.measured = 0;
+    job.pending = [];
+    // The first range of each worker is short, so that targets show soon.
+    const n = chunkSize(msg.targets, this.size);
+    for (let lo = 0, k = 0; lo < msg.targets; k++) {
+      const hi = Math.min(msg.targets, lo + (k < this.size ? Math.min(n, FIRST_RANGE) : n));
+      job.pending.push([lo, hi]);
+      lo = hi;
+    }
+    job.outstanding = 0;
+    if (job.onProgress) job.onProgress(STAGE_MEASURING, 0.3);
+    this.dispatch(job);
+  }
+
+  // dispatch gives a range of targets to every idle worker of a photo, and
+  // asks the finder to finish once all are measured.
+  dispatch(job) {
+    if (job.state !== 'measuring') return;
+    const callWaits = this.queue.some((j) => j.urgent);
+    for (const slot of [job.finder, ...job.helpers]) {
+      if (slot.working || (slot !== job.finder && !slot.prepared)) continue;
+      if (slot !== job.finder && callWaits && job.pending.length > 0) {
+        this.release(slot, job); // a quick call waits: the helper takes it instead of the next range
+        continue;
+      }
+      const range = job.pending.shift();
+      if (!range) break;
+      job.outstanding++;
+      const message = { type: TO_WORKER.measure, id: job.id, lo: range[0], hi: range[1] };
+      if (slot !== job.finder && !slot.planned) {
+        message.plan = job.plan;
+        slot.planned = true;
+      }
+      slot.range = range;
+      this.send(slot, job, message);
+    }
+    for (const slot of [...job.helpers]) if (!slot.working && job.pending.length === 0) this.release(slot, job);
+    if (job.pending.length === 0 && job.outstanding === 0) {
+      job.state = 'finishing';
+      if (job.onProgress) job.onProgress(STAGE_SUMMING, 0.9);
+      const parts = '[' + job.parts.filter((t) => t.length > 2).map((t) => t.slice(1, -1)).join(',') + ']';
+      job.parts = null;
+      job.photo.bytes = null;
+      this.send(job.finder, job, { type: TO_WORKER.finish, id: job.id, parts });
+    }
+  }
+
+  // measured takes a range's parts and hands out the next range.
+  measured(slot, job, msg) {
+    job.outstanding--;
+    job.parts.push(msg.parts);
+    job.measured += msg.hi - msg.lo;
+    if (job.onParts) {
+      try {
+        job.onParts(JSON.parse(msg.parts), { measured: job.measured, targets: job.targets, decodedBy: job.decodedBy, frame: job.frame });
+      } catch {
+        // showing early targets is a courtesy; the result does not depend on it
+      }
+    }
+    if (job.onProgress) job.onProgress(STAGE_MEASURING, 0.3 + (0.6 * job.measured) / Math.max(1, job.targets));
+    this.dispatch(job);
+  }
+
+  // fromHelper handles the replies of a worker helping with a photo. A
+  // helper that fails is let go and its range measured by another.
+  fromHelper(slot, job, msg) {
+    if (job.state === 'done' && (msg.type === FROM_WORKER.prepared || msg.type === FROM_WORKER.measured)) {
+      this.release(slot, job); // the photo ended meanwhile
+      return;
+    }
+    switch (msg.type) {
+      case FROM_WORKER.prepared:
+        slot.prepared = true;
+        if (job.state === 'measuring' && job.pending.length > 0) this.dispatch(job);
+        else if (job.state !== 'finding') this.release(slot, job);
+        break;
+      case FROM_WORKER.measured:
+        slot.range = null;
+        this.measured(slot, job, msg);
+        break;
+      case FROM_WORKER.error:
+        job.helpers.delete(slot);
+        if (slot.range) {
+          job.pending.unshift(slot.range);
+          job.outstanding--;
+          slot.range = null;
+        }
+        if (msg.fatal) this.retire(slot);
+        else this.finish(slot, msg.memory);
+        this.dispatch(job);
+        break;
+      default:
+        slot.working = true; // progress of a helper: not shown
+    }
+    this.pump();
+  }
+
+  // release lets a helper go: it drops the photo (the worker runs its
+  // messages in order, so the slot is free at once).
+  release(slot, job) {
+    job.helpers.delete(slot);
+    slot.ready.then(() => slot.worker.postMessage({ type: TO_WORKER.release, id: job.id }), () => {});
+    this.finish(slot, slot.memory);
+  }
+
+  // end takes a photo off the running list and lets its helpers go.
+  end(job) {
+    this.running = this.running.filter((j) => j !== job);
+    job.state = 'done';
+    job.photo.bytes = null;
+    for (const slot of [...(job.helpers || [])]) this.release(slot, job);
   }
 
   // finish frees a slot after a job and schedules the next one; a worker
   // whose memory (bytes, as it reported) passed the limit is replaced.
   finish(slot, memory = 0) {
     slot.job = null;
+    slot.working = false;
+    slot.range = null;
     if (memory > this.memoryLimit) {
       this.recycled++;
       this.retire(slot);
@@ -245,6 +472,12 @@ export class Pool {
 
   // fail rejects the job of a dead worker, replaces the worker and goes on.
   fail(slot, job, message) {
+    if (job.photo && job.finder !== slot) {
+      // a helper that died: its range goes back to the others
+      this.fromHelper(slot, job, { type: FROM_WORKER.error, id: job.id, fatal: true });
+      return;
+    }
+    if (job.photo) this.end(job);
     this.retire(slot);
     job.reject(new Error(`the measuring engine stopped (${message}); a fresh one is ready`));
     this.pump();
@@ -253,6 +486,7 @@ export class Pool {
   retire(slot) {
     clearTimeout(slot.idleTimer);
     slot.worker.terminate();
+    if (slot.job && slot.job.helpers) slot.job.helpers.delete(slot);
     slot.job = null;
     this.slots = this.slots.filter((s) => s !== slot);
   }

@@ -14,12 +14,35 @@
 //       (functions: the names in CALLS that this build of the core has), or
 //       {type: "error", id: 0, message, fatal: true} if it cannot.
 //
-//   {type: "analyze", id, name, bytes, settings, previewSide}
-//       Measure one photo. bytes: the file's ArrayBuffer, transferred (never
-//       copied); settings: the analysis settings as a JSON string (the Go
-//       type analyze.Settings); previewSide: 0, or the largest side in px of
-//       a grey preview to return with the result (for TIFF, which browsers
-//       cannot display).
+//   {type: "analyze", id, name, bytes, settings, previewSide, decoder}
+//       Find the targets of one photo (the first of its stages). bytes: the
+//       file's ArrayBuffer, transferred (never copied); settings: the
+//       analysis settings as a JSON string (the Go type analyze.Settings);
+//       previewSide: 0, or the largest side in px of a grey preview to
+//       return with the result (for TIFF, which browsers cannot display).
+//       With decoder "browser" the worker decodes a JPEG or 8-bit PNG with
+//       the browser's decoder when the core allows it (else the core decodes
+//       it, silently); with "core" the core decodes every file. It finds
+//       the targets, keeps the photo and answers "found".
+//   {type: "prepare", id, name, bytes, settings, decoder}
+//       Help measure a photo another worker finds: decode it (as the finder
+//       does) and answer "prepared".
+//   {type: "measure", id, lo, hi, plan}
+//       Measure the targets lo..hi-1 of a photo found or prepared here;
+//       plan (the finder's, a JSON string) comes with a helper's first
+//       range. Answer "measured".
+//   {type: "finish", id, parts}
+//       To the finder, once every target is measured: parts, the JSON array
+//       of every range's parts; the worker merges them in the photo's order,
+//       summarises once and answers "result".
+//   {type: "release", id}
+//       Drop a photo this worker helped with (no answer).
+//
+//   One photo: analyze -> progress* -> found; then measure -> measured to
+//   the finder and to every helper (prepare -> prepared first), range by
+//   range, until all are in; then finish -> result. The JSON is the same
+//   whichever worker measured which range (core/analyze, Find, Measure,
+//   Finish).
 //
 //   {type: "call", id, fn, args}
 //       Run one of the core's other functions (fn: one of CALLS below, the
@@ -33,11 +56,24 @@
 // Worker -> page
 //
 //   {type: "ready", functions}                   after init
+//   {type: "found", id, targets, plan, width, height, orientation,
+//    decodedBy, memory}
+//                                                targets: how many to
+//                                                measure; plan: for helpers;
+//                                                the photo's size, px, and
+//                                                Exif orientation (0: none);
+//                                                decodedBy: "browser" or
+//                                                "core"
+//   {type: "prepared", id, decodedBy, memory}
+//   {type: "measured", id, lo, hi, parts, memory}
+//                                                parts: JSON array of the
+//                                                range's records or reasons
+//                                                (analyze.Part)
 //   {type: "progress", id, stage, fraction}      stage in words ("reading",
 //                                                "finding targets",
 //                                                "measuring", "summarising"),
 //                                                fraction of the job, 0..1
-//   {type: "result", id, result, preview, memory}
+//   {type: "result", id, result, preview, decodedBy, memory}
 //                                                result: for "analyze" the
 //                                                photo's analysis (one entry
 //                                                of the JSON contract's
@@ -73,6 +109,10 @@
 export const TO_WORKER = Object.freeze({
   init: 'init',
   analyze: 'analyze',
+  prepare: 'prepare',
+  measure: 'measure',
+  finish: 'finish',
+  release: 'release',
   call: 'call',
 });
 
@@ -80,16 +120,23 @@ export const TO_WORKER = Object.freeze({
 export const FROM_WORKER = Object.freeze({
   ready: 'ready',
   progress: 'progress',
+  found: 'found',
+  prepared: 'prepared',
+  measured: 'measured',
   result: 'result',
   error: 'error',
 });
+
+/** Stage words of the progress the pool reports itself (the core's, core/analyze). */
+export const STAGE_MEASURING = 'measuring';
+export const STAGE_SUMMING = 'summarising';
 
 /**
  * Functions a "call" message may name: the call names of the core's one
  * list (wasm/functions.go, exported by the core as sagittaFunctions);
  * TestFunctionsMatchPage in wasm/ checks this list and worker.js against it.
  */
-export const CALLS = Object.freeze(['csv', 'json', 'plot', 'palette', 'chart', 'plan', 'demo', 'resummarise', 'reference', 'series']);
+export const CALLS = Object.freeze(['csv', 'json', 'plot', 'palette', 'chart', 'plan', 'demo', 'resummarise', 'reference', 'series', 'decoders']);
 
 /**
  * analyzeMessage builds an "analyze" message and its transfer list.
@@ -98,10 +145,11 @@ export const CALLS = Object.freeze(['csv', 'json', 'plot', 'palette', 'chart', '
  * @param {ArrayBuffer} bytes the file, transferred
  * @param {object} settings analysis settings (see settingsForCore in settings.js)
  * @param {number} previewSide 0 or the largest side of a preview, px
+ * @param {string} decoder "browser" or "core" (see Pool)
  */
-export function analyzeMessage(id, name, bytes, settings, previewSide) {
+export function analyzeMessage(id, name, bytes, settings, previewSide, decoder = 'core') {
   return {
-    message: { type: TO_WORKER.analyze, id, name, bytes, settings: JSON.stringify(settings), previewSide },
+    message: { type: TO_WORKER.analyze, id, name, bytes, settings: JSON.stringify(settings), previewSide, decoder },
     transfer: [bytes],
   };
 }

@@ -97,6 +97,40 @@ export function renderResult(sec, p, state, display) {
   renderAbout(about, r);
 }
 
+let partial = null; // the photo being measured, as renderPartial last drew it
+
+/**
+ * renderPartial fills sec with a photo being measured: the photo, the
+ * targets measured so far outlined on it (their figures come with the
+ * result, once the core has placed and summarised them all) and how many
+ * of how many are measured. display: {source (ImageBitmap or null),
+ * orientation (the Exif orientation the browser applied to source)}.
+ */
+export function renderPartial(sec, p, display) {
+  const { records, measured, targets } = p.partial;
+  if (!partial || partial.key !== p.key || partial.sec !== sec || !sec.contains(partial.count)) {
+    current = null; // the result, when it comes, draws the section afresh
+    sec.replaceChildren();
+    const head = el('div', { class: 'result-head' });
+    head.append(el('h2', { id: 'result-title' }, labelOf(p)));
+    const count = el('p', { class: 'facts', 'aria-live': 'polite' });
+    head.append(count);
+    const root = el('div');
+    sec.append(head, root);
+    const viewer = new PhotoViewer(root, { onSelect: () => {} });
+    const { width, height } = p.partial.frame;
+    if (display.source) viewer.setPhoto(display.source, width, height, 1, display.orientation || 1);
+    else viewer.setPhoto(blankCanvas(width, height), width, height, Math.max(1, width / 64));
+    partial = { key: p.key, sec, viewer, count };
+  }
+  setTextOf(partial.count, `${p.name} · measuring: ${measured} of ${targets} targets, ${records.length} usable so far; the figures come when all are measured`);
+  partial.viewer.setTargets(records, [], () => '#ffffff', () => 'Measured; its figures come with the result');
+}
+
+function setTextOf(node, text) {
+  if (node.textContent !== text) node.textContent = text;
+}
+
 /** refreshUnits redraws what depends on the units shown. */
 export function refreshUnits(state) {
   if (!current) return;

@@ -10,7 +10,8 @@ type function struct {
 	Global string
 	// Call is the name a "call" message gives it (site/protocol.js CALLS and
 	// the adapters in site/worker.js); "" for the functions the worker calls
-	// itself (sagittaAnalyze and sagittaPreview, for an "analyze" message).
+	// itself (sagittaPreview and the stages of stages.go, for
+	// the messages of a photo).
 	Call string
 	// Fn does the work.
 	Fn func(args []js.Value) (any, error)
@@ -22,8 +23,14 @@ type function struct {
 // site/worker.js against it and against the demo photo's own build
 // (wasm/demo, which adds the call "demo").
 var functions = []function{
-	{"sagittaAnalyze", "", analyzeJS},
 	{"sagittaPreview", "", previewJS},
+	{"sagittaDecodable", "", decodableJS},
+	{"sagittaFind", "", findJS},
+	{"sagittaPrepare", "", prepareJS},
+	{"sagittaUse", "", useJS},
+	{"sagittaMeasure", "", measureJS},
+	{"sagittaFinish", "", finishJS},
+	{"sagittaRelease", "", releaseJS},
 	{"sagittaResummarise", "resummarise", resummariseJS},
 	{"sagittaCSV", "csv", csvJS},
 	{"sagittaJSON", "json", jsonJS},
@@ -33,6 +40,7 @@ var functions = []function{
 	{"sagittaPlan", "plan", planJS},
 	{"sagittaReference", "reference", referenceJS},
 	{"sagittaSeries", "series", seriesJS},
+	{"sagittaDecoders", "decoders", decodersJS},
 }
 
 // registerAll registers every function of the list and sagittaFunctions.

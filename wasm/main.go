@@ -7,14 +7,15 @@
 //
 // It registers, on the worker's global object:
 //
-//	sagittaAnalyze(name string, bytes Uint8Array, settings string (JSON),
-//	               onProgress(stage string, fraction number)) -> string (JSON)
-//	    the analysis of one photo: the JSON of analyze.Image (core/analyze);
+//	sagittaFind, sagittaPrepare, sagittaUse, sagittaMeasure, sagittaFinish,
+//	sagittaRelease, sagittaDecodable
+//	    the analysis of one photo in stages, over one or several workers
+//	    (stages.go): the JSON of analyze.Image (core/analyze) at the end;
 //	    settings are the JSON of analyze.Settings (with "fallback_sensor_mm",
 //	    the sensor size to assume when the file's Exif gives no pixel pitch)
 //	sagittaResummarise(image string (JSON), settings string (JSON))
 //	    -> {image: string (JSON)} or {remeasure: string, remeasure_codes: [string]}
-//	    one photo's analysis (as sagittaAnalyze gave it) with a new pixel
+//	    one photo's analysis (as sagittaFinish gave it) with a new pixel
 //	    pitch, optical centre or field frequencies, without the photo
 //	    (analyze.Resummarise); remeasure, one plain line, when the settings
 //	    change what was measured and the photo must be analysed again, with
@@ -43,7 +44,6 @@ package main
 
 import (
 	"bytes"
-	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -75,31 +75,6 @@ func register(name string, f func(args []js.Value) (any, error)) {
 		}
 		return v
 	}))
-}
-
-// analyzeJS runs the pipeline on one photo.
-func analyzeJS(args []js.Value) (any, error) {
-	if len(args) < 3 || args[1].Type() != js.TypeObject {
-		return nil, fmt.Errorf("sagittaAnalyze(name, bytes, settings, onProgress): wrong arguments")
-	}
-	name := args[0].String()
-	data := goBytes(args[1])
-	s, err := settings(args[2])
-	if err != nil {
-		return nil, err
-	}
-	s.Workers = 1
-	var progress analyze.Progress
-	if len(args) > 3 && args[3].Type() == js.TypeFunction {
-		cb := args[3]
-		progress = func(stage string, f float64) { cb.Invoke(stage, f) }
-	}
-	img, err := analyze.Run(context.Background(), name, data, s, progress)
-	if err != nil {
-		return nil, err
-	}
-	b, err := json.Marshal(img)
-	return string(b), err
 }
 
 // resummariseJS applies new settings to one photo's analysis.

@@ -14,19 +14,13 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"runtime"
 	"strings"
-	"sync"
 
-	"sagitta/core/chart"
 	"sagitta/core/decode"
 	"sagitta/core/edge"
-	"sagitta/core/edgefind"
 	"sagitta/core/exif"
 	"sagitta/core/field"
-	"sagitta/core/internal/parallel"
 	"sagitta/core/note"
-	"sagitta/core/plane"
 )
 
 // DefaultFreqsLPMM are the field frequencies used when none are given:
@@ -45,136 +39,38 @@ const (
 // analysis done. It is called from the goroutine that called Run.
 type Progress func(stage string, fraction float64)
 
-// Run analyses one photo. It never panics: an internal failure comes back as
-// an error. It stops early with ctx.Err() when ctx is cancelled.
-func Run(ctx context.Context, name string, data []byte, s Settings, progress Progress) (img *Image, err error) {
-	defer func() {
-		if r := recover(); r != nil {
-			img, err = nil, fmt.Errorf("analyze: internal error on %s: %v", name, r)
-		}
-	}()
+// Run analyses one photo: its three stages (stages.go) in one process. It
+// never panics: an internal failure comes back as an error. It stops early
+// with ctx.Err() when ctx is cancelled.
+func Run(ctx context.Context, name string, data []byte, s Settings, progress Progress) (*Image, error) {
 	if progress == nil {
 		progress = func(string, float64) {}
 	}
-	chk, err := s.check()
+	f, err := Find(ctx, Photo{Name: name, Data: data}, s, progress)
 	if err != nil {
 		return nil, err
 	}
-
-	progress(StageReading, 0)
-	dec, err := decode.Decode(data, decode.Options{Tone: chk.tone, MaxPixels: s.MaxPixels})
-	if err != nil {
-		return nil, err
-	}
-	if dec.Width < MinSidePx || dec.Height < MinSidePx {
-		return nil, &TooSmallError{Width: dec.Width, Height: dec.Height}
-	}
-	img = &Image{
-		File: name, Width: dec.Width, Height: dec.Height,
-		Format: dec.Format, BitDepth: dec.BitDepth,
-		Tone: dec.Tone.String(), ToneSource: dec.ToneSource, ToneFrom: string(dec.ToneFrom),
-		Method: chk.method.String(), Exif: exifOf(dec.Exif),
-		Measurements: []Measurement{}, Rejected: []Rejected{},
-		Stars: []StarInfo{}, Gratings: []GratingInfo{},
-		Warnings: []string{}, WarningCodes: []string{},
-		Raw: rawInfo(dec),
-	}
-	for i, w := range dec.Warnings {
-		img.warn(note.New(dec.WarningCodes[i], w))
-	}
-	for _, n := range rawWarnings(dec, chk.method) {
-		img.warn(n)
-	}
-	geo, err := placeFrame(img, s, chk.freqs)
-	if err != nil {
-		return nil, err
-	}
-	if err := ctx.Err(); err != nil {
-		return nil, err
-	}
-
-	progress(StageFinding, 0.15)
-	// Sagitta's chart, if it is there (chart.go), first: its grey steps
-	// give the photo's tone curve, needed before anything is measured
-	// (tone.go).
-	pose, chartNote := chart.Recognise(dec.Lum)
-	var toneMap func(*plane.Plane) // the fitted tone curve, for colour planes (fringes.go)
-	switch {
-	case pose != nil:
-		tf, why := fitTone(dec.Lum, pose, chk.tone.Kind == decode.ToneAuto)
-		img.ToneFit = tf
-		toneMap = tf.mapper()
-		if why != "" {
-			img.warn(note.New(note.ToneStepsUnread, "chart: "+why))
-		}
-		if w := toneWarning(tf, img.Tone); w != "" {
-			tf.Code = FlagToneCurve
-			img.warn(note.New(note.ToneCurve, w))
-		}
-	case chk.tone.Kind == decode.ToneAuto && dec.Format == decode.FormatJPEG:
-		img.warn(note.New(note.ToneAssumed, toneAssumed))
-	}
-	cands, rejects := edgefind.Edges(dec.Lum, edgefind.Options{})
-	pats := findPatterns(ctx, dec.Lum, geo, s.Workers) // sine stars and gratings (sine.go)
-	pats.gratingsFromChart(dec.Lum, pose)              // its gratings measured from the design (chartgratings.go)
-	cands, rejects = pats.exclude(cands, rejects)
-	img.Rejected = append(img.Rejected, pats.rejected...)
-	for _, r := range rejects {
-		img.Rejected = append(img.Rejected, Rejected{r.X0, r.Y0, r.X1, r.Y1, r.Reason, string(r.Code)})
-	}
-	if err := ctx.Err(); err != nil {
-		return nil, err
-	}
-
+	n := f.Targets()
 	progress(StageMeasuring, 0.3)
 	// The comparison of edges with the diffraction limit depends on the
 	// pitch, so it is made when the records are placed (place), not here.
-	eopt := measureOptions{Options: edge.Options{Method: chk.method}, channels: s.Channels, toneMap: toneMap}
-	results := measureAll(ctx, dec, cands, eopt, s.Workers, func(done int) {
-		progress(StageMeasuring, 0.3+0.6*float64(done)/float64(max(len(cands), 1)))
+	parts, err := measureSafely(ctx, &f.Measurer, 0, n, func(done int) {
+		progress(StageMeasuring, 0.3+0.6*float64(done)/float64(max(n, 1)))
 	})
-	if err := ctx.Err(); err != nil {
-		return nil, err
-	}
-
-	progress(StageSumming, 0.9)
-	colour := false
-	for i, r := range results {
-		c := cands[i]
-		if r.err != nil {
-			img.Rejected = append(img.Rejected, rejectOf(c.Region, note.New(note.NoCleanEdge, "no clean edge: "+plainError(r.err))))
-			continue
-		}
-		if reason, ok := unusable(r.m); ok {
-			img.Rejected = append(img.Rejected, rejectOf(c.Region, reason))
-			continue
-		}
-		rec := record(r.m, c.Region)
-		rec.Channels = r.chans
-		rec.ChannelEdge = r.colour
-		colour = colour || r.colour != nil
-		img.Measurements = append(img.Measurements, rec)
-	}
-	if n, ok := chromaNote(dec); ok && colour {
-		img.warn(n)
-	}
-	img.Measurements = append(img.Measurements, pats.starRecords(img, geo)...)
-	img.Gratings = gratingInfos(pats.gratings)
-	if err := ctx.Err(); err != nil {
-		return nil, err
-	}
-	recogniseChart(img, pose, chartNote, s) // tags measurements on Sagitta's chart (chart.go)
-	samplePaper(img, dec.Lum, pose)         // the chart's blank paper, for the fall-off (geometry.go)
-	base, _ := img.notes()
-	err = summarise(img, geo, base)
-	if errors.Is(err, errNoRecords) {
-		return nil, noTargets(img.Rejected)
-	}
 	if err != nil {
 		return nil, err
 	}
-	progress(StageSumming, 1)
-	return img, nil
+	return f.Finish(ctx, parts, progress)
+}
+
+// measureSafely is Measure with a panic turned into an error.
+func measureSafely(ctx context.Context, m *Measurer, lo, hi int, done func(int)) (parts []Part, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			parts, err = nil, fmt.Errorf("analyze: internal error: %v", r)
+		}
+	}()
+	return m.Measure(ctx, lo, hi, done)
 }
 
 // checked holds the settings Run and Resummarise read before using them.
@@ -287,46 +183,6 @@ func pitch(s Settings, widthPx int, tags exif.Tags) (float64, string, note.Code,
 func exifPitch(tags exif.Tags) (float64, bool) {
 	p, ok := tags.PixelPitchUM()
 	return p, ok && p > 0.3 && p < 50
-}
-
-type outcome struct {
-	m      *edge.Measurement
-	chans  []ChannelMTF // per colour channel: raw photos, or on request
-	colour *ChannelEdge // where the edge lies in red and blue against green
-	err    error
-}
-
-// measureOptions are what measureOne needs besides the region: the
-// estimator, whether to measure each colour channel's MTF, and the tone
-// curve fitted to the chart's grey steps (nil: none applied).
-type measureOptions struct {
-	edge.Options
-	channels bool
-	toneMap  func(*plane.Plane)
-}
-
-// measureAll measures every candidate, in parallel over workers goroutines
-// (in WebAssembly GOMAXPROCS is 1 and this runs sequentially).
-func measureAll(ctx context.Context, dec *decode.Image, cands []edgefind.Candidate, opt measureOptions, workers int, done func(int)) []outcome {
-	out := make([]outcome, len(cands))
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	var mu sync.Mutex // one progress report at a time, in order
-	finished := 0
-	parallel.For(len(cands), workers, func(i int) {
-		if ctx.Err() != nil {
-			return // cancelled: Run returns ctx.Err() and drops out
-		}
-		out[i] = measureOne(dec, cands[i].Region, opt)
-		mu.Lock()
-		finished++
-		if workers == 1 || finished%8 == 0 {
-			done(finished)
-		}
-		mu.Unlock()
-	})
-	return out
 }
 
 // measureOne measures one region, turning a panic into an error so one bad

@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"sagitta/core/decode"
+	"sagitta/core/edge"
 	"sagitta/core/edgefind"
 	"sagitta/core/field"
 	"sagitta/core/sim/demo"
@@ -62,7 +63,7 @@ func BenchmarkWholePhoto(b *testing.B) {
 	b.Run("measure", func(b *testing.B) {
 		b.ReportAllocs()
 		for i := 0; i < b.N; i++ {
-			measureAll(context.Background(), dec, cands, measureOptions{}, 0, func(int) {})
+			measureAll(context.Background(), dec, regionsOf(cands), measureOptions{}, 0, func(int) {})
 		}
 	})
 	b.Run("all", func(b *testing.B) {
@@ -123,4 +124,13 @@ func BenchmarkResummarise(b *testing.B) {
 			}
 		})
 	}
+}
+
+// regionsOf lists the candidates' regions.
+func regionsOf(cands []edgefind.Candidate) []edge.Region {
+	out := make([]edge.Region, len(cands))
+	for i, c := range cands {
+		out[i] = c.Region
+	}
+	return out
 }

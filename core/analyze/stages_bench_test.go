@@ -230,7 +230,7 @@ func stageRows(b *testing.B, size string, data []byte) {
 	}))
 	cands, _ = pats.exclude(cands, rejects)
 	row("native", size, fmt.Sprintf("edges measured (%d)", len(cands)), measureStage(func() {
-		measureAll(ctx, dec, cands, measureOptions{}, 0, func(int) {})
+		measureAll(ctx, dec, regionsOf(cands), measureOptions{}, 0, func(int) {})
 	}))
 	dec = nil
 	res, err := Run(ctx, "chart.jpg", data, Settings{}, nil)

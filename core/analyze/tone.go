@@ -47,6 +47,9 @@ type ToneFit struct {
 
 	fitted *decode.Fitted // the curve applied (nil when not applied)
 	paper  float64
+	// fitX, fitY are the points the curve was fitted through (decoded
+	// value, reflectance), for measuring the photo elsewhere (Plan).
+	fitX, fitY []float64
 }
 
 // toneAssumed is the caution for a camera JPEG without Sagitta's chart.
@@ -160,6 +163,7 @@ func fitTone(p *plane.Plane, pose *chart.Pose, apply bool) (*ToneFit, string) {
 		v := 0.05 * float64(k)
 		tf.Curve = append(tf.Curve, [2]float64{v, f.At(v * paper)})
 	}
+	tf.fitX, tf.fitY = xs, ys
 	if apply {
 		f.Apply(p, paper)
 		tf.Applied = true

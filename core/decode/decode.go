@@ -220,11 +220,18 @@ func Decode(data []byte, opt Options) (*Image, error) {
 	keepColour(out, img) // kept for LinearRGB when it holds colour (colour.go)
 	img = nil            // release grey pixels before anything else allocates
 	if conv.alpha {
-		out.warn(note.AlphaIgnored, "alpha channel ignored: colour values used as stored, nothing composited")
+		out.warn(note.AlphaIgnored, alphaText)
 	}
 	readExif(out, format, data, pi)
 	return out, nil
 }
+
+// alphaText is the warning of a photo with an alpha channel.
+const alphaText = "alpha channel ignored: colour values used as stored, nothing composited"
+
+// trimExifPrefix drops the JPEG "Exif\0\0" prefix some writers keep in a
+// PNG eXIf chunk.
+func trimExifPrefix(b []byte) []byte { return bytes.TrimPrefix(b, []byte("Exif\x00\x00")) }
 
 // chooseTone resolves ToneAuto into the tone to apply and its reason.
 func chooseTone(user Tone, format string, pi pngInfo, out *Image) (Tone, string, note.Code) {
@@ -272,7 +279,7 @@ func readExif(out *Image, format string, data []byte, pi pngInfo) {
 	case FormatPNG:
 		if pi.exif != nil {
 			// Some writers keep the JPEG "Exif\0\0" prefix in eXIf.
-			t, err = exif.Parse(bytes.TrimPrefix(pi.exif, []byte("Exif\x00\x00")))
+			t, err = exif.Parse(trimExifPrefix(pi.exif))
 		}
 	}
 	if err != nil {

@@ -271,11 +271,14 @@ test('cancelling stops a photo; a broken file is an error; the next photo still 
   assert.equal(await page.getAttribute('.photo:nth-child(2)', 'data-state'), 'error');
   // A dead WebAssembly instance (a trap, as on running out of memory) is
   // reported, and a fresh worker measures the next photo.
+  // The first worker finds the next photo's targets (pool.js takes the first
+  // free worker): its instance is the one that traps.
   let patched = 0;
   for (const w of page.workers()) {
     try {
-      await w.evaluate(() => { self.sagittaAnalyze = () => { throw new WebAssembly.RuntimeError('unreachable'); }; });
+      await w.evaluate(() => { self.sagittaFind = () => { throw new WebAssembly.RuntimeError('unreachable'); }; });
       patched++;
+      break;
     } catch {
       // a worker that was just retired
     }

@@ -5,7 +5,7 @@
 
 import { test } from 'node:test';
 import assert from 'node:assert/strict';
-import { Pool, AbortError, poolSize } from '../pool.js';
+import { Pool, AbortError, poolSize, chunkSize } from '../pool.js';
 
 // FakeWorker answers init at once and keeps other messages for the test to answer.
 class FakeWorker {
@@ -219,4 +219,113 @@ test('declared sizes: JPEG frame header after other segments, TIFF with its IFD 
   v.setUint16(1022, 7000, true);
   assert.deepEqual(declaredSize(tiff), { width: 9000, height: 7000 });
   assert.equal(declaredSize(new TextEncoder().encode('not a photo')), null);
+});
+
+// partsOf is a range's parts as a worker gives them (JSON of analyze.Part).
+const partsOf = (lo, hi) => JSON.stringify(Array.from({ length: hi - lo }, (_, k) => ({ index: lo + k, record: { kind: 'edge' } })));
+
+test('one photo over the whole pool: found by one worker, ranges measured by all, finished by the finder', async () => {
+  const { p, workers } = pool(2);
+  const seen = [];
+  const job = p.analyze('a', pngHeader(1000, 1000), {}, 0, null, (parts, count) => seen.push([parts.length, count.measured, count.targets]));
+  await tick();
+  const [f, h] = workers;
+  assert.deepEqual([f.inbox[0].type, h.inbox[0].type], ['analyze', 'prepare'], 'the second worker decodes the photo while the first finds its targets');
+  assert.ok(h.inbox[0].bytes.byteLength > 0 && f.inbox[0].bytes !== h.inbox[0].bytes, 'each worker has its own copy of the file');
+  assert.equal(chunkSize(20, 2), 8);
+  f.reply({ type: 'found', id: f.inbox[0].id, targets: 20, plan: 'PLAN', decodedBy: 'browser' });
+  await tick();
+  assert.deepEqual(f.inbox.slice(1).map((m) => [m.type, m.lo, m.hi]), [['measure', 0, 8]]);
+  assert.equal(h.inbox.length, 1, 'a helper gets no range before it has decoded the photo');
+  h.reply({ type: 'prepared', id: h.inbox[0].id });
+  await tick();
+  assert.deepEqual([h.inbox[1].type, h.inbox[1].lo, h.inbox[1].hi, h.inbox[1].plan], ['measure', 8, 16, 'PLAN']);
+  f.reply({ type: 'measured', id: f.inbox[1].id, lo: 0, hi: 8, parts: partsOf(0, 8) });
+  await tick();
+  assert.deepEqual([f.inbox[2].lo, f.inbox[2].hi], [16, 20]);
+  assert.equal(f.inbox[2].plan, undefined, 'the finder has its plan');
+  f.reply({ type: 'measured', id: f.inbox[2].id, lo: 16, hi: 20, parts: partsOf(16, 20) });
+  await tick();
+  assert.equal(f.inbox.length, 3, 'no finish while a range is out');
+  h.reply({ type: 'measured', id: h.inbox[1].id, lo: 8, hi: 16, parts: partsOf(8, 16) });
+  await tick();
+  assert.equal(h.inbox[2].type, 'release');
+  const fin = f.inbox[3];
+  assert.equal(fin.type, 'finish');
+  assert.deepEqual(JSON.parse(fin.parts).map((x) => x.index).sort((a, b) => a - b), Array.from({ length: 20 }, (_, k) => k));
+  assert.deepEqual(seen, [[8, 8, 20], [4, 12, 20], [8, 20, 20]]);
+  f.reply({ type: 'result', id: fin.id, result: { file: 'a' }, decodedBy: 'browser' });
+  const r = await job.promise;
+  assert.equal(r.result.file, 'a');
+  assert.equal(r.decodedBy, 'browser');
+  assert.equal(p.pixelsInFlight, 0);
+});
+
+test('a helper that fails gives its range back; the photo is still measured', async () => {
+  const { p, workers } = pool(2);
+  const job = p.analyze('a', pngHeader(1000, 1000), {}, 0);
+  await tick();
+  const [f, h] = workers;
+  h.reply({ type: 'prepared', id: h.inbox[0].id });
+  f.reply({ type: 'found', id: f.inbox[0].id, targets: 10, plan: 'PLAN' });
+  await tick();
+  assert.deepEqual([h.inbox[1].lo, h.inbox[1].hi], [8, 10]);
+  h.reply({ type: 'error', id: h.inbox[1].id, message: 'out of memory', fatal: true });
+  assert.equal(h.terminated, true);
+  f.reply({ type: 'measured', id: f.inbox[1].id, lo: 0, hi: 8, parts: partsOf(0, 8) });
+  await tick();
+  assert.deepEqual([f.inbox[2].type, f.inbox[2].lo, f.inbox[2].hi], ['measure', 8, 10], 'the finder measures the lost range');
+  f.reply({ type: 'measured', id: f.inbox[2].id, lo: 8, hi: 10, parts: partsOf(8, 10) });
+  await tick();
+  assert.equal(f.inbox[3].type, 'finish');
+  f.reply({ type: 'result', id: f.inbox[3].id, result: { file: 'a' } });
+  assert.equal((await job.promise).result.file, 'a');
+});
+
+test('cancelling a photo replaces its finder and its helpers', async () => {
+  const { p, workers } = pool(2);
+  const job = p.analyze('a', pngHeader(1000, 1000), {}, 0);
+  await tick();
+  job.cancel();
+  await assert.rejects(job.promise, AbortError);
+  assert.deepEqual(workers.map((w) => w.terminated), [true, true]);
+  assert.equal(p.slots.length, 0);
+});
+
+test('a quick call does not wait for a photo spread over every worker: a helper takes it between ranges', async () => {
+  const { p, workers } = pool(2);
+  const job = p.analyze('a', pngHeader(1000, 1000), {}, 0);
+  await tick();
+  const [f, h] = workers;
+  h.reply({ type: 'prepared', id: h.inbox[0].id });
+  f.reply({ type: 'found', id: f.inbox[0].id, targets: 100, plan: 'PLAN' });
+  await tick();
+  const csv = p.call('csv', ['{}']);
+  await tick();
+  h.reply({ type: 'measured', id: h.inbox[1].id, lo: h.inbox[1].lo, hi: h.inbox[1].hi, parts: partsOf(h.inbox[1].lo, h.inbox[1].hi) });
+  await tick();
+  assert.deepEqual(h.inbox.slice(2).map((m) => m.type), ['release', 'call'], 'the helper lets the photo go and runs the call');
+  h.reply({ type: 'result', id: h.inbox[3].id, result: 'file,id\n' });
+  assert.equal(await csv, 'file,id\n');
+  // The finder measures the rest; the freed worker may help again.
+  for (let guard = 0; guard < 50; guard++) {
+    await tick();
+    for (const w of workers) {
+      const m = w.inbox.at(-1);
+      if (m && m.type === 'measure' && !m.done) {
+        m.done = true;
+        w.reply({ type: 'measured', id: m.id, lo: m.lo, hi: m.hi, parts: partsOf(m.lo, m.hi) });
+      } else if (m && m.type === 'prepare' && !m.done) {
+        m.done = true;
+        w.reply({ type: 'prepared', id: m.id });
+      }
+    }
+    const fin = f.inbox.find((m) => m.type === 'finish');
+    if (fin) {
+      assert.equal(JSON.parse(fin.parts).length, 100);
+      f.reply({ type: 'result', id: fin.id, result: { file: 'a' } });
+      break;
+    }
+  }
+  assert.equal((await job.promise).result.file, 'a');
 });

@@ -23,7 +23,7 @@ async function open() {
 }
 
 // watch records every text the photo rows show from now on, and counts the
-// measurements the workers start (their sagittaAnalyze calls).
+// measurements the workers start (their sagittaFind calls, the first stage of each).
 async function watch(page) {
   await page.evaluate(() => {
     window.rowTexts = [];
@@ -33,11 +33,12 @@ async function watch(page) {
   });
   for (const w of page.workers()) {
     await w.evaluate(() => {
-      const analyze = self.sagittaAnalyze;
+      // Every analysis of a photo begins with the core's find stage.
+      const find = self.sagittaFind;
       self.analyzeCalls = 0;
-      self.sagittaAnalyze = (...args) => {
+      self.sagittaFind = (...args) => {
         self.analyzeCalls++;
-        return analyze(...args);
+        return find(...args);
       };
     });
   }

@@ -1,0 +1,171 @@
+package analyze
+
+import (
+	"context"
+	"fmt"
+	"image"
+	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"sagitta/core/decode"
+)
+
+// TestPixelsFromOutsideDecoder measures JPEGs of the chart photo decoded by
+// another decoder, ImageMagick (Debian package imagemagick, which reads JPEG
+// through libjpeg, as Chromium does), handed to the pipeline as RGBA pixels
+// as the page hands the browser's: baseline and progressive, 4:2:0 and 4:4:4
+// chroma (the grey photo tinted yellow, so that chroma and its upsampling
+// count), grey, and with an ICC profile attached (not applied: colour values
+// as stored). The decoders differ by their rounding and their chroma
+// upsampling (both left to the decoder by ITU-T T.81, within the accuracy
+// of its annex A.3.3, from memory). The test prints the largest luminance
+// difference and the largest MTF difference up to Nyquist of the records
+// found by both, and holds them to at most twice the figures README quotes
+// ("Speed", the page): they exceed the 0.002 that would make the browser's
+// decoding interchangeable with the core's, which is why the page decodes
+// with the core unless asked otherwise.
+func TestPixelsFromOutsideDecoder(t *testing.T) {
+	im := magick()
+	if im == "" {
+		t.Skip("ImageMagick is not installed (make tools installs it): no outside JPEG decoder")
+	}
+	if testing.Short() {
+		t.Skip("six ImageMagick encodes and twelve analyses; run without -short")
+	}
+	dir := t.TempDir()
+	src := filepath.Join(dir, "src.jpg")
+	if err := os.WriteFile(src, chartPhoto.photo(t), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	icc := "/usr/share/color/icc/ghostscript/a98.icc"
+	variants := []struct {
+		name           string
+		args           []string
+		lumMax, mtfMax float64 // README's figures: largest luminance and MTF differences
+	}{
+		{"baseline 4:2:0", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "2x2"}, 0.0166, 0.079},
+		{"progressive", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "2x2", "-interlace", "JPEG"}, 0.0166, 0.079},
+		{"4:4:4", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "1x1"}, 0.0147, 0.045},
+		{"grey", []string{"-quality", "95", "-colorspace", "Gray"}, 0.0079, 0.014},
+		{"ICC profile", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "2x2", "-profile", icc}, 0.0166, 0.079},
+	}
+	s := Settings{FallbackSensorMM: [2]float64{36, 24}}
+	for i, v := range variants {
+		t.Run(v.name, func(t *testing.T) {
+			if strings.HasPrefix(v.name, "ICC") {
+				if _, err := os.Stat(icc); err != nil {
+					t.Skip("no ICC profile file at " + icc)
+				}
+			}
+			file := filepath.Join(dir, fmt.Sprintf("v%d.jpg", i))
+			if out, err := exec.Command(im, append(append([]string{src}, v.args...), file)...).CombinedOutput(); err != nil {
+				t.Fatalf("ImageMagick: %v: %s", err, out)
+			}
+			data, err := os.ReadFile(file)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !decode.ForeignDecodable(data) {
+				t.Fatal("ForeignDecodable refuses an 8-bit JPEG")
+			}
+			cfg, _, err := image.DecodeConfig(strings.NewReader(string(data)))
+			if err != nil {
+				t.Fatal(err)
+			}
+			raw, err := exec.Command(im, file, "-depth", "8", "rgba:-").Output()
+			if err != nil {
+				t.Fatalf("ImageMagick decoding: %v", err)
+			}
+			if len(raw) != 4*cfg.Width*cfg.Height {
+				t.Fatalf("ImageMagick gave %d bytes for %d x %d", len(raw), cfg.Width, cfg.Height)
+			}
+			pix := &image.NRGBA{Pix: raw, Stride: 4 * cfg.Width, Rect: image.Rect(0, 0, cfg.Width, cfg.Height)}
+			goDec, err := decode.Decode(data, decode.Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			outDec, err := decode.FromPixels(data, pix, decode.Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var maxDiff float64
+			for k, a := range goDec.Lum.Pix {
+				maxDiff = math.Max(maxDiff, math.Abs(float64(a-outDec.Lum.Pix[k])))
+			}
+			want, err := Run(context.Background(), "v.jpg", data, s, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			f, err := Find(context.Background(), Photo{Name: "v.jpg", Data: data, Pixels: pix}, s, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			parts, err := f.Measure(context.Background(), 0, f.Targets(), nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got, err := f.Finish(context.Background(), parts, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			var worst float64
+			missing := 0
+			used := make([]bool, len(got.Measurements))
+			for _, w := range want.Measurements {
+				j := counterpart(got.Measurements, used, w)
+				if j < 0 {
+					missing++
+					continue
+				}
+				used[j] = true
+				g := got.Measurements[j]
+				for q := range w.MTF {
+					if w.Freq[q] <= 0.5 {
+						worst = math.Max(worst, math.Abs(g.MTF[q]-w.MTF[q]))
+					}
+				}
+			}
+			t.Logf("%s: largest luminance difference %.5f (linear, full scale 1), largest MTF difference up to Nyquist %.4f over %d records found by both (%d of Go's and %d of ImageMagick's records)",
+				v.name, maxDiff, worst, len(want.Measurements)-missing, len(want.Measurements), len(got.Measurements))
+			if maxDiff > 2*v.lumMax {
+				t.Errorf("luminance differs by %.4f, more than twice README's %.4f", maxDiff, v.lumMax)
+			}
+			if worst > 2*v.mtfMax {
+				t.Errorf("MTF differs by %.4f, more than twice README's %.3f", worst, v.mtfMax)
+			}
+			if missing > len(want.Measurements)/50 {
+				t.Errorf("%d of %d records found by Go's decoding only", missing, len(want.Measurements))
+			}
+		})
+	}
+}
+
+// counterpart returns the index of the unused record of rs of the same kind and
+// curve length as w, within 0.5 px and 1 degree of it, or -1.
+func counterpart(rs []Measurement, used []bool, w Measurement) int {
+	for j, g := range rs {
+		if !used[j] && g.Kind == w.Kind && len(g.MTF) == len(w.MTF) && math.Hypot(g.XPx-w.XPx, g.YPx-w.YPx) <= 0.5 && math.Abs(g.NormalDeg-w.NormalDeg) <= 1 {
+			return j
+		}
+	}
+	return -1
+}
+
+// magick returns the path of ImageMagick's convert, or "".
+func magick() string {
+	for _, name := range []string{"convert-im6.q16", "convert-im6", "magick", "convert"} {
+		path, err := exec.LookPath(name)
+		if err != nil {
+			continue
+		}
+		out, err := exec.Command(path, "-version").Output()
+		if err == nil && strings.Contains(string(out), "ImageMagick") {
+			return path
+		}
+	}
+	return ""
+}

@@ -1,0 +1,105 @@
+package analyze
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"testing"
+)
+
+// TestStagesEqualRun splits the candidates of a photo into ranges, measures
+// them on the Found and on Measurers that Prepare made from the photo's
+// bytes (as other workers of the page do), passes plan and parts through
+// JSON and finishes: the JSON must be Run's, byte for byte, for 1, 2 and 5
+// ranges, in any order of arrival. The chart photo carries the fitted tone
+// curve in its plan; the star photo has sine patterns (measured in Find).
+func TestStagesEqualRun(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		f    *fixture
+	}{{"chart", chartPhoto}, {"star", starPhoto}} {
+		t.Run(tc.name, func(t *testing.T) {
+			data := tc.f.photo(t)
+			s := Settings{FallbackSensorMM: [2]float64{36, 24}}
+			want, err := Run(context.Background(), "p.jpg", data, s, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
+			wantJSON, _ := json.Marshal(want)
+			for _, ranges := range []int{1, 2, 5} {
+				f, err := Find(context.Background(), Photo{Name: "p.jpg", Data: data}, s, nil)
+				if err != nil {
+					t.Fatal(err)
+				}
+				if f.Targets() < ranges {
+					t.Fatalf("%d candidates, fewer than %d ranges", f.Targets(), ranges)
+				}
+				planJSON, _ := json.Marshal(f.Plan())
+				var plan Plan
+				if err := json.Unmarshal(planJSON, &plan); err != nil {
+					t.Fatal(err)
+				}
+				if tc.name == "chart" && len(plan.ToneX) == 0 {
+					t.Fatal("the chart photo's plan carries no tone curve")
+				}
+				var parts []Part
+				n := f.Targets()
+				for k := ranges - 1; k >= 0; k-- { // last range first: the order of arrival must not matter
+					lo, hi := k*n/ranges, (k+1)*n/ranges
+					m := &f.Measurer
+					if k%2 == 1 {
+						if m, err = Prepare(Photo{Name: "p.jpg", Data: data}, s); err != nil {
+							t.Fatal(err)
+						}
+						if err := m.Use(plan); err != nil {
+							t.Fatal(err)
+						}
+					}
+					got, err := m.Measure(context.Background(), lo, hi, nil)
+					if err != nil {
+						t.Fatal(err)
+					}
+					text, _ := json.Marshal(got)
+					var back []Part
+					if err := json.Unmarshal(text, &back); err != nil {
+						t.Fatal(err)
+					}
+					parts = append(parts, back...)
+				}
+				img, err := f.Finish(context.Background(), parts, nil)
+				if err != nil {
+					t.Fatal(err)
+				}
+				gotJSON, _ := json.Marshal(img)
+				if !bytes.Equal(gotJSON, wantJSON) {
+					t.Errorf("%d ranges: the JSON differs from Run's (%d and %d bytes)", ranges, len(gotJSON), len(wantJSON))
+				}
+			}
+		})
+	}
+}
+
+// TestFinishChecksParts refuses a missing or doubled part.
+func TestFinishChecksParts(t *testing.T) {
+	data := squaresPhoto.photo(t)
+	s := Settings{FallbackSensorMM: [2]float64{36, 24}}
+	for _, tc := range []struct {
+		name string
+		edit func([]Part) []Part
+	}{
+		{"missing", func(p []Part) []Part { return p[1:] }},
+		{"doubled", func(p []Part) []Part { return append(p, p[0]) }},
+	} {
+		f, err := Find(context.Background(), Photo{Name: "p.jpg", Data: data}, s, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		parts, err := f.Measure(context.Background(), 0, f.Targets(), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, err := f.Finish(context.Background(), tc.edit(parts), nil); err == nil {
+			t.Errorf("%s part: no error", tc.name)
+		}
+	}
+}
