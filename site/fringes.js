@@ -29,13 +29,16 @@ export function renderFringes(r, pool, label, base) {
   const i = (r.warning_codes || []).indexOf('chroma-subsampled');
   if (i >= 0) card.append(el('p', { class: 'caution' }, r.warnings[i]));
   card.append(el('p', { class: 'caution' }, ca.caution));
-  const cards = el('div', { class: 'cards' });
-  cards.append(card);
-  sec.append(cards);
+  // The figure beside its card, at the size of the other figures of "Across the frame".
+  const grid = el('div', { class: 'frame-grid' });
   if (ca.curves.length || ca.points.length) {
     const data = JSON.stringify({ lateral_ca: ca, corner_mm: r.corner_mm });
-    sec.append(coreFigure(pool, 'ca', data, { label, band: true }, `${base}-colour-fringes`));
+    grid.append(coreFigure(pool, 'ca', data, { label, band: true }, `${base}-colour-fringes`));
   }
+  const cards = el('div', { class: 'cards' });
+  cards.append(card);
+  grid.append(cards);
+  sec.append(grid);
   sec.append(el('p', { class: 'hint' }, ca.selection));
   sec.append(howComputed([
     'Each edge is located in red, green and blue from the one fit of its position and angle: the area under each colour\'s edge profile gives where that colour\'s edge lies along the edge\'s normal. Only edges whose normal lies close to the radius from the optical centre are used, since colour fringes move edges along the radius.',
