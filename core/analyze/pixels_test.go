@@ -29,7 +29,7 @@ import (
 // decoding interchangeable with the core's, which is why the page decodes
 // with the core unless asked otherwise.
 func TestPixelsFromOutsideDecoder(t *testing.T) {
-	im := magick()
+	im := convertIM()
 	if im == "" {
 		t.Skip("ImageMagick is not installed (make tools installs it): no outside JPEG decoder")
 	}
@@ -153,19 +153,4 @@ func counterpart(rs []Measurement, used []bool, w Measurement) int {
 		}
 	}
 	return -1
-}
-
-// magick returns the path of ImageMagick's convert, or "".
-func magick() string {
-	for _, name := range []string{"convert-im6.q16", "convert-im6", "magick", "convert"} {
-		path, err := exec.LookPath(name)
-		if err != nil {
-			continue
-		}
-		out, err := exec.Command(path, "-version").Output()
-		if err == nil && strings.Contains(string(out), "ImageMagick") {
-			return path
-		}
-	}
-	return ""
 }
