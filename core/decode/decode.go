@@ -105,6 +105,26 @@ func (im *Image) warn(c note.Code, text string) {
 	im.WarningCodes = append(im.WarningCodes, c)
 }
 
+// checkHeader checks the options' tone and reads the file's format and
+// size from its header, refusing an image over the options' pixel limit
+// before anything is allocated for it.
+func checkHeader(data []byte, opt Options) (format string, w, h int, err error) {
+	if err := opt.Tone.Check(); err != nil {
+		return "", 0, 0, err
+	}
+	if format, w, h, err = Config(data); err != nil {
+		return "", 0, 0, err
+	}
+	limit := opt.MaxPixels
+	if limit <= 0 {
+		limit = DefaultMaxPixels
+	}
+	if int64(w)*int64(h) > int64(limit) {
+		return "", 0, 0, &TooLargeError{Width: w, Height: h, MaxPixels: limit}
+	}
+	return format, w, h, nil
+}
+
 // Config returns the format and the size in px of an image from its header,
 // without decoding pixels. Errors are *FormatError or *UnsupportedError.
 func Config(data []byte) (format string, w, h int, err error) {
@@ -159,19 +179,9 @@ func Config(data []byte) (format string, w, h int, err error) {
 // small rectangles of it on demand. The peak memory is that of the decoded
 // image plus the plane (4 bytes per pixel).
 func Decode(data []byte, opt Options) (*Image, error) {
-	if err := opt.Tone.Check(); err != nil {
-		return nil, err
-	}
-	format, w, h, err := Config(data)
+	format, w, h, err := checkHeader(data, opt)
 	if err != nil {
 		return nil, err
-	}
-	limit := opt.MaxPixels
-	if limit <= 0 {
-		limit = DefaultMaxPixels
-	}
-	if int64(w)*int64(h) > int64(limit) {
-		return nil, &TooLargeError{Width: w, Height: h, MaxPixels: limit}
 	}
 	if format == FormatDNG {
 		return decodeDNG(data, opt)

@@ -68,19 +68,9 @@ func ForeignDecodable(data []byte) bool {
 // LinearRGB. Its colour is already upsampled by the other decoder, so
 // ChromaSubsampling stays empty and colour offsets are found in linear light.
 func FromPixels(data []byte, pix image.Image, opt Options) (*Image, error) {
-	if err := opt.Tone.Check(); err != nil {
-		return nil, err
-	}
-	format, w, h, err := Config(data)
+	format, w, h, err := checkHeader(data, opt)
 	if err != nil {
 		return nil, err
-	}
-	limit := opt.MaxPixels
-	if limit <= 0 {
-		limit = DefaultMaxPixels
-	}
-	if int64(w)*int64(h) > int64(limit) {
-		return nil, &TooLargeError{Width: w, Height: h, MaxPixels: limit}
 	}
 	if !ForeignDecodable(data) {
 		return nil, fmt.Errorf("%w (%s)", ErrForeignDeclined, format)
