@@ -54,21 +54,36 @@ type SheetPose struct {
 }
 
 // tiledMarks reports whether the marks of chart code value code come from
-// a chart across sheets: two marks of one index lie apart (a chart on one
-// sheet has each index once), and gives the sheets per side, from the
-// indices (0-3 on 2 x 2, 4-7 on 3 x 3).
+// a chart across sheets: marks of one index lie apart (a chart on one sheet
+// has each index once), and gives the sheets per side, from the indices
+// (0-3 on 2 x 2, 4-7 on 3 x 3). One stray reading must not turn a chart on
+// one sheet into sheets (a disc of the grey steps read as a mark, say), so
+// it takes two such pairs, each of two clean readings (no sector error) of
+// discs of about the same size; a chart across sheets shows each index on
+// every sheet.
 func tiledMarks(marks []FoundMark, code int) (bool, int) {
+	pairs, low := 0, 0
 	for i, a := range marks {
 		for _, b := range marks[i+1:] {
-			if a.code == code && b.code == code && a.Index == b.Index && math.Hypot(a.XPx-b.XPx, a.YPx-b.YPx) > 4*(a.rPx+b.rPx) {
-				if a.Index < 4 {
-					return true, 2
-				}
-				return true, 3
+			if a.code != code || b.code != code || a.Index != b.Index || a.Errors > 0 || b.Errors > 0 {
+				continue
+			}
+			if math.Abs(a.rPx-b.rPx) > 0.25*math.Max(a.rPx, b.rPx) || math.Hypot(a.XPx-b.XPx, a.YPx-b.YPx) <= 4*(a.rPx+b.rPx) {
+				continue
+			}
+			pairs++
+			if a.Index < 4 {
+				low++
 			}
 		}
 	}
-	return false, 0
+	switch {
+	case pairs < 2:
+		return false, 0
+	case 2*low >= pairs:
+		return true, 2
+	}
+	return true, 3
 }
 
 // disagreeOrOneSheet returns the note for marks that do not fit a chart on
