@@ -365,6 +365,9 @@ func verdict(res *Result, fr Frame) (note.Code, string) {
 	}
 	colour := map[string]string{"R-G": "red", "B-G": "blue"}[res.Pair]
 	num := fmt.Sprintf("%s lies %.2f px (%.1f µm) %s green at %.1f mm from the optical centre", colour, m, m*fr.PitchUM, side, res.MaxAtMM)
+	if m < 0.005 {
+		num = "red, green and blue edges lie together (within 0.01 px) across the measured field"
+	}
 	reach := ""
 	if res.HMaxMM < 0.8*fr.CornerMM {
 		reach = fmt.Sprintf("; edges reach only %.1f of the corner's %.1f mm", res.HMaxMM, fr.CornerMM)
