@@ -47,11 +47,11 @@ func TestPixelsFromOutsideDecoder(t *testing.T) {
 		args           []string
 		lumMax, mtfMax float64 // README's figures: largest luminance and MTF differences
 	}{
-		{"baseline 4:2:0", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "2x2"}, 0.0166, 0.079},
-		{"progressive", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "2x2", "-interlace", "JPEG"}, 0.0166, 0.079},
-		{"4:4:4", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "1x1"}, 0.0147, 0.045},
-		{"grey", []string{"-quality", "95", "-colorspace", "Gray"}, 0.0079, 0.014},
-		{"ICC profile", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "2x2", "-profile", icc}, 0.0166, 0.079},
+		{"baseline 4:2:0", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "2x2"}, 0.0155, 0.037},
+		{"progressive", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "2x2", "-interlace", "JPEG"}, 0.0155, 0.037},
+		{"4:4:4", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "1x1"}, 0.0147, 0.053},
+		{"grey", []string{"-quality", "95", "-colorspace", "Gray"}, 0.0078, 0.018},
+		{"ICC profile", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "2x2", "-profile", icc}, 0.0155, 0.037},
 	}
 	s := Settings{FallbackSensorMM: [2]float64{36, 24}}
 	for i, v := range variants {
@@ -116,6 +116,9 @@ func TestPixelsFromOutsideDecoder(t *testing.T) {
 			missing := 0
 			used := make([]bool, len(got.Measurements))
 			for _, w := range want.Measurements {
+				if w.Kind != "edge" {
+					continue // README quotes the same edge's MTF
+				}
 				j := counterpart(got.Measurements, used, w)
 				if j < 0 {
 					missing++

@@ -36,11 +36,11 @@ const ICC = '/usr/share/color/icc/ghostscript/a98.icc';
 const TINT = ['-type', 'TrueColor', '-channel', 'B', '-evaluate', 'multiply', '0.8', '+channel'];
 // [name, ImageMagick's options, README's largest luminance and MTF differences]
 const VARIANTS = [
-  ['baseline-420', [...TINT, '-sampling-factor', '2x2'], 0.0166, 0.079],
-  ['progressive', [...TINT, '-sampling-factor', '2x2', '-interlace', 'JPEG'], 0.0166, 0.079],
-  ['444', [...TINT, '-sampling-factor', '1x1'], 0.0147, 0.045],
-  ['grey', ['-colorspace', 'Gray'], 0.0079, 0.014],
-  ['icc', [...TINT, '-sampling-factor', '2x2', '-profile', ICC], 0.0166, 0.079],
+  ['baseline-420', [...TINT, '-sampling-factor', '2x2'], 0.0155, 0.037],
+  ['progressive', [...TINT, '-sampling-factor', '2x2', '-interlace', 'JPEG'], 0.0155, 0.037],
+  ['444', [...TINT, '-sampling-factor', '1x1'], 0.0147, 0.053],
+  ['grey', ['-colorspace', 'Gray'], 0.0078, 0.018],
+  ['icc', [...TINT, '-sampling-factor', '2x2', '-profile', ICC], 0.0155, 0.037],
 ];
 
 // counterpart finds the record of rs at the same place and direction as w.
@@ -83,6 +83,7 @@ test('browser and core decode the same JPEGs to the same luminance and measureme
     let worst = 0;
     let missing = 0;
     for (const w of want.measurements) {
+      if (w.kind !== 'edge') continue; // README quotes the same edge's MTF
       const j = counterpart(got.r.measurements, used, w);
       if (j < 0) {
         missing++;
