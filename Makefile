@@ -55,8 +55,8 @@ test-wasm: deps
 FUZZTIME ?= 8s
 # Go's fuzzing engine can stop with a bare "context deadline exceeded" when
 # -fuzztime runs out while it is still minimising a newly interesting input
-# (no failing input is written then); .ci/fuzz.sh runs such a target once
-# more and fails on anything else.
+# (no failing input is written then); .ci/fuzz.sh runs such a target again
+# (up to twice) and fails on anything else.
 test-fuzz: deps
 	for t in FuzzDecode FuzzDecodePNG FuzzDecodeJPEG FuzzDecodeTIFF; do \
 	  GO=$(GO) FUZZTIME=$(FUZZTIME) sh .ci/fuzz.sh ./core/decode "$$t" || exit 1; done
