@@ -7,27 +7,12 @@ import (
 	"os/exec"
 	"path/filepath"
 	"runtime"
+	"sagitta/core/internal/imagemagick"
 	"strings"
 	"testing"
 
 	"sagitta/core/sim/demo"
 )
-
-// convertIM returns the path of ImageMagick's convert (Debian package
-// imagemagick), or "" if it is not installed.
-func convertIM() string {
-	for _, name := range []string{"convert-im6.q16", "convert-im6", "magick", "convert"} {
-		path, err := exec.LookPath(name)
-		if err != nil {
-			continue
-		}
-		out, err := exec.Command(path, "-version").Output()
-		if err == nil && strings.Contains(string(out), "ImageMagick") {
-			return path
-		}
-	}
-	return ""
-}
 
 // TestLateralCAImageMagick measures colour fringes that a general-purpose
 // image library made, not Sagitta's simulator: ImageMagick (Debian package
@@ -47,7 +32,7 @@ func TestLateralCAImageMagick(t *testing.T) {
 	if testing.Short() {
 		t.Skip("ImageMagick's 11 MP drawing takes about half a minute: run without -short")
 	}
-	convert := convertIM()
+	convert := imagemagick.Convert()
 	if convert == "" {
 		t.Skip("ImageMagick is not installed (apt-get install imagemagick; make tools installs it): the outside reference is skipped")
 	}

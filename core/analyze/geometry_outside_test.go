@@ -9,7 +9,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"runtime"
-	"strings"
+	"sagitta/core/internal/imagemagick"
 	"testing"
 
 	"sagitta/core/analyze"
@@ -17,23 +17,6 @@ import (
 	"sagitta/core/sim/chartsim"
 	"sagitta/core/sim/simcam"
 )
-
-// imageMagick returns the path of ImageMagick's convert (Debian package
-// imagemagick), or "" if it is not installed. A plain "convert" on the PATH
-// counts only if it says it is ImageMagick.
-func imageMagick() string {
-	for _, name := range []string{"convert-im6.q16", "convert-im6", "magick", "convert"} {
-		path, err := exec.LookPath(name)
-		if err != nil {
-			continue
-		}
-		out, err := exec.Command(path, "-version").Output()
-		if err == nil && strings.Contains(string(out), "ImageMagick") {
-			return path
-		}
-	}
-	return ""
-}
 
 // TestDistortionImageMagick checks the distortion fit against a distortion
 // Sagitta's simulator did not make: ImageMagick's barrel distortion
@@ -55,7 +38,7 @@ func TestDistortionImageMagick(t *testing.T) {
 	if runtime.GOOS == "js" || runtime.GOOS == "wasip1" {
 		t.Skip("no external programs under WebAssembly")
 	}
-	convert := imageMagick()
+	convert := imagemagick.Convert()
 	if convert == "" {
 		t.Skip("ImageMagick is not installed (apt-get install imagemagick; make tools installs it): the outside reference is skipped")
 	}

@@ -8,6 +8,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"sagitta/core/internal/imagemagick"
 	"strings"
 	"testing"
 
@@ -29,7 +30,7 @@ import (
 // decoding interchangeable with the core's, which is why the page decodes
 // with the core unless asked otherwise.
 func TestPixelsFromOutsideDecoder(t *testing.T) {
-	im := convertIM()
+	im := imagemagick.Convert()
 	if im == "" {
 		t.Skip("ImageMagick is not installed (make tools installs it): no outside JPEG decoder")
 	}

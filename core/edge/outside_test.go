@@ -10,30 +10,13 @@ import (
 	"os/exec"
 	"path/filepath"
 	"runtime"
-	"strings"
+	"sagitta/core/internal/imagemagick"
 	"testing"
 
 	"sagitta/core/plane"
 )
 
 // References from outside Sagitta's simulator.
-
-// imageMagick returns the path of ImageMagick's convert (Debian package
-// imagemagick), or "" if it is not installed. A plain "convert" on the PATH
-// counts only if it says it is ImageMagick.
-func imageMagick() string {
-	for _, name := range []string{"convert-im6.q16", "convert-im6", "magick", "convert"} {
-		path, err := exec.LookPath(name)
-		if err != nil {
-			continue
-		}
-		out, err := exec.Command(path, "-version").Output()
-		if err == nil && strings.Contains(string(out), "ImageMagick") {
-			return path
-		}
-	}
-	return ""
-}
 
 // stepCoverage is the fraction of a square pixel (side 1) on the positive
 // side of a straight edge whose unit normal is (nx, ny), for the pixel's
@@ -76,7 +59,7 @@ func TestImageMagickEdge(t *testing.T) {
 	if runtime.GOOS == "js" || runtime.GOOS == "wasip1" {
 		t.Skip("no external programs under WebAssembly")
 	}
-	convert := imageMagick()
+	convert := imagemagick.Convert()
 	if convert == "" {
 		t.Skip("ImageMagick is not installed (apt-get install imagemagick; make tools installs it): the outside reference is skipped")
 	}
