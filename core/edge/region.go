@@ -36,6 +36,19 @@ func (r Region) Corners() [4][2]float64 {
 	return out
 }
 
+// box returns the pixels (inclusive ranges) of a w x h plane whose centres
+// may lie inside the region: its bounding box.
+func (r Region) box(w, h int) (x0, x1, y0, y1 int) {
+	tx, ty, nx, ny := r.axes()
+	ex := math.Abs(r.HalfLen*tx) + math.Abs(r.HalfWidth*nx)
+	ey := math.Abs(r.HalfLen*ty) + math.Abs(r.HalfWidth*ny)
+	x0 = max(int(math.Floor(r.X-ex-0.5)), 0)
+	x1 = min(int(math.Ceil(r.X+ex-0.5)), w-1)
+	y0 = max(int(math.Floor(r.Y-ey-0.5)), 0)
+	y1 = min(int(math.Ceil(r.Y+ey-0.5)), h-1)
+	return
+}
+
 // samples holds the pixels of a region in the region's own frame: u along
 // the edge, w across it (both px, origin at the region centre), and v the
 // linear pixel value.
@@ -69,12 +82,7 @@ func gather(p *plane.Plane, r Region) samples { return gatherSites(p, r, nil) }
 // pixel), for one plane of a colour mosaic (mosaic.go).
 func gatherSites(p *plane.Plane, r Region, keep func(x, y int) bool) samples {
 	tx, ty, nx, ny := r.axes()
-	ex := math.Abs(r.HalfLen*tx) + math.Abs(r.HalfWidth*nx)
-	ey := math.Abs(r.HalfLen*ty) + math.Abs(r.HalfWidth*ny)
-	x0 := max(int(math.Floor(r.X-ex-0.5)), 0)
-	x1 := min(int(math.Ceil(r.X+ex-0.5)), p.W-1)
-	y0 := max(int(math.Floor(r.Y-ey-0.5)), 0)
-	y1 := min(int(math.Ceil(r.Y+ey-0.5)), p.H-1)
+	x0, x1, y0, y1 := r.box(p.W, p.H)
 	n := int(4*r.HalfLen*r.HalfWidth) + 16
 	s := samples{u: make([]float64, 0, n), w: make([]float64, 0, n), v: make([]float64, 0, n)}
 	for y := y0; y <= y1; y++ {
