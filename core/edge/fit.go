@@ -1,7 +1,6 @@
 package edge
 
 import (
-	"cmp"
 	"math"
 	"slices"
 )
@@ -62,9 +61,8 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 	// Strip estimates of the edge position.
 	const stripPx = 2.0
 	nStrip := int(2*halfLen/stripPx) + 1
-	type pt struct{ w, v float64 }
-	// The strips share one array, filled by a counting sort in sample
-	// order.
+	// The strips share one array of sample indices, filled by a counting
+	// sort in sample order, and each is then put in order of w.
 	stripOf := func(i int) int { return int((s.u[i] + halfLen) / stripPx) }
 	start := make([]int, nStrip+1)
 	for i := range s.v {
@@ -75,29 +73,30 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 	for k := range nStrip {
 		start[k+1] += start[k]
 	}
-	all := make([]pt, start[nStrip])
-	strips := make([][]pt, nStrip)
-	for k := range strips {
-		strips[k] = all[start[k]:start[k]:start[k+1]]
-	}
+	all := make([]int32, start[nStrip])
+	next := slices.Clone(start[:nStrip])
 	for i := range s.v {
 		if k := stripOf(i); k >= 0 && k < nStrip {
-			strips[k] = append(strips[k], pt{s.w[i], s.v[i]})
+			all[next[k]] = int32(i)
+			next[k]++
 		}
 	}
+	var tmp, count []int32
 	var su, sw, suu, suw, cnt float64
-	for k, st := range strips {
+	for k := range nStrip {
+		st := all[start[k]:start[k+1]]
 		if len(st) < 6 {
 			continue
 		}
-		slices.SortFunc(st, func(a, b pt) int { return cmp.Compare(a.w, b.w) })
+		tmp, count = sortByKey(st, s.w, -halfWidth, halfWidth, tmp, count)
 		// Integral of the normalised profile over the strip's w range.
-		wa, wb := st[0].w, st[len(st)-1].w
+		wa, wb := s.w[st[0]], s.w[st[len(st)-1]]
 		var area float64
 		for j := 1; j < len(st); j++ {
-			q0 := (st[j-1].v - lo) / (hi - lo)
-			q1 := (st[j].v - lo) / (hi - lo)
-			area += 0.5 * (q0 + q1) * (st[j].w - st[j-1].w)
+			a, b := st[j-1], st[j]
+			q0 := (s.v[a] - lo) / (hi - lo)
+			q1 := (s.v[b] - lo) / (hi - lo)
+			area += 0.5 * (q0 + q1) * (s.w[b] - s.w[a])
 		}
 		var c float64
 		if rising {

@@ -9,8 +9,8 @@ package edge
 // function of it, so the buckets come out in order and the insertion sort
 // only works inside each bucket; keys that are exactly equal keep their
 // order in ord (the sort is stable). tmp and count are scratch space, grown
-// as needed and returned for reuse. Keys must lie in [lo, hi] and not be
-// NaN.
+// as needed and returned for reuse. Keys must not be NaN; keys outside
+// [lo, hi] go to the end buckets and are still put in order, only slower.
 func sortByKey(ord []int32, key []float64, lo, hi float64, tmp []int32, count []int32) ([]int32, []int32) {
 	n := len(ord)
 	if n < 2 {

@@ -139,19 +139,22 @@ func measureNoiseShape(p *plane.Plane, r Region, f lineFit, flipped bool, core f
 		}
 		coef[k] = c
 	}
-	res := make([]float64, w*h)
-	for y := y0; y <= y1; y++ {
-		for x := x0; x <= x1; x++ {
-			i := (y-y0)*w + x - x0
-			if k := side[i]; k > 0 {
-				c := coef[k-1]
-				res[i] = float64(p.At(x, y)) - c[0] - c[1]*(float64(x)+0.5-r.X) - c[2]*(float64(y)+0.5-r.Y)
-			}
-		}
+	// The residuals on a grid padded by maxLag px all round, one layer per
+	// plateau: a pixel's layer holds its residual and 1 where it lies on
+	// that plateau, 0 elsewhere (and in the padding). A pair (i, j) then
+	// adds res[i] times the layer of i's plateau at j, and 1 to the count
+	// where j is on the same plateau: the products and counts of pairs on
+	// one plateau, and exact zeros for the rest (a sum plus zero is the
+	// same sum), with neither a test of the sides nor of the box's edge.
+	pw, ph := w+2*maxLag, h+2*maxLag
+	type cell struct{ r, e float64 }
+	grid := make([]cell, 2*pw*ph)
+	// The plateau pixels in row order (the order of a scan of the whole
+	// box), each with its index in its plateau's layer.
+	type site struct {
+		i int
+		r float64
 	}
-	// The plateau pixels in row order, so that each lag visits only them
-	// (in the same order as a scan of the whole box).
-	type site struct{ i, x, y int32 }
 	n := 0
 	for _, k := range side {
 		if k > 0 {
@@ -159,27 +162,25 @@ func measureNoiseShape(p *plane.Plane, r Region, f lineFit, flipped bool, core f
 		}
 	}
 	at := make([]site, 0, n)
-	for y := range h {
-		for x := range w {
-			if i := y*w + x; side[i] > 0 {
-				at = append(at, site{int32(i), int32(x), int32(y)})
+	for y := y0; y <= y1; y++ {
+		for x := x0; x <= x1; x++ {
+			i := (y-y0)*w + x - x0
+			if k := side[i]; k > 0 {
+				c := coef[k-1]
+				v := float64(p.At(x, y)) - c[0] - c[1]*(float64(x)+0.5-r.X) - c[2]*(float64(y)+0.5-r.Y)
+				g := int(k-1)*pw*ph + (y-y0+maxLag)*pw + x - x0 + maxLag
+				grid[g] = cell{v, 1}
+				at = append(at, site{g, v})
 			}
 		}
 	}
 	cov := func(lx, ly int) (float64, float64) {
 		var s, n float64
-		xa, xb := max(0, -lx), w-max(0, lx)
-		ya, yb := max(0, -ly), h-max(0, ly)
+		off := ly*pw + lx
 		for _, q := range at {
-			i, x, y := int(q.i), int(q.x), int(q.y)
-			if y < ya || y >= yb || x < xa || x >= xb {
-				continue
-			}
-			j := i + ly*w + lx
-			if side[i] == side[j] {
-				s += res[i] * res[j]
-				n++
-			}
+			c := grid[q.i+off]
+			s += q.r * c.r
+			n += c.e
 		}
 		return s, n
 	}
