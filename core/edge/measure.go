@@ -159,8 +159,9 @@ func Measure(p *plane.Plane, r Region, opt Options) (*Measurement, error) {
 	m := &Measurement{Method: opt.Method.String(), fit: fit, flipped: flipped, region: r}
 	geometry(m, r, fit, s, flipped)
 	freq := opt.grid()
-	nDark, nLight := pairNoise(p, r, fit, flipped, coreWidth(fit))
-	shape := measureNoiseShape(p, r, fit, flipped, coreWidth(fit))
+	sides := s.plateauSides(coreWidth(fit))
+	nDark, nLight := pairNoise(p, r, &s, sides)
+	shape := measureNoiseShape(p, r, flipped, &s, sides)
 	nDark *= shape.sdScale()
 	nLight *= shape.sdScale()
 	var err error

@@ -23,14 +23,49 @@ import (
 // count, so the profile's steep part does not pass for noise; a profile
 // with long, slowly falling tails (diffraction, flare) does not either,
 // which a spread about a fitted line would mistake for noise.
-func pairNoise(p *plane.Plane, r Region, f lineFit, flipped bool, core float64) (dark, light float64) {
-	return pairNoiseAt(p, r, f, flipped, core, 1, nil)
+func pairNoise(p *plane.Plane, r Region, s *samples, sides []int8) (dark, light float64) {
+	tx, ty, _, _ := r.axes()
+	// Step to the neighbour along the pixel axis nearer the edge line.
+	sx, sy := 1, 0
+	if math.Abs(ty) > math.Abs(tx) {
+		sx, sy = 0, 1
+	}
+	// The sides come from plateauSides over the region's box (the
+	// pixels outside it are outside the region: side 0), with a zero
+	// column and row beyond it for the last pixels' neighbours.
+	x0, y0, gw := s.bx0, s.by0, s.bw+1
+	x1 := min(s.bx0+s.bw-1, p.W-1-sx)
+	y1 := min(s.by0+s.bh-1, p.H-1-sy)
+	step := sy*gw + sx
+	// Room for the pairs of every pixel of the region, split between the
+	// two sides, so the lists rarely grow.
+	n := int(2*r.HalfLen*r.HalfWidth) + 16
+	dd, dl := make([]float64, 0, n), make([]float64, 0, n)
+	for y := y0; y <= y1; y++ {
+		row := p.Pix[y*p.W:]
+		next := p.Pix[(y+sy)*p.W+sx:]
+		g := sides[(y-y0)*gw:]
+		for x := x0; x <= x1; x++ {
+			sd := g[x-x0]
+			if sd == 0 || g[x-x0+step] != sd {
+				continue
+			}
+			diff := math.Abs(float64(row[x] - next[x]))
+			if sd < 0 {
+				dd = append(dd, diff)
+			} else {
+				dl = append(dl, diff)
+			}
+		}
+	}
+	return trimmedSigma(dd), trimmedSigma(dl)
 }
 
 // pairNoiseAt is pairNoise with the neighbour step pixels away along the
 // pixel axis nearer the edge line, over the pixels keep selects (nil: all):
 // a plane of a colour mosaic pairs each site with the next one of its own
-// colour (mosaic.go).
+// colour (mosaic.go). It classifies the pixels itself, from the region, the
+// fit (mirrored if flipped) and core.
 func pairNoiseAt(p *plane.Plane, r Region, f lineFit, flipped bool, core float64, step int, keep func(x, y int) bool) (dark, light float64) {
 	tx, ty, nx, ny := r.axes()
 	if flipped {

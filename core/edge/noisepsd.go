@@ -91,43 +91,28 @@ func (n noiseShape) sdScale() float64 {
 }
 
 // measureNoiseShape estimates the plateau noise's autocorrelation in region
-// r of p (edge fit f, mirrored if flipped; plateaus beyond core px).
-func measureNoiseShape(p *plane.Plane, r Region, f lineFit, flipped bool, core float64) noiseShape {
+// r of p (mirrored if flipped), from the samples s gathered there and the
+// pixels' sides of the edge (samples.plateauSides).
+func measureNoiseShape(p *plane.Plane, r Region, flipped bool, s *samples, sides []int8) noiseShape {
 	tx, ty, nx, ny := r.axes()
 	if flipped {
 		nx, ny = -nx, -ny
 	}
-	ex := math.Abs(r.HalfLen*tx) + math.Abs(r.HalfWidth*nx)
-	ey := math.Abs(r.HalfLen*ty) + math.Abs(r.HalfWidth*ny)
-	x0 := max(int(math.Floor(r.X-ex-0.5)), 0)
-	x1 := min(int(math.Ceil(r.X+ex-0.5)), p.W-1)
-	y0 := max(int(math.Floor(r.Y-ey-0.5)), 0)
-	y1 := min(int(math.Ceil(r.Y+ey-0.5)), p.H-1)
-	w, h := x1-x0+1, y1-y0+1
+	x0, y0, w, h := s.bx0, s.by0, s.bw, s.bh
+	x1, y1 := x0+w-1, y0+h-1
 	if w < 2*maxLag+2 || h < 2*maxLag+2 {
 		return noiseShape{}
 	}
-	side := make([]int8, w*h)
+	gw := w + 1 // the stride of sides
 	var fit [2]planeStats
 	for y := y0; y <= y1; y++ {
 		for x := x0; x <= x1; x++ {
+			sd := sides[(y-y0)*gw+x-x0]
+			if sd == 0 {
+				continue
+			}
+			k := (sd + 1) / 2 // 0 dark, 1 light
 			dx, dy := float64(x)+0.5-r.X, float64(y)+0.5-r.Y
-			u, wv := dx*tx+dy*ty, dx*nx+dy*ny
-			if math.Abs(u) > r.HalfLen || math.Abs(wv) > r.HalfWidth {
-				continue
-			}
-			d := f.dist(u, wv)
-			k := -1
-			switch {
-			case d < -core:
-				k = 0
-			case d > core:
-				k = 1
-			}
-			if k < 0 {
-				continue
-			}
-			side[(y-y0)*w+x-x0] = int8(k + 1)
 			fit[k].add(dx, dy, float64(p.At(x, y)))
 		}
 	}
@@ -156,33 +141,33 @@ func measureNoiseShape(p *plane.Plane, r Region, f lineFit, flipped bool, core f
 		r float64
 	}
 	n := 0
-	for _, k := range side {
-		if k > 0 {
+	for _, k := range sides {
+		if k != 0 {
 			n++
 		}
 	}
 	at := make([]site, 0, n)
 	for y := y0; y <= y1; y++ {
 		for x := x0; x <= x1; x++ {
-			i := (y-y0)*w + x - x0
-			if k := side[i]; k > 0 {
-				c := coef[k-1]
+			if sd := sides[(y-y0)*gw+x-x0]; sd != 0 {
+				k := (sd + 1) / 2
+				c := coef[k]
 				v := float64(p.At(x, y)) - c[0] - c[1]*(float64(x)+0.5-r.X) - c[2]*(float64(y)+0.5-r.Y)
-				g := int(k-1)*pw*ph + (y-y0+maxLag)*pw + x - x0 + maxLag
+				g := int(k)*pw*ph + (y-y0+maxLag)*pw + x - x0 + maxLag
 				grid[g] = cell{v, 1}
 				at = append(at, site{g, v})
 			}
 		}
 	}
 	cov := func(lx, ly int) (float64, float64) {
-		var s, n float64
+		var sum, cnt float64
 		off := ly*pw + lx
 		for _, q := range at {
 			c := grid[q.i+off]
-			s += q.r * c.r
-			n += c.e
+			sum += q.r * c.r
+			cnt += c.e
 		}
-		return s, n
+		return sum, cnt
 	}
 	s0, n0 := cov(0, 0)
 	if n0 < 200 || s0 <= 0 {

@@ -56,6 +56,37 @@ type samples struct {
 	u, w, v []float64
 	// d caches each sample's distance from the fitted edge (see dists).
 	d []float64
+	// at is each sample's pixel in the region's bounding box (r.box) of
+	// bw x bh px from (bx0, by0): (y - by0)*bw + x - bx0. Only gatherSites
+	// fills it.
+	at               []int32
+	bx0, by0, bw, bh int
+}
+
+// plateauSides returns each pixel's side of the fitted edge over the
+// samples' bounding box with a column and a row of zeros added (a grid of
+// (bw + 1) x (bh + 1)): -1 on the dark plateau (distance below -core),
+// +1 on the light one (above core), 0 within the edge's core or outside
+// the region. It reads the distances of dists, so the noise estimates
+// classify the pixels exactly as the estimator does, and with no distance
+// computed again.
+func (s *samples) plateauSides(core float64) []int8 {
+	gw := s.bw + 1
+	grid := make([]int8, gw*(s.bh+1))
+	for i, d := range s.d {
+		var k int8
+		switch {
+		case d < -core:
+			k = -1
+		case d > core:
+			k = 1
+		default:
+			continue
+		}
+		a := int(s.at[i])
+		grid[a/s.bw*gw+a%s.bw] = k
+	}
+	return grid
 }
 
 // dists returns each sample's distance from the fitted edge f
@@ -84,7 +115,8 @@ func gatherSites(p *plane.Plane, r Region, keep func(x, y int) bool) samples {
 	tx, ty, nx, ny := r.axes()
 	x0, x1, y0, y1 := r.box(p.W, p.H)
 	n := int(4*r.HalfLen*r.HalfWidth) + 16
-	s := samples{u: make([]float64, 0, n), w: make([]float64, 0, n), v: make([]float64, 0, n)}
+	s := samples{u: make([]float64, 0, n), w: make([]float64, 0, n), v: make([]float64, 0, n),
+		at: make([]int32, 0, n), bx0: x0, by0: y0, bw: max(x1-x0+1, 0), bh: max(y1-y0+1, 0)}
 	for y := y0; y <= y1; y++ {
 		dy := float64(y) + 0.5 - r.Y
 		row := p.Pix[y*p.W : (y+1)*p.W]
@@ -101,6 +133,7 @@ func gatherSites(p *plane.Plane, r Region, keep func(x, y int) bool) samples {
 			s.u = append(s.u, u)
 			s.w = append(s.w, w)
 			s.v = append(s.v, float64(row[x]))
+			s.at = append(s.at, int32((y-y0)*s.bw+x-x0))
 		}
 	}
 	return s
