@@ -90,7 +90,12 @@ func (m *Measurement) ChannelWindow(w, h, ox, oy int, keep func(x, y int) bool) 
 		nx, ny = -nx, -ny
 	}
 	x0, x1, y0, y1 := r.box(w, h)
-	var dist []float64
+	// Room for the pixels of the window's band across the whole region
+	// (2 b by 2 HalfLen, with some to spare).
+	room := int(4*b*r.HalfLen) + 64
+	cw.pix = make([]int32, 0, room)
+	cw.side = make([]int8, 0, room)
+	dist := make([]float64, 0, room)
 	var nd, nl int
 	for y := y0; y <= y1; y++ {
 		dy := float64(y) + 0.5 - r.Y

@@ -224,11 +224,22 @@ func levenberg(f *lineFit, s samples, halfLen float64) bool {
 			if q[2] <= 0.02 {
 				q[2] = 0.02
 			}
-			c1 := eval(q, &qtj, &qtr)
+			// A step this small ends the fit if it lowers the cost, and
+			// a step that does not is retried from the same normal
+			// equations: either way only the cost at q is needed.
+			smallStep := math.Abs(dp[3]) < 1e-4 && math.Abs(dp[4]) < 1e-4 && math.Abs(dp[5]) < 1e-4
+			var c1 float64
+			if smallStep {
+				c1 = cost(q, un, s.w, s.v)
+			} else {
+				c1 = eval(q, &qtj, &qtr)
+			}
 			if c1 < c0 {
-				small := math.Abs(dp[3]) < 1e-4 && math.Abs(dp[4]) < 1e-4 && math.Abs(dp[5]) < 1e-4 || c0-c1 < 1e-10*c0
+				small := smallStep || c0-c1 < 1e-10*c0
 				p, c0 = q, c1
-				jtj, jtr = qtj, qtr
+				if !smallStep {
+					jtj, jtr = qtj, qtr
+				}
 				lambda = max(lambda/10, 1e-9)
 				improved = true
 				if small {
@@ -264,6 +275,7 @@ func normalEquations(p [6]float64, un, w, v []float64, jtj *[6][6]float64, jtr *
 	var a00, a10, a11, a20, a21, a22, a30, a31, a32, a33 float64
 	var a40, a41, a42, a43, a44, a50, a51, a52, a53, a54, a55 float64
 	var b0, b1, b2, b3, b4, b5 float64
+	un, w = un[:len(v)], w[:len(v)]
 	for i := range v {
 		u := un[i]
 		e := p[3] + p[4]*u + p[5]*u*u
@@ -309,6 +321,23 @@ func normalEquations(p [6]float64, un, w, v []float64, jtj *[6][6]float64, jtr *
 		{a30, a31, a32, a33},
 		{a40, a41, a42, a43, a44},
 		{a50, a51, a52, a53, a54, a55},
+	}
+	return c
+}
+
+// cost returns the sum of squared residuals of the edge model at p, the
+// same number normalEquations returns (the same operations in the same
+// order), without the normal equations.
+func cost(p [6]float64, un, w, v []float64) float64 {
+	un, w = un[:len(v)], w[:len(v)]
+	var c float64
+	for i := range v {
+		u := un[i]
+		e := p[3] + p[4]*u + p[5]*u*u
+		z := (w[i] - e) / p[2]
+		l := 1 / (1 + math.Exp(-z))
+		r := v[i] - (p[0] + p[1]*l)
+		c += r * r
 	}
 	return c
 }

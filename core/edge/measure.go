@@ -223,7 +223,7 @@ func geometry(m *Measurement, r Region, f lineFit, s samples, flipped bool) {
 	m.SlantDeg = math.Min(a, 90-a)
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, u := range s.u {
-		lo, hi = math.Min(lo, u), math.Max(hi, u)
+		lo, hi = min(lo, u), max(hi, u)
 	}
 	m.LengthPx = hi - lo + 1
 	m.BowPx = math.Abs(f.Kappa) * r.HalfLen * r.HalfLen

@@ -58,6 +58,11 @@ func (n noiseShape) factor(f float64) float64 {
 	}
 	var r float64
 	for i, l := range lags {
+		// A lag whose correlation was set to 0 adds a zero (0 times a
+		// cosine): the sum is the same without it and its cosine.
+		if vals[i] == 0 {
+			continue
+		}
 		r += vals[i] * math.Cos(2*math.Pi*f*(float64(l[0])*n.nx+float64(l[1])*n.ny))
 	}
 	return math.Max(r, 0)

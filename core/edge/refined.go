@@ -59,7 +59,7 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 	reach := math.Inf(1) // distance to the nearest end of the sampled profile
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, x := range d {
-		lo, hi = math.Min(lo, x), math.Max(hi, x)
+		lo, hi = min(lo, x), max(hi, x)
 	}
 	reach = math.Min(-lo, hi)
 	if reach < 3 {
@@ -133,7 +133,7 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 	// the two plateaus' variances.
 	nv := make([]float64, len(pts))
 	for i, p := range pts {
-		t := math.Min(math.Max((p.v-dark)/step, 0), 1)
+		t := min(max((p.v-dark)/step, 0), 1)
 		nv[i] = ((1-t)*sdDark*sdDark + t*sdLight*sdLight) / p.n
 	}
 	val, se := stieltjes(mid, wts, dv, nv, freq, shape.factor)
@@ -255,7 +255,7 @@ func merge(d, v []float64) []point {
 	}
 	lo, hi := d[0], d[0]
 	for _, x := range d {
-		lo, hi = math.Min(lo, x), math.Max(hi, x)
+		lo, hi = min(lo, x), max(hi, x)
 	}
 	i0 := int(math.Floor(lo / finePx))
 	nb := int(math.Floor(hi/finePx)) - i0 + 1

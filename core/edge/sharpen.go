@@ -89,7 +89,7 @@ func judgeSharpening(m *Measurement, s samples, f lineFit, sdDark, sdLight float
 	d := s.dists(f)
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, x := range d {
-		lo, hi = math.Min(lo, x), math.Max(hi, x)
+		lo, hi = min(lo, x), max(hi, x)
 	}
 	reach := math.Min(-lo, hi)
 	if reach < 3 {
