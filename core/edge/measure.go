@@ -149,7 +149,15 @@ func Measure(p *plane.Plane, r Region, opt Options) (*Measurement, error) {
 	if r.HalfLen < 5 || r.HalfWidth < 4 {
 		return nil, fmt.Errorf("edge: region too small (%.0f x %.0f px)", 2*r.HalfLen, 2*r.HalfWidth)
 	}
-	s := gather(p, r)
+	sc := getScratch()
+	m, err := measure(p, r, opt, sc)
+	putScratch(sc) // not reached on a panic: see getScratch
+	return m, err
+}
+
+// measure is Measure with the working memory sc.
+func measure(p *plane.Plane, r Region, opt Options, sc *scratch) (*Measurement, error) {
+	s := gatherInto(p, r, nil, sc)
 	fit, ok := fitEdge(s, r.HalfLen, r.HalfWidth)
 	if !ok || fit.Step == 0 {
 		return nil, ErrNoEdge

@@ -40,7 +40,13 @@ func pairNoise(p *plane.Plane, r Region, s *samples, sides []int8) (dark, light 
 	// Room for the pairs of every pixel of the region, split between the
 	// two sides, so the lists rarely grow.
 	n := int(2*r.HalfLen*r.HalfWidth) + 16
-	dd, dl := make([]float64, 0, n), make([]float64, 0, n)
+	var dd, dl []float64
+	if s.sc != nil {
+		dd, dl = take(s.sc.dd, n), take(s.sc.dl, n)
+		defer func() { s.sc.dd, s.sc.dl = dd, dl }()
+	} else {
+		dd, dl = make([]float64, 0, n), make([]float64, 0, n)
+	}
 	for y := y0; y <= y1; y++ {
 		row := p.Pix[y*p.W:]
 		next := p.Pix[(y+sy)*p.W+sx:]

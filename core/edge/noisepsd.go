@@ -95,6 +95,10 @@ func (n noiseShape) sdScale() float64 {
 	return 1 / math.Sqrt(1-n.rhoS)
 }
 
+// noiseCell is a pixel of one plateau's layer of measureNoiseShape's grid:
+// its residual and 1 where the pixel lies on that plateau, zeros elsewhere.
+type noiseCell struct{ r, e float64 }
+
 // measureNoiseShape estimates the plateau noise's autocorrelation in region
 // r of p (mirrored if flipped), from the samples s gathered there and the
 // pixels' sides of the edge (samples.plateauSides).
@@ -137,8 +141,15 @@ func measureNoiseShape(p *plane.Plane, r Region, flipped bool, s *samples, sides
 	// one plateau, and exact zeros for the rest (a sum plus zero is the
 	// same sum), with neither a test of the sides nor of the box's edge.
 	pw, ph := w+2*maxLag, h+2*maxLag
-	type cell struct{ r, e float64 }
-	grid := make([]cell, 2*pw*ph)
+	var grid []noiseCell
+	if s.sc != nil {
+		if len(s.sc.cells) < 2*pw*ph {
+			s.sc.cells = make([]noiseCell, 2*pw*ph)
+		}
+		grid = s.sc.cells[:2*pw*ph]
+	} else {
+		grid = make([]noiseCell, 2*pw*ph)
+	}
 	// The plateau pixels in row order (the order of a scan of the whole
 	// box), each with its index in its plateau's layer.
 	type site struct {
@@ -159,11 +170,17 @@ func measureNoiseShape(p *plane.Plane, r Region, flipped bool, s *samples, sides
 				c := coef[k]
 				v := float64(p.At(x, y)) - c[0] - c[1]*(float64(x)+0.5-r.X) - c[2]*(float64(y)+0.5-r.Y)
 				g := int(k)*pw*ph + (y-y0+maxLag)*pw + x - x0 + maxLag
-				grid[g] = cell{v, 1}
+				grid[g] = noiseCell{v, 1}
 				at = append(at, site{g, v})
 			}
 		}
 	}
+	// Leave the grid all zero again for the next region (scratch).
+	defer func() {
+		for _, q := range at {
+			grid[q.i] = noiseCell{}
+		}
+	}()
 	cov := func(lx, ly int) (float64, float64) {
 		var sum, cnt float64
 		off := ly*pw + lx

@@ -61,6 +61,8 @@ type samples struct {
 	// fills it.
 	at               []int32
 	bx0, by0, bw, bh int
+	// sc, if not nil, is the measurement's scratch the slices come from.
+	sc *scratch
 }
 
 // plateauSides returns each pixel's side of the fitted edge over the
@@ -72,7 +74,14 @@ type samples struct {
 // computed again.
 func (s *samples) plateauSides(core float64) []int8 {
 	gw := s.bw + 1
-	grid := make([]int8, gw*(s.bh+1))
+	var grid []int8
+	if s.sc != nil {
+		grid = take(s.sc.sides, gw*(s.bh+1))[:gw*(s.bh+1)]
+		clear(grid)
+		s.sc.sides = grid
+	} else {
+		grid = make([]int8, gw*(s.bh+1))
+	}
 	for i, d := range s.d {
 		var k int8
 		switch {
@@ -98,7 +107,12 @@ func (s *samples) dists(f lineFit) []float64 {
 	if len(s.d) == len(s.v) && s.d != nil {
 		return s.d
 	}
-	s.d = make([]float64, len(s.v))
+	if s.sc != nil {
+		s.d = take(s.sc.d, len(s.v))[:len(s.v)]
+		s.sc.d = s.d
+	} else {
+		s.d = make([]float64, len(s.v))
+	}
 	for i := range s.d {
 		s.d[i] = f.dist(s.u[i], s.w[i])
 	}
@@ -107,16 +121,26 @@ func (s *samples) dists(f lineFit) []float64 {
 
 // gather collects every pixel whose centre lies inside the region and inside
 // the plane. It allocates once, sized from the region's area.
-func gather(p *plane.Plane, r Region) samples { return gatherSites(p, r, nil) }
+func gather(p *plane.Plane, r Region) samples { return gatherInto(p, r, nil, nil) }
 
 // gatherSites is gather over the photosites keep selects (nil: every
 // pixel), for one plane of a colour mosaic (mosaic.go).
 func gatherSites(p *plane.Plane, r Region, keep func(x, y int) bool) samples {
+	return gatherInto(p, r, keep, nil)
+}
+
+// gatherInto is gatherSites into the slices of sc (nil: new ones), which
+// keeps the (possibly grown) slices for the next region.
+func gatherInto(p *plane.Plane, r Region, keep func(x, y int) bool, sc *scratch) samples {
 	tx, ty, nx, ny := r.axes()
 	x0, x1, y0, y1 := r.box(p.W, p.H)
 	n := int(4*r.HalfLen*r.HalfWidth) + 16
-	s := samples{u: make([]float64, 0, n), w: make([]float64, 0, n), v: make([]float64, 0, n),
-		at: make([]int32, 0, n), bx0: x0, by0: y0, bw: max(x1-x0+1, 0), bh: max(y1-y0+1, 0)}
+	if sc == nil {
+		sc = &scratch{}
+	}
+	s := samples{u: take(sc.u, n), w: take(sc.w, n), v: take(sc.v, n), at: take(sc.at, n),
+		bx0: x0, by0: y0, bw: max(x1-x0+1, 0), bh: max(y1-y0+1, 0), sc: sc}
+	defer func() { sc.u, sc.w, sc.v, sc.at = s.u, s.w, s.v, s.at }()
 	for y := y0; y <= y1; y++ {
 		dy := float64(y) + 0.5 - r.Y
 		row := p.Pix[y*p.W : (y+1)*p.W]

@@ -1,0 +1,36 @@
+package edge
+
+import "sync"
+
+// scratch is the working memory of one measurement that does not outlive
+// it: the region's samples, their distances and sides, the noise
+// estimates' grids and lists. A photo's regions are measured one after
+// another on each worker, so the memory of one is reused by the next (a
+// pool, one scratch per measurement running at a time) instead of being
+// allocated and collected for every region.
+type scratch struct {
+	u, w, v, d []float64
+	at         []int32
+	sides      []int8
+	// cells is the noise correlation's grid (noisepsd.go); it is all
+	// zero between uses: measureNoiseShape clears the cells it set.
+	cells  []noiseCell
+	dd, dl []float64
+}
+
+var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
+
+// getScratch takes a scratch from the pool. Give it back with putScratch
+// only after a measurement ran to its end: one left by a panic may hold
+// cells that are not zero, and is simply dropped.
+func getScratch() *scratch { return scratchPool.Get().(*scratch) }
+
+func putScratch(sc *scratch) { scratchPool.Put(sc) }
+
+// take returns buf emptied, or a new slice when buf cannot hold n.
+func take[T any](buf []T, n int) []T {
+	if cap(buf) >= n {
+		return buf[:0]
+	}
+	return make([]T, 0, n)
+}
