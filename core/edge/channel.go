@@ -97,6 +97,12 @@ func (m *Measurement) ChannelWindow(w, h, ox, oy int, keep func(x, y int) bool) 
 	cw.side = make([]int8, 0, room)
 	dist := make([]float64, 0, room)
 	var nd, nl int
+	// A pixel whose offset across the edge curve exceeds b times the
+	// largest slope factor of lineFit.dist over the region lies outside
+	// the window whatever its distance's rounding: it is passed over
+	// without the distance's square root and division.
+	smax := math.Abs(f.Alpha) + 2*math.Abs(f.Kappa)*r.HalfLen
+	far := b * math.Sqrt(1+smax*smax) * (1 + 1e-9)
 	for y := y0; y <= y1; y++ {
 		dy := float64(y) + 0.5 - r.Y
 		for x := x0; x <= x1; x++ {
@@ -107,6 +113,9 @@ func (m *Measurement) ChannelWindow(w, h, ox, oy int, keep func(x, y int) bool) 
 			u := dx*tx + dy*ty
 			wv := dx*nx + dy*ny
 			if math.Abs(u) > r.HalfLen || math.Abs(wv) > r.HalfWidth {
+				continue
+			}
+			if math.Abs(wv-f.Rho-f.Alpha*u-f.Kappa*u*u) > far {
 				continue
 			}
 			d := f.dist(u, wv)

@@ -68,9 +68,8 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 	// Plateaus, noise and the coarse profile, after removing the shading
 	// (illumination fall-off) common to both plateaus.
 	core := math.Min(coreWidth(f), reach-1)
-	v := unshade(s.u, d, s.v, core)
+	v, dark, light := s.flattened(d, core)
 	pts := merge(d, v)
-	dark, light, _, _ := plateaus(d, v, core)
 	step := light - dark
 	if !(step > 0) {
 		return ErrNoEdge
@@ -306,6 +305,23 @@ func unshade(u, d, v []float64, core float64) []float64 {
 		out[i] = v[i] / k
 	}
 	return out
+}
+
+// flattened returns unshade's profile values for the samples' distances d
+// (dists, for the final fit) and core, and the plateau levels of plateaus on them. The
+// estimator and the sharpening check both need them for the one final fit
+// of a measurement; with a scratch they are computed once and shared
+// (read-only).
+func (s *samples) flattened(d []float64, core float64) (v []float64, dark, light float64) {
+	if c := s.sc; c != nil && c.flat.ok && c.flat.core == core {
+		return c.flat.v, c.flat.dark, c.flat.light
+	}
+	v = unshade(s.u, d, s.v, core)
+	dark, light, _, _ = plateaus(d, v, core)
+	if s.sc != nil {
+		s.sc.flat = flatCache{ok: true, core: core, v: v, dark: dark, light: light}
+	}
+	return v, dark, light
 }
 
 // planeStats accumulates a least-squares plane v = c0 + c1 x + c2 y.

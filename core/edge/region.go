@@ -138,6 +138,7 @@ func gatherInto(p *plane.Plane, r Region, keep func(x, y int) bool, sc *scratch)
 	if sc == nil {
 		sc = &scratch{}
 	}
+	sc.flat = flatCache{}
 	s := samples{u: take(sc.u, n), w: take(sc.w, n), v: take(sc.v, n), at: take(sc.at, n),
 		bx0: x0, by0: y0, bw: max(x1-x0+1, 0), bh: max(y1-y0+1, 0), sc: sc}
 	defer func() { sc.u, sc.w, sc.v, sc.at = s.u, s.w, s.v, s.at }()

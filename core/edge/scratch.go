@@ -16,6 +16,17 @@ type scratch struct {
 	// zero between uses: measureNoiseShape clears the cells it set.
 	cells  []noiseCell
 	dd, dl []float64
+	// flat is samples.flattened's result for the current measurement
+	// (cleared when a region's samples are gathered).
+	flat flatCache
+}
+
+// flatCache holds samples.flattened's result for one core width.
+type flatCache struct {
+	ok          bool
+	core        float64
+	v           []float64
+	dark, light float64
 }
 
 var scratchPool = sync.Pool{New: func() any { return new(scratch) }}

@@ -96,8 +96,7 @@ func judgeSharpening(m *Measurement, s samples, f lineFit, sdDark, sdLight float
 		return
 	}
 	core := math.Min(coreWidth(f), reach-1)
-	v := unshade(s.u, d, s.v, core)
-	dark, light, _, _ := plateaus(d, v, core)
+	v, dark, light := s.flattened(d, core)
 	step := light - dark
 	if !(step > 0) {
 		return
