@@ -412,7 +412,7 @@ func TestTrimmedSigma(t *testing.T) {
 	for i := range d {
 		d[i] = math.Abs(0.02 * (rng.NormFloat64() - rng.NormFloat64()))
 	}
-	if got := trimmedSigma(d); math.Abs(got/0.02-1) > 0.03 {
+	if got := trimmedSigma(d, nil); math.Abs(got/0.02-1) > 0.03 {
 		t.Errorf("sigma %.5f, want 0.02 within 3 %%", got)
 	}
 	q := make([]float64, 1000)
@@ -421,7 +421,7 @@ func TestTrimmedSigma(t *testing.T) {
 			q[i] = 1.0 / 255
 		}
 	}
-	if trimmedSigma(q) == 0 {
+	if trimmedSigma(q, nil) == 0 {
 		t.Error("quantised differences gave zero noise")
 	}
 }

@@ -37,7 +37,7 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 	if n < 32 {
 		return lineFit{}, false
 	}
-	lo, hi := percentiles(s.v, 0.05, 0.95)
+	lo, hi := percentiles(s.v, 0.05, 0.95, s.buf(func(c *scratch) *[]float64 { return &c.sel }))
 	if !(hi > lo) {
 		return lineFit{}, false
 	}
@@ -132,7 +132,7 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 	// time. The band widens if the fitted profile turns out wide.
 	band := math.Min(fitBandPx, halfWidth)
 	for {
-		sub := within(s, f, band)
+		sub := within(s, f, band, s.buf(func(c *scratch) *[]float64 { return &c.band }))
 		if len(sub.v) < 32 {
 			sub = s
 		}
@@ -155,8 +155,8 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 const fitBandPx = 12
 
 // within returns the samples within band px (across the region) of the
-// fitted line.
-func within(s samples, f lineFit, band float64) samples {
+// fitted line, in the array *buf (grown as needed) unless buf is nil.
+func within(s samples, f lineFit, band float64, buf *[]float64) samples {
 	in := func(i int) bool {
 		return math.Abs(s.w[i]-f.Rho-f.Alpha*s.u[i]-f.Kappa*s.u[i]*s.u[i]) <= band
 	}
@@ -166,8 +166,14 @@ func within(s samples, f lineFit, band float64) samples {
 			n++
 		}
 	}
-	buf := make([]float64, 3*n) // one allocation for the three columns
-	out := samples{u: buf[:0:n], w: buf[n : n : 2*n], v: buf[2*n : 2*n : 3*n]}
+	var cols []float64 // one array for the three columns
+	if buf != nil {
+		cols = take(*buf, 3*n)[:3*n]
+		*buf = cols
+	} else {
+		cols = make([]float64, 3*n)
+	}
+	out := samples{u: cols[:0:n], w: cols[n : n : 2*n], v: cols[2*n : 2*n : 3*n]}
 	for i := range s.v {
 		if in(i) {
 			out.u = append(out.u, s.u[i])
@@ -405,9 +411,15 @@ func solve(m [6][6]float64, b [6]float64) ([6]float64, bool) {
 }
 
 // percentiles returns the p- and q-quantiles (0..1) of v without modifying
-// it.
-func percentiles(v []float64, p, q float64) (float64, float64) {
-	c := append([]float64(nil), v...)
+// it, selecting in a copy in *buf (grown as needed) unless buf is nil.
+func percentiles(v []float64, p, q float64, buf *[]float64) (float64, float64) {
+	var c []float64
+	if buf != nil {
+		c = append((*buf)[:0], v...)
+		*buf = c
+	} else {
+		c = append([]float64(nil), v...)
+	}
 	at := func(q float64) float64 { return nth(c, int(q*float64(len(c)-1))) }
 	return at(p), at(q)
 }

@@ -64,7 +64,8 @@ func pairNoise(p *plane.Plane, r Region, s *samples, sides []int8) (dark, light 
 			}
 		}
 	}
-	return trimmedSigma(dd), trimmedSigma(dl)
+	tmp := s.buf(func(c *scratch) *[]float64 { return &c.sorted })
+	return trimmedSigma(dd, tmp), trimmedSigma(dl, tmp)
 }
 
 // pairNoiseAt is pairNoise with the neighbour step pixels away along the
@@ -137,7 +138,7 @@ func pairNoiseAt(p *plane.Plane, r Region, f lineFit, flipped bool, core float64
 			}
 		}
 	}
-	return trimmedSigma(dd), trimmedSigma(dl)
+	return trimmedSigma(dd, nil), trimmedSigma(dl, nil)
 }
 
 // trimFraction is the share of the largest pair differences left out.
@@ -147,12 +148,13 @@ const trimFraction = 0.02
 // cut at the 1 - trimFraction quantile of |d| (see pairNoise).
 const trimmedVariance = 0.8730
 
-// trimmedSigma converts absolute pair differences into a noise rms.
-func trimmedSigma(d []float64) float64 {
+// trimmedSigma converts absolute pair differences into a noise rms,
+// sorting them (tmp as for sortNonNegative).
+func trimmedSigma(d []float64, tmp *[]float64) float64 {
 	if len(d) < 8 {
 		return 0
 	}
-	sortNonNegative(d)
+	sortNonNegative(d, tmp)
 	keep := d[:len(d)-int(trimFraction*float64(len(d)))]
 	var ss float64
 	for _, v := range keep {
@@ -170,8 +172,9 @@ func trimmedSigma(d []float64) float64 {
 // sec. 5.2.5), one pass over the data for the byte counts and one per byte
 // that is not the same in every value (the low bytes of the mantissa are
 // all zero in the differences of float32 pixels). Other values fall back
-// to the comparison sort.
-func sortNonNegative(d []float64) {
+// to the comparison sort. The second array is *tmp (grown as needed)
+// unless tmp is nil.
+func sortNonNegative(d []float64, tmp *[]float64) {
 	if len(d) < 2 {
 		return
 	}
@@ -186,8 +189,14 @@ func sortNonNegative(d []float64) {
 			count[k][byte(b>>(8*k))]++
 		}
 	}
-	tmp := make([]float64, len(d))
-	src, dst := d, tmp
+	var other []float64
+	if tmp != nil {
+		other = take(*tmp, len(d))[:len(d)]
+		*tmp = other
+	} else {
+		other = make([]float64, len(d))
+	}
+	src, dst := d, other
 	for k := range 8 {
 		c := &count[k]
 		if c[byte(math.Float64bits(d[0])>>(8*k))] == len(d) {

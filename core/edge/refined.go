@@ -69,7 +69,11 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 	// (illumination fall-off) common to both plateaus.
 	core := math.Min(coreWidth(f), reach-1)
 	v, dark, light := s.flattened(d, core)
-	pts := merge(d, v)
+	var bins *[]point
+	if s.sc != nil {
+		bins = &s.sc.bins
+	}
+	pts := merge(d, v, bins)
 	step := light - dark
 	if !(step > 0) {
 		return ErrNoEdge
@@ -247,8 +251,9 @@ func stieltjes(mid, wts, dv, nv, freq []float64, shape func(float64) float64) (o
 // merge averages the samples that fall into the same bin of finePx along
 // the normal (no sort needed: the bins are indexed directly) and returns
 // the occupied bins in order of distance, each at its samples' mean
-// distance and mean value.
-func merge(d, v []float64) []point {
+// distance and mean value. The bins are the array *buf (grown as needed)
+// unless buf is nil.
+func merge(d, v []float64, buf *[]point) []point {
 	if len(d) == 0 {
 		return nil
 	}
@@ -258,7 +263,14 @@ func merge(d, v []float64) []point {
 	}
 	i0 := int(math.Floor(lo / finePx))
 	nb := int(math.Floor(hi/finePx)) - i0 + 1
-	bins := make([]point, nb)
+	var bins []point
+	if buf != nil {
+		bins = take(*buf, nb)[:nb]
+		clear(bins)
+		*buf = bins
+	} else {
+		bins = make([]point, nb)
+	}
 	for i, x := range d {
 		b := &bins[int(math.Floor(x/finePx))-i0]
 		b.d += x

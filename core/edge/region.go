@@ -65,6 +65,15 @@ type samples struct {
 	sc *scratch
 }
 
+// buf returns the slice of the samples' scratch that field picks, or nil
+// without a scratch (the callee then allocates).
+func (s *samples) buf(field func(*scratch) *[]float64) *[]float64 {
+	if s.sc == nil {
+		return nil
+	}
+	return field(s.sc)
+}
+
 // plateauSides returns each pixel's side of the fitted edge over the
 // samples' bounding box with a column and a row of zeros added (a grid of
 // (bw + 1) x (bh + 1)): -1 on the dark plateau (distance below -core),

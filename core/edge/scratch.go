@@ -16,6 +16,11 @@ type scratch struct {
 	// zero between uses: measureNoiseShape clears the cells it set.
 	cells  []noiseCell
 	dd, dl []float64
+	// Temporaries of one step each: the copy percentiles selects in, the
+	// edge fit's band of samples, the radix sort's second array and the
+	// estimator's merged bins.
+	sel, band, sorted []float64
+	bins              []point
 	// flat is samples.flattened's result for the current measurement
 	// (cleared when a region's samples are gathered).
 	flat flatCache
