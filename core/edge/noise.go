@@ -166,7 +166,8 @@ func trimmedSigma(d []float64, tmp *[]float64) float64 {
 // sortNonNegative sorts d in increasing order, as sort.Float64s does. For
 // values that are all non-negative and not NaN (absolute differences),
 // the order of the numbers is that of their bit patterns read as unsigned
-// integers (IEEE 754-2008, sec. 3.4: the encoding is monotonic), so a
+// integers (the IEEE 754 binary encoding stores the biased exponent above
+// the fraction; common practice), so a
 // least-significant-digit radix sort on the 8 bytes gives it in linear
 // time (D. E. Knuth, The Art of Computer Programming, vol. 3, 2nd ed.,
 // sec. 5.2.5), one pass over the data for the byte counts and one per byte
