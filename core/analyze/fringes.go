@@ -122,11 +122,14 @@ func colourOf(dec *decode.Image, m *edge.Measurement, r edge.Region, perChannel 
 	planes := [3]*plane.Plane{R, G, B}
 	var off, se [3]float64
 	good := true
+	// The three planes cover the same pixels: which of them count, and in
+	// what order, is worked out once.
+	win := m.ChannelWindow(R.W, R.H, rect.Min.X, rect.Min.Y, nil)
 	for c, p := range planes {
 		if toneMap != nil {
 			toneMap(p)
 		}
-		o, e, err := m.ChannelOffset(p, rect.Min.X, rect.Min.Y, nil)
+		o, e, err := win.Offset(p)
 		if err != nil {
 			good = false
 			break

@@ -1,10 +1,8 @@
 package edge
 
 import (
-	"cmp"
 	"errors"
 	"math"
-	"slices"
 
 	"sagitta/core/plane"
 )
@@ -42,54 +40,155 @@ var ErrNoChannelEdge = errors.New("edge: the colour channel shows no edge where 
 // error larger). p is the channel's plane, a crop whose pixel (0, 0) is the
 // photo's pixel (ox, oy); keep, if not nil, selects the photosites of one
 // plane of a raw mosaic (in the photo's pixel coordinates), as MeasureSites
-// does.
+// does. For several planes of the same pixels (red, green and blue), use
+// one ChannelWindow for all of them.
 func (m *Measurement) ChannelOffset(p *plane.Plane, ox, oy int, keep func(x, y int) bool) (offPx, sePx float64, err error) {
+	return m.ChannelWindow(p.W, p.H, ox, oy, keep).Offset(p)
+}
+
+// ChannelWindow holds what ChannelOffset needs of the region's geometry
+// alone, whatever the channel: which pixels lie within the window about
+// the fitted edge, which of them on a plateau, their order by distance from
+// the edge and their trapezoid weights. The planes of one crop share it, so
+// each is read once and nothing is sorted again.
+type ChannelWindow struct {
+	err  error
+	w, h int     // the size of the planes it reads
+	b    float64 // the window's half-width, px
+	// The samples within the window in row order: each one's pixel index
+	// in the plane and its plateau (-1 dark, +1 light, 0 neither).
+	pix  []int32
+	side []int8
+	// The samples' order by distance from the edge, each one's weight in
+	// the trapezoid rule there, and the sum of the squared weights.
+	ord    []int32
+	weight []float64
+	w2     float64
+}
+
+// ChannelWindow prepares ChannelOffset for planes of w x h pixels whose
+// pixel (0, 0) is the photo's pixel (ox, oy); keep as for ChannelOffset.
+func (m *Measurement) ChannelWindow(w, h, ox, oy int, keep func(x, y int) bool) *ChannelWindow {
+	cw := &ChannelWindow{w: w, h: h}
 	r := m.region
 	r.X -= float64(ox)
 	r.Y -= float64(oy)
-	var k func(x, y int) bool
-	if keep != nil {
-		k = func(x, y int) bool { return keep(x+ox, y+oy) }
-	}
-	s := gatherSites(p, r, k)
-	if m.flipped {
-		for i := range s.w {
-			s.w[i] = -s.w[i]
-		}
-	}
 	f := m.fit
 	// The window: the profile's blur (a logistic of width s has a standard
 	// deviation of 1.8 s) six times over plus 4 px for a softer channel,
 	// within the region.
 	b := math.Min(6*1.8*f.Width+4, r.HalfWidth-0.5)
 	if b < 3 {
-		return 0, 0, ErrNoEdge
+		cw.err = ErrNoEdge
+		return cw
 	}
-	type pt struct{ d, v float64 }
-	pts := make([]pt, 0, len(s.v))
+	cw.b = b
+	// The pixels whose centres lie inside the region (as gatherSites
+	// takes them), their distances and plateaus.
+	tx, ty, nx, ny := r.axes()
+	if m.flipped {
+		nx, ny = -nx, -ny
+	}
+	x0, x1, y0, y1 := r.box(w, h)
+	// Room for the pixels of the window's band across the whole region
+	// (2 b by 2 HalfLen, with some to spare).
+	room := int(4*b*r.HalfLen) + 64
+	cw.pix = make([]int32, 0, room)
+	cw.side = make([]int8, 0, room)
+	dist := make([]float64, 0, room)
+	var nd, nl int
+	// A pixel whose offset across the edge curve exceeds b times the
+	// largest slope factor of lineFit.dist over the region lies outside
+	// the window whatever its distance's rounding: it is passed over
+	// without the distance's square root and division.
+	smax := math.Abs(f.Alpha) + 2*math.Abs(f.Kappa)*r.HalfLen
+	far := b * math.Sqrt(1+smax*smax) * (1 + 1e-9)
+	for y := y0; y <= y1; y++ {
+		dy := float64(y) + 0.5 - r.Y
+		for x := x0; x <= x1; x++ {
+			if keep != nil && !keep(x+ox, y+oy) {
+				continue
+			}
+			dx := float64(x) + 0.5 - r.X
+			u := dx*tx + dy*ty
+			wv := dx*nx + dy*ny
+			if math.Abs(u) > r.HalfLen || math.Abs(wv) > r.HalfWidth {
+				continue
+			}
+			if math.Abs(wv-f.Rho-f.Alpha*u-f.Kappa*u*u) > far {
+				continue
+			}
+			d := f.dist(u, wv)
+			if math.Abs(d) > b {
+				continue
+			}
+			// Plateaus: the outer third of the window on each side.
+			var sd int8
+			switch {
+			case d < -2*b/3:
+				sd = -1
+				nd++
+			case d > 2*b/3:
+				sd = 1
+				nl++
+			}
+			cw.pix = append(cw.pix, int32(y*w+x))
+			cw.side = append(cw.side, sd)
+			dist = append(dist, d)
+		}
+	}
+	n := len(dist)
+	if nd < 8 || nl < 8 || n < 32 {
+		cw.err = ErrNoEdge
+		return cw
+	}
+	cw.ord = make([]int32, n)
+	for i := range cw.ord {
+		cw.ord[i] = int32(i)
+	}
+	sortByKey(cw.ord, dist, -b, b, nil, nil)
+	// Trapezoid rule over the samples, extended flat to the window's ends;
+	// each sample's weight is half the span to its neighbours.
+	cw.weight = make([]float64, n)
+	for j, i := range cw.ord {
+		lo, hi := -b, b
+		if j > 0 {
+			lo = 0.5 * (dist[cw.ord[j-1]] + dist[i])
+		}
+		if j < n-1 {
+			hi = 0.5 * (dist[i] + dist[cw.ord[j+1]])
+		}
+		wt := hi - lo
+		cw.weight[j] = wt
+		cw.w2 += wt * wt
+	}
+	return cw
+}
+
+// Offset is ChannelOffset for the plane p, which must be of the window's
+// size.
+func (cw *ChannelWindow) Offset(p *plane.Plane) (offPx, sePx float64, err error) {
+	if cw.err != nil {
+		return 0, 0, cw.err
+	}
+	if p.W != cw.w || p.H != cw.h {
+		return 0, 0, errors.New("edge: the colour plane is not of the size its window was made for")
+	}
+	b := cw.b
 	var sd, sl, qd, ql float64
 	var nd, nl int
-	for i := range s.v {
-		d := f.dist(s.u[i], s.w[i])
-		if math.Abs(d) > b {
-			continue
-		}
-		v := s.v[i]
-		pts = append(pts, pt{d, v})
-		// Plateaus: the outer third of the window on each side.
-		switch {
-		case d < -2*b/3:
+	for k, i := range cw.pix {
+		v := float64(p.Pix[i])
+		switch cw.side[k] {
+		case -1:
 			sd += v
 			qd += v * v
 			nd++
-		case d > 2*b/3:
+		case 1:
 			sl += v
 			ql += v * v
 			nl++
 		}
-	}
-	if nd < 8 || nl < 8 || len(pts) < 32 {
-		return 0, 0, ErrNoEdge
 	}
 	dark, light := sd/float64(nd), sl/float64(nl)
 	step := light - dark
@@ -99,27 +198,14 @@ func (m *Measurement) ChannelOffset(p *plane.Plane, ox, oy int, keep func(x, y i
 	if !(step > 0) || step*step < 25*noise2 {
 		return 0, 0, ErrNoChannelEdge
 	}
-	slices.SortFunc(pts, func(a, b pt) int { return cmp.Compare(a.d, b.d) })
-	// Trapezoid rule over the samples, extended flat to the window's ends;
-	// each sample's weight is half the span to its neighbours.
-	var area, w2 float64
-	n := len(pts)
-	for i := range pts {
-		lo, hi := -b, b
-		if i > 0 {
-			lo = 0.5 * (pts[i-1].d + pts[i].d)
-		}
-		if i < n-1 {
-			hi = 0.5 * (pts[i].d + pts[i+1].d)
-		}
-		w := hi - lo
-		area += w * (pts[i].v - dark) / step
-		w2 += w * w
+	var area float64
+	for j, i := range cw.ord {
+		area += cw.weight[j] * (float64(p.Pix[cw.pix[i]]) - dark) / step
 	}
 	d0 := b - area
 	// Its variance: the samples' noise through their weights, and the
 	// plateau levels' errors (area depends on dark with weight (b + d0)
 	// and on light with weight (b - d0), over the step).
-	v := noise2*w2 + vd/float64(nd)*(b+d0)*(b+d0) + vl/float64(nl)*(b-d0)*(b-d0)
+	v := noise2*cw.w2 + vd/float64(nd)*(b+d0)*(b+d0) + vl/float64(nl)*(b-d0)*(b-d0)
 	return d0, math.Sqrt(v) / step, nil
 }

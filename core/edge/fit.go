@@ -1,7 +1,6 @@
 package edge
 
 import (
-	"cmp"
 	"math"
 	"slices"
 )
@@ -38,7 +37,7 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 	if n < 32 {
 		return lineFit{}, false
 	}
-	lo, hi := percentiles(s.v, 0.05, 0.95)
+	lo, hi := percentiles(s.v, 0.05, 0.95, s.buf(func(c *scratch) *[]float64 { return &c.sel }))
 	if !(hi > lo) {
 		return lineFit{}, false
 	}
@@ -62,9 +61,8 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 	// Strip estimates of the edge position.
 	const stripPx = 2.0
 	nStrip := int(2*halfLen/stripPx) + 1
-	type pt struct{ w, v float64 }
-	// The strips share one array, filled by a counting sort in sample
-	// order.
+	// The strips share one array of sample indices, filled by a counting
+	// sort in sample order, and each is then put in order of w.
 	stripOf := func(i int) int { return int((s.u[i] + halfLen) / stripPx) }
 	start := make([]int, nStrip+1)
 	for i := range s.v {
@@ -75,29 +73,30 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 	for k := range nStrip {
 		start[k+1] += start[k]
 	}
-	all := make([]pt, start[nStrip])
-	strips := make([][]pt, nStrip)
-	for k := range strips {
-		strips[k] = all[start[k]:start[k]:start[k+1]]
-	}
+	all := make([]int32, start[nStrip])
+	next := slices.Clone(start[:nStrip])
 	for i := range s.v {
 		if k := stripOf(i); k >= 0 && k < nStrip {
-			strips[k] = append(strips[k], pt{s.w[i], s.v[i]})
+			all[next[k]] = int32(i)
+			next[k]++
 		}
 	}
+	var tmp, count []int32
 	var su, sw, suu, suw, cnt float64
-	for k, st := range strips {
+	for k := range nStrip {
+		st := all[start[k]:start[k+1]]
 		if len(st) < 6 {
 			continue
 		}
-		slices.SortFunc(st, func(a, b pt) int { return cmp.Compare(a.w, b.w) })
+		tmp, count = sortByKey(st, s.w, -halfWidth, halfWidth, tmp, count)
 		// Integral of the normalised profile over the strip's w range.
-		wa, wb := st[0].w, st[len(st)-1].w
+		wa, wb := s.w[st[0]], s.w[st[len(st)-1]]
 		var area float64
 		for j := 1; j < len(st); j++ {
-			q0 := (st[j-1].v - lo) / (hi - lo)
-			q1 := (st[j].v - lo) / (hi - lo)
-			area += 0.5 * (q0 + q1) * (st[j].w - st[j-1].w)
+			a, b := st[j-1], st[j]
+			q0 := (s.v[a] - lo) / (hi - lo)
+			q1 := (s.v[b] - lo) / (hi - lo)
+			area += 0.5 * (q0 + q1) * (s.w[b] - s.w[a])
 		}
 		var c float64
 		if rising {
@@ -133,7 +132,7 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 	// time. The band widens if the fitted profile turns out wide.
 	band := math.Min(fitBandPx, halfWidth)
 	for {
-		sub := within(s, f, band)
+		sub := within(s, f, band, s.buf(func(c *scratch) *[]float64 { return &c.band }))
 		if len(sub.v) < 32 {
 			sub = s
 		}
@@ -156,8 +155,8 @@ func fitEdge(s samples, halfLen, halfWidth float64) (lineFit, bool) {
 const fitBandPx = 12
 
 // within returns the samples within band px (across the region) of the
-// fitted line.
-func within(s samples, f lineFit, band float64) samples {
+// fitted line, in the array *buf (grown as needed) unless buf is nil.
+func within(s samples, f lineFit, band float64, buf *[]float64) samples {
 	in := func(i int) bool {
 		return math.Abs(s.w[i]-f.Rho-f.Alpha*s.u[i]-f.Kappa*s.u[i]*s.u[i]) <= band
 	}
@@ -167,8 +166,14 @@ func within(s samples, f lineFit, band float64) samples {
 			n++
 		}
 	}
-	buf := make([]float64, 3*n) // one allocation for the three columns
-	out := samples{u: buf[:0:n], w: buf[n : n : 2*n], v: buf[2*n : 2*n : 3*n]}
+	var cols []float64 // one array for the three columns
+	if buf != nil {
+		cols = take(*buf, 3*n)[:3*n]
+		*buf = cols
+	} else {
+		cols = make([]float64, 3*n)
+	}
+	out := samples{u: cols[:0:n], w: cols[n : n : 2*n], v: cols[2*n : 2*n : 3*n]}
 	for i := range s.v {
 		if in(i) {
 			out.u = append(out.u, s.u[i])
@@ -225,11 +230,22 @@ func levenberg(f *lineFit, s samples, halfLen float64) bool {
 			if q[2] <= 0.02 {
 				q[2] = 0.02
 			}
-			c1 := eval(q, &qtj, &qtr)
+			// A step this small ends the fit if it lowers the cost, and
+			// a step that does not is retried from the same normal
+			// equations: either way only the cost at q is needed.
+			smallStep := math.Abs(dp[3]) < 1e-4 && math.Abs(dp[4]) < 1e-4 && math.Abs(dp[5]) < 1e-4
+			var c1 float64
+			if smallStep {
+				c1 = cost(q, un, s.w, s.v)
+			} else {
+				c1 = eval(q, &qtj, &qtr)
+			}
 			if c1 < c0 {
-				small := math.Abs(dp[3]) < 1e-4 && math.Abs(dp[4]) < 1e-4 && math.Abs(dp[5]) < 1e-4 || c0-c1 < 1e-10*c0
+				small := smallStep || c0-c1 < 1e-10*c0
 				p, c0 = q, c1
-				jtj, jtr = qtj, qtr
+				if !smallStep {
+					jtj, jtr = qtj, qtr
+				}
 				lambda = max(lambda/10, 1e-9)
 				improved = true
 				if small {
@@ -265,6 +281,7 @@ func normalEquations(p [6]float64, un, w, v []float64, jtj *[6][6]float64, jtr *
 	var a00, a10, a11, a20, a21, a22, a30, a31, a32, a33 float64
 	var a40, a41, a42, a43, a44, a50, a51, a52, a53, a54, a55 float64
 	var b0, b1, b2, b3, b4, b5 float64
+	un, w = un[:len(v)], w[:len(v)]
 	for i := range v {
 		u := un[i]
 		e := p[3] + p[4]*u + p[5]*u*u
@@ -310,6 +327,23 @@ func normalEquations(p [6]float64, un, w, v []float64, jtj *[6][6]float64, jtr *
 		{a30, a31, a32, a33},
 		{a40, a41, a42, a43, a44},
 		{a50, a51, a52, a53, a54, a55},
+	}
+	return c
+}
+
+// cost returns the sum of squared residuals of the edge model at p, the
+// same number normalEquations returns (the same operations in the same
+// order), without the normal equations.
+func cost(p [6]float64, un, w, v []float64) float64 {
+	un, w = un[:len(v)], w[:len(v)]
+	var c float64
+	for i := range v {
+		u := un[i]
+		e := p[3] + p[4]*u + p[5]*u*u
+		z := (w[i] - e) / p[2]
+		l := 1 / (1 + math.Exp(-z))
+		r := v[i] - (p[0] + p[1]*l)
+		c += r * r
 	}
 	return c
 }
@@ -377,9 +411,15 @@ func solve(m [6][6]float64, b [6]float64) ([6]float64, bool) {
 }
 
 // percentiles returns the p- and q-quantiles (0..1) of v without modifying
-// it.
-func percentiles(v []float64, p, q float64) (float64, float64) {
-	c := append([]float64(nil), v...)
+// it, selecting in a copy in *buf (grown as needed) unless buf is nil.
+func percentiles(v []float64, p, q float64, buf *[]float64) (float64, float64) {
+	var c []float64
+	if buf != nil {
+		c = append((*buf)[:0], v...)
+		*buf = c
+	} else {
+		c = append([]float64(nil), v...)
+	}
 	at := func(q float64) float64 { return nth(c, int(q*float64(len(c)-1))) }
 	return at(p), at(q)
 }

@@ -61,6 +61,11 @@ func TestNormalEquationsExact(t *testing.T) {
 			}
 		}
 	}
+	// The cost alone (levenberg's trial of a small step) is the same sum
+	// of squares, bit for bit.
+	if cc := cost(p, un, w, v); cc != rc {
+		t.Errorf("cost alone %v, in the normal equations' pass %v", cc, rc)
+	}
 	if c != rc || jtr != refR || jtj != ref {
 		t.Errorf("written-out sums differ from the general form:\ncost %v vs %v\nJtr %v\nvs  %v\nJtJ %v\nvs  %v", c, rc, jtr, refR, jtj, ref)
 	}

@@ -149,7 +149,15 @@ func Measure(p *plane.Plane, r Region, opt Options) (*Measurement, error) {
 	if r.HalfLen < 5 || r.HalfWidth < 4 {
 		return nil, fmt.Errorf("edge: region too small (%.0f x %.0f px)", 2*r.HalfLen, 2*r.HalfWidth)
 	}
-	s := gather(p, r)
+	sc := getScratch()
+	m, err := measure(p, r, opt, sc)
+	putScratch(sc) // not reached on a panic: see getScratch
+	return m, err
+}
+
+// measure is Measure with the working memory sc.
+func measure(p *plane.Plane, r Region, opt Options, sc *scratch) (*Measurement, error) {
+	s := gatherInto(p, r, nil, sc)
 	fit, ok := fitEdge(s, r.HalfLen, r.HalfWidth)
 	if !ok || fit.Step == 0 {
 		return nil, ErrNoEdge
@@ -159,8 +167,9 @@ func Measure(p *plane.Plane, r Region, opt Options) (*Measurement, error) {
 	m := &Measurement{Method: opt.Method.String(), fit: fit, flipped: flipped, region: r}
 	geometry(m, r, fit, s, flipped)
 	freq := opt.grid()
-	nDark, nLight := pairNoise(p, r, fit, flipped, coreWidth(fit))
-	shape := measureNoiseShape(p, r, fit, flipped, coreWidth(fit))
+	sides := s.plateauSides(coreWidth(fit))
+	nDark, nLight := pairNoise(p, r, &s, sides)
+	shape := measureNoiseShape(p, r, flipped, &s, sides)
 	nDark *= shape.sdScale()
 	nLight *= shape.sdScale()
 	var err error
@@ -222,7 +231,7 @@ func geometry(m *Measurement, r Region, f lineFit, s samples, flipped bool) {
 	m.SlantDeg = math.Min(a, 90-a)
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, u := range s.u {
-		lo, hi = math.Min(lo, u), math.Max(hi, u)
+		lo, hi = min(lo, u), max(hi, u)
 	}
 	m.LengthPx = hi - lo + 1
 	m.BowPx = math.Abs(f.Kappa) * r.HalfLen * r.HalfLen

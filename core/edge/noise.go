@@ -23,14 +23,56 @@ import (
 // count, so the profile's steep part does not pass for noise; a profile
 // with long, slowly falling tails (diffraction, flare) does not either,
 // which a spread about a fitted line would mistake for noise.
-func pairNoise(p *plane.Plane, r Region, f lineFit, flipped bool, core float64) (dark, light float64) {
-	return pairNoiseAt(p, r, f, flipped, core, 1, nil)
+func pairNoise(p *plane.Plane, r Region, s *samples, sides []int8) (dark, light float64) {
+	tx, ty, _, _ := r.axes()
+	// Step to the neighbour along the pixel axis nearer the edge line.
+	sx, sy := 1, 0
+	if math.Abs(ty) > math.Abs(tx) {
+		sx, sy = 0, 1
+	}
+	// The sides come from plateauSides over the region's box (the
+	// pixels outside it are outside the region: side 0), with a zero
+	// column and row beyond it for the last pixels' neighbours.
+	x0, y0, gw := s.bx0, s.by0, s.bw+1
+	x1 := min(s.bx0+s.bw-1, p.W-1-sx)
+	y1 := min(s.by0+s.bh-1, p.H-1-sy)
+	step := sy*gw + sx
+	// Room for the pairs of every pixel of the region, split between the
+	// two sides, so the lists rarely grow.
+	n := int(2*r.HalfLen*r.HalfWidth) + 16
+	var dd, dl []float64
+	if s.sc != nil {
+		dd, dl = take(s.sc.dd, n), take(s.sc.dl, n)
+		defer func() { s.sc.dd, s.sc.dl = dd, dl }()
+	} else {
+		dd, dl = make([]float64, 0, n), make([]float64, 0, n)
+	}
+	for y := y0; y <= y1; y++ {
+		row := p.Pix[y*p.W:]
+		next := p.Pix[(y+sy)*p.W+sx:]
+		g := sides[(y-y0)*gw:]
+		for x := x0; x <= x1; x++ {
+			sd := g[x-x0]
+			if sd == 0 || g[x-x0+step] != sd {
+				continue
+			}
+			diff := math.Abs(float64(row[x] - next[x]))
+			if sd < 0 {
+				dd = append(dd, diff)
+			} else {
+				dl = append(dl, diff)
+			}
+		}
+	}
+	tmp := s.buf(func(c *scratch) *[]float64 { return &c.sorted })
+	return trimmedSigma(dd, tmp), trimmedSigma(dl, tmp)
 }
 
 // pairNoiseAt is pairNoise with the neighbour step pixels away along the
 // pixel axis nearer the edge line, over the pixels keep selects (nil: all):
 // a plane of a colour mosaic pairs each site with the next one of its own
-// colour (mosaic.go).
+// colour (mosaic.go). It classifies the pixels itself, from the region, the
+// fit (mirrored if flipped) and core.
 func pairNoiseAt(p *plane.Plane, r Region, f lineFit, flipped bool, core float64, step int, keep func(x, y int) bool) (dark, light float64) {
 	tx, ty, nx, ny := r.axes()
 	if flipped {
@@ -96,7 +138,7 @@ func pairNoiseAt(p *plane.Plane, r Region, f lineFit, flipped bool, core float64
 			}
 		}
 	}
-	return trimmedSigma(dd), trimmedSigma(dl)
+	return trimmedSigma(dd, nil), trimmedSigma(dl, nil)
 }
 
 // trimFraction is the share of the largest pair differences left out.
@@ -106,16 +148,73 @@ const trimFraction = 0.02
 // cut at the 1 - trimFraction quantile of |d| (see pairNoise).
 const trimmedVariance = 0.8730
 
-// trimmedSigma converts absolute pair differences into a noise rms.
-func trimmedSigma(d []float64) float64 {
+// trimmedSigma converts absolute pair differences into a noise rms,
+// sorting them (tmp as for sortNonNegative).
+func trimmedSigma(d []float64, tmp *[]float64) float64 {
 	if len(d) < 8 {
 		return 0
 	}
-	sort.Float64s(d)
+	sortNonNegative(d, tmp)
 	keep := d[:len(d)-int(trimFraction*float64(len(d)))]
 	var ss float64
 	for _, v := range keep {
 		ss += v * v
 	}
 	return math.Sqrt(ss/float64(len(keep))/trimmedVariance) / math.Sqrt2
+}
+
+// sortNonNegative sorts d in increasing order, as sort.Float64s does. For
+// values that are all non-negative and not NaN (absolute differences),
+// the order of the numbers is that of their bit patterns read as unsigned
+// integers (the IEEE 754 binary encoding stores the biased exponent above
+// the fraction; common practice), so a
+// least-significant-digit radix sort on the 8 bytes gives it in linear
+// time (D. E. Knuth, The Art of Computer Programming, vol. 3, 2nd ed.,
+// sec. 5.2.5), one pass over the data for the byte counts and one per byte
+// that is not the same in every value (the low bytes of the mantissa are
+// all zero in the differences of float32 pixels). Other values fall back
+// to the comparison sort. The second array is *tmp (grown as needed)
+// unless tmp is nil.
+func sortNonNegative(d []float64, tmp *[]float64) {
+	if len(d) < 2 {
+		return
+	}
+	var count [8][256]int
+	for _, v := range d {
+		if !(v >= 0) || math.Signbit(v) {
+			sort.Float64s(d)
+			return
+		}
+		b := math.Float64bits(v)
+		for k := range 8 {
+			count[k][byte(b>>(8*k))]++
+		}
+	}
+	var other []float64
+	if tmp != nil {
+		other = take(*tmp, len(d))[:len(d)]
+		*tmp = other
+	} else {
+		other = make([]float64, len(d))
+	}
+	src, dst := d, other
+	for k := range 8 {
+		c := &count[k]
+		if c[byte(math.Float64bits(d[0])>>(8*k))] == len(d) {
+			continue // every value has this byte: the pass would not move any
+		}
+		pos := 0
+		for i := range c {
+			c[i], pos = pos, pos+c[i]
+		}
+		for _, v := range src {
+			j := byte(math.Float64bits(v) >> (8 * k))
+			dst[c[j]] = v
+			c[j]++
+		}
+		src, dst = dst, src
+	}
+	if &src[0] != &d[0] {
+		copy(d, src)
+	}
 }

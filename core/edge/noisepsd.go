@@ -58,6 +58,11 @@ func (n noiseShape) factor(f float64) float64 {
 	}
 	var r float64
 	for i, l := range lags {
+		// A lag whose correlation was set to 0 adds a zero (0 times a
+		// cosine): the sum is the same without it and its cosine.
+		if vals[i] == 0 {
+			continue
+		}
 		r += vals[i] * math.Cos(2*math.Pi*f*(float64(l[0])*n.nx+float64(l[1])*n.ny))
 	}
 	return math.Max(r, 0)
@@ -90,44 +95,33 @@ func (n noiseShape) sdScale() float64 {
 	return 1 / math.Sqrt(1-n.rhoS)
 }
 
+// noiseCell is a pixel of one plateau's layer of measureNoiseShape's grid:
+// its residual and 1 where the pixel lies on that plateau, zeros elsewhere.
+type noiseCell struct{ r, e float64 }
+
 // measureNoiseShape estimates the plateau noise's autocorrelation in region
-// r of p (edge fit f, mirrored if flipped; plateaus beyond core px).
-func measureNoiseShape(p *plane.Plane, r Region, f lineFit, flipped bool, core float64) noiseShape {
+// r of p (mirrored if flipped), from the samples s gathered there and the
+// pixels' sides of the edge (samples.plateauSides).
+func measureNoiseShape(p *plane.Plane, r Region, flipped bool, s *samples, sides []int8) noiseShape {
 	tx, ty, nx, ny := r.axes()
 	if flipped {
 		nx, ny = -nx, -ny
 	}
-	ex := math.Abs(r.HalfLen*tx) + math.Abs(r.HalfWidth*nx)
-	ey := math.Abs(r.HalfLen*ty) + math.Abs(r.HalfWidth*ny)
-	x0 := max(int(math.Floor(r.X-ex-0.5)), 0)
-	x1 := min(int(math.Ceil(r.X+ex-0.5)), p.W-1)
-	y0 := max(int(math.Floor(r.Y-ey-0.5)), 0)
-	y1 := min(int(math.Ceil(r.Y+ey-0.5)), p.H-1)
-	w, h := x1-x0+1, y1-y0+1
+	x0, y0, w, h := s.bx0, s.by0, s.bw, s.bh
+	x1, y1 := x0+w-1, y0+h-1
 	if w < 2*maxLag+2 || h < 2*maxLag+2 {
 		return noiseShape{}
 	}
-	side := make([]int8, w*h)
+	gw := w + 1 // the stride of sides
 	var fit [2]planeStats
 	for y := y0; y <= y1; y++ {
 		for x := x0; x <= x1; x++ {
+			sd := sides[(y-y0)*gw+x-x0]
+			if sd == 0 {
+				continue
+			}
+			k := (sd + 1) / 2 // 0 dark, 1 light
 			dx, dy := float64(x)+0.5-r.X, float64(y)+0.5-r.Y
-			u, wv := dx*tx+dy*ty, dx*nx+dy*ny
-			if math.Abs(u) > r.HalfLen || math.Abs(wv) > r.HalfWidth {
-				continue
-			}
-			d := f.dist(u, wv)
-			k := -1
-			switch {
-			case d < -core:
-				k = 0
-			case d > core:
-				k = 1
-			}
-			if k < 0 {
-				continue
-			}
-			side[(y-y0)*w+x-x0] = int8(k + 1)
 			fit[k].add(dx, dy, float64(p.At(x, y)))
 		}
 	}
@@ -139,49 +133,63 @@ func measureNoiseShape(p *plane.Plane, r Region, f lineFit, flipped bool, core f
 		}
 		coef[k] = c
 	}
-	res := make([]float64, w*h)
-	for y := y0; y <= y1; y++ {
-		for x := x0; x <= x1; x++ {
-			i := (y-y0)*w + x - x0
-			if k := side[i]; k > 0 {
-				c := coef[k-1]
-				res[i] = float64(p.At(x, y)) - c[0] - c[1]*(float64(x)+0.5-r.X) - c[2]*(float64(y)+0.5-r.Y)
-			}
+	// The residuals on a grid padded by maxLag px all round, one layer per
+	// plateau: a pixel's layer holds its residual and 1 where it lies on
+	// that plateau, 0 elsewhere (and in the padding). A pair (i, j) then
+	// adds res[i] times the layer of i's plateau at j, and 1 to the count
+	// where j is on the same plateau: the products and counts of pairs on
+	// one plateau, and exact zeros for the rest (a sum plus zero is the
+	// same sum), with neither a test of the sides nor of the box's edge.
+	pw, ph := w+2*maxLag, h+2*maxLag
+	var grid []noiseCell
+	if s.sc != nil {
+		if len(s.sc.cells) < 2*pw*ph {
+			s.sc.cells = make([]noiseCell, 2*pw*ph)
 		}
+		grid = s.sc.cells[:2*pw*ph]
+	} else {
+		grid = make([]noiseCell, 2*pw*ph)
 	}
-	// The plateau pixels in row order, so that each lag visits only them
-	// (in the same order as a scan of the whole box).
-	type site struct{ i, x, y int32 }
+	// The plateau pixels in row order (the order of a scan of the whole
+	// box), each with its index in its plateau's layer.
+	type site struct {
+		i int
+		r float64
+	}
 	n := 0
-	for _, k := range side {
-		if k > 0 {
+	for _, k := range sides {
+		if k != 0 {
 			n++
 		}
 	}
 	at := make([]site, 0, n)
-	for y := range h {
-		for x := range w {
-			if i := y*w + x; side[i] > 0 {
-				at = append(at, site{int32(i), int32(x), int32(y)})
+	for y := y0; y <= y1; y++ {
+		for x := x0; x <= x1; x++ {
+			if sd := sides[(y-y0)*gw+x-x0]; sd != 0 {
+				k := (sd + 1) / 2
+				c := coef[k]
+				v := float64(p.At(x, y)) - c[0] - c[1]*(float64(x)+0.5-r.X) - c[2]*(float64(y)+0.5-r.Y)
+				g := int(k)*pw*ph + (y-y0+maxLag)*pw + x - x0 + maxLag
+				grid[g] = noiseCell{v, 1}
+				at = append(at, site{g, v})
 			}
 		}
 	}
-	cov := func(lx, ly int) (float64, float64) {
-		var s, n float64
-		xa, xb := max(0, -lx), w-max(0, lx)
-		ya, yb := max(0, -ly), h-max(0, ly)
+	// Leave the grid all zero again for the next region (scratch).
+	defer func() {
 		for _, q := range at {
-			i, x, y := int(q.i), int(q.x), int(q.y)
-			if y < ya || y >= yb || x < xa || x >= xb {
-				continue
-			}
-			j := i + ly*w + lx
-			if side[i] == side[j] {
-				s += res[i] * res[j]
-				n++
-			}
+			grid[q.i] = noiseCell{}
 		}
-		return s, n
+	}()
+	cov := func(lx, ly int) (float64, float64) {
+		var sum, cnt float64
+		off := ly*pw + lx
+		for _, q := range at {
+			c := grid[q.i+off]
+			sum += q.r * c.r
+			cnt += c.e
+		}
+		return sum, cnt
 	}
 	s0, n0 := cov(0, 0)
 	if n0 < 200 || s0 <= 0 {

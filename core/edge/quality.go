@@ -65,7 +65,7 @@ func assess(m *Measurement, s samples, f lineFit, sdD, sdL float64) {
 		}
 	}
 	if m.PhasePx == 0 && len(near) > 1 {
-		pts := merge(near, nearV)
+		pts := merge(near, nearV, nil)
 		var g1, g2 float64
 		for i := 1; i < len(pts); i++ {
 			g := pts[i].d - pts[i-1].d

@@ -59,7 +59,7 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 	reach := math.Inf(1) // distance to the nearest end of the sampled profile
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, x := range d {
-		lo, hi = math.Min(lo, x), math.Max(hi, x)
+		lo, hi = min(lo, x), max(hi, x)
 	}
 	reach = math.Min(-lo, hi)
 	if reach < 3 {
@@ -68,9 +68,12 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 	// Plateaus, noise and the coarse profile, after removing the shading
 	// (illumination fall-off) common to both plateaus.
 	core := math.Min(coreWidth(f), reach-1)
-	v := unshade(s.u, d, s.v, core)
-	pts := merge(d, v)
-	dark, light, _, _ := plateaus(d, v, core)
+	v, dark, light := s.flattened(d, core)
+	var bins *[]point
+	if s.sc != nil {
+		bins = &s.sc.bins
+	}
+	pts := merge(d, v, bins)
 	step := light - dark
 	if !(step > 0) {
 		return ErrNoEdge
@@ -133,7 +136,7 @@ func measureRefined(m *Measurement, f lineFit, s samples, freq []float64, sdDark
 	// the two plateaus' variances.
 	nv := make([]float64, len(pts))
 	for i, p := range pts {
-		t := math.Min(math.Max((p.v-dark)/step, 0), 1)
+		t := min(max((p.v-dark)/step, 0), 1)
 		nv[i] = ((1-t)*sdDark*sdDark + t*sdLight*sdLight) / p.n
 	}
 	val, se := stieltjes(mid, wts, dv, nv, freq, shape.factor)
@@ -248,18 +251,26 @@ func stieltjes(mid, wts, dv, nv, freq []float64, shape func(float64) float64) (o
 // merge averages the samples that fall into the same bin of finePx along
 // the normal (no sort needed: the bins are indexed directly) and returns
 // the occupied bins in order of distance, each at its samples' mean
-// distance and mean value.
-func merge(d, v []float64) []point {
+// distance and mean value. The bins are the array *buf (grown as needed)
+// unless buf is nil.
+func merge(d, v []float64, buf *[]point) []point {
 	if len(d) == 0 {
 		return nil
 	}
 	lo, hi := d[0], d[0]
 	for _, x := range d {
-		lo, hi = math.Min(lo, x), math.Max(hi, x)
+		lo, hi = min(lo, x), max(hi, x)
 	}
 	i0 := int(math.Floor(lo / finePx))
 	nb := int(math.Floor(hi/finePx)) - i0 + 1
-	bins := make([]point, nb)
+	var bins []point
+	if buf != nil {
+		bins = take(*buf, nb)[:nb]
+		clear(bins)
+		*buf = bins
+	} else {
+		bins = make([]point, nb)
+	}
 	for i, x := range d {
 		b := &bins[int(math.Floor(x/finePx))-i0]
 		b.d += x
@@ -306,6 +317,23 @@ func unshade(u, d, v []float64, core float64) []float64 {
 		out[i] = v[i] / k
 	}
 	return out
+}
+
+// flattened returns unshade's profile values for the samples' distances d
+// (dists, for the final fit) and core, and the plateau levels of plateaus on them. The
+// estimator and the sharpening check both need them for the one final fit
+// of a measurement; with a scratch they are computed once and shared
+// (read-only).
+func (s *samples) flattened(d []float64, core float64) (v []float64, dark, light float64) {
+	if c := s.sc; c != nil && c.flat.ok && c.flat.core == core {
+		return c.flat.v, c.flat.dark, c.flat.light
+	}
+	v = unshade(s.u, d, s.v, core)
+	dark, light, _, _ = plateaus(d, v, core)
+	if s.sc != nil {
+		s.sc.flat = flatCache{ok: true, core: core, v: v, dark: dark, light: light}
+	}
+	return v, dark, light
 }
 
 // planeStats accumulates a least-squares plane v = c0 + c1 x + c2 y.

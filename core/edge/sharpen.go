@@ -89,15 +89,14 @@ func judgeSharpening(m *Measurement, s samples, f lineFit, sdDark, sdLight float
 	d := s.dists(f)
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, x := range d {
-		lo, hi = math.Min(lo, x), math.Max(hi, x)
+		lo, hi = min(lo, x), max(hi, x)
 	}
 	reach := math.Min(-lo, hi)
 	if reach < 3 {
 		return
 	}
 	core := math.Min(coreWidth(f), reach-1)
-	v := unshade(s.u, d, s.v, core)
-	dark, light, _, _ := plateaus(d, v, core)
+	v, dark, light := s.flattened(d, core)
 	step := light - dark
 	if !(step > 0) {
 		return
