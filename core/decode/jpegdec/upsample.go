@@ -86,9 +86,10 @@ func (m *YCbCr) Row(y, x0, x1 int, r, g, b []uint8, s *Scratch) {
 	m.chromaRow(m.Cr, y, x0, x1, cr)
 	ys := m.Y[y*m.YStride+x0 : y*m.YStride+x1]
 	r, g, b = r[:n], g[:n], b[:n]
+	cb, cr = cb[:len(ys)], cr[:len(ys)]
 	for i, yv := range ys {
 		Y := int32(yv)
-		cbv, crv := cb[i]&255, cr[i]&255
+		cbv, crv := uint8(cb[i]), uint8(cr[i])
 		r[i] = clamp255(Y + crR[crv])
 		g[i] = clamp255(Y + (cbG[cbv]+crG[crv])>>16)
 		b[i] = clamp255(Y + cbB[cbv])
@@ -135,6 +136,22 @@ func (m *YCbCr) chromaRow(p []uint8, y, x0, x1 int, out []int32) {
 		}
 		// 4:2:0: column sums of 3 x near + far, then the horizontal triangle.
 		last := m.cw - 1
+		if x0 == 0 && len(out) >= 2*last+1 {
+			// whole row: each column sum is formed once
+			cur := 3*int32(row[0]) + int32(nrow[0])
+			prev := cur
+			for c := 0; c < last; c++ {
+				next := 3*int32(row[c+1]) + int32(nrow[c+1])
+				out[2*c] = (3*cur + prev + 8) >> 4
+				out[2*c+1] = (3*cur + next + 7) >> 4
+				prev, cur = cur, next
+			}
+			out[2*last] = (3*cur + prev + 8) >> 4
+			if len(out) > 2*last+1 {
+				out[2*last+1] = (4*cur + 7) >> 4
+			}
+			return
+		}
 		for i := range out {
 			x := x0 + i
 			c := x >> 1
@@ -163,6 +180,21 @@ func (m *YCbCr) chromaRow(p []uint8, y, x0, x1 int, out []int32) {
 		return
 	}
 	last := m.cw - 1
+	if x0 == 0 && len(out) >= 2*last+1 {
+		// whole row
+		prev, cur := int32(row[0]), int32(row[0])
+		for c := 0; c < last; c++ {
+			next := int32(row[c+1])
+			out[2*c] = (3*cur + prev + 1) >> 2
+			out[2*c+1] = (3*cur + next + 2) >> 2
+			prev, cur = cur, next
+		}
+		out[2*last] = (3*cur + prev + 1) >> 2
+		if len(out) > 2*last+1 {
+			out[2*last+1] = cur
+		}
+		return
+	}
 	for i := range out {
 		x := x0 + i
 		c := x >> 1
