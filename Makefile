@@ -64,6 +64,7 @@ test-fuzz: deps
 	  GO=$(GO) FUZZTIME=$(FUZZTIME) sh .ci/fuzz.sh ./core/decode "$$t" || exit 1; done
 	GO=$(GO) FUZZTIME=$(FUZZTIME) sh .ci/fuzz.sh ./core/exif FuzzParse
 	GO=$(GO) FUZZTIME=$(FUZZTIME) sh .ci/fuzz.sh ./core/raw FuzzDecode
+	GO=$(GO) FUZZTIME=$(FUZZTIME) sh .ci/fuzz.sh ./core/decode/jpegdec FuzzDecode
 
 # The goroutines live in core/decode (luminance rows, the fitted tone curve),
 # core/internal/coarse (the reduced views' rows), core/analyze (edges

@@ -31,6 +31,9 @@ func (t *huffTable) build(counts [16]int, vals []byte) error {
 		if n == 0 {
 			t.maxcode[l] = -1
 		} else {
+			if int(code)+n > 1<<uint(l) {
+				return FormatError("bad Huffman table")
+			}
 			for i := 0; i < n; i++ {
 				if l <= lookBits {
 					// every lookBits-bit pattern starting with this code
@@ -44,9 +47,6 @@ func (t *huffTable) build(counts [16]int, vals []byte) error {
 				k++
 			}
 			t.maxcode[l] = code - 1
-			if code > 1<<uint(l) {
-				return FormatError("bad Huffman table")
-			}
 		}
 		code <<= 1
 	}

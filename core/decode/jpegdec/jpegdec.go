@@ -121,6 +121,17 @@ func Decode(data []byte, maxPixels int) (img image.Image, err error) {
 			img, err = nil, FormatError(fmt.Sprint("decoder failed: ", r))
 		}
 	}()
+	return decode(data, maxPixels)
+}
+
+// maxScans bounds the scans of a file: each costs a pass over every block
+// even when its data are a few bytes, so a damaged or hostile file of many
+// empty scans would take very long. Encoders write at most about a dozen.
+const maxScans = 256
+
+// decode is Decode without the recovery from panics (the fuzz test calls
+// it, so that a panic is seen).
+func decode(data []byte, maxPixels int) (image.Image, error) {
 	d := &decoder{data: data, maxPixels: maxPixels}
 	if err := d.run(); err != nil {
 		return nil, err
@@ -331,6 +342,9 @@ func (d *decoder) allocate() {
 func (d *decoder) sos(seg []byte) error {
 	if !d.frame {
 		return FormatError("scan before frame")
+	}
+	if d.scans >= maxScans {
+		return unsupported("more than 256 scans")
 	}
 	if d.doneStream {
 		return unsupported("scans after a complete baseline scan")
