@@ -44,8 +44,8 @@ func TestPixelsFromOutsideDecoder(t *testing.T) {
 	}
 	icc := "/usr/share/color/icc/ghostscript/a98.icc"
 	variants := []struct {
-		name           string
-		args           []string
+		name string
+		args []string
 	}{
 		{"baseline 4:2:0", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "2x2"}},
 		{"progressive", []string{"-quality", "95", "-type", "TrueColor", "-channel", "B", "-evaluate", "multiply", "0.8", "+channel", "-sampling-factor", "2x2", "-interlace", "JPEG"}},
