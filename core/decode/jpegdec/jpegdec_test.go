@@ -15,6 +15,7 @@ import (
 	"testing"
 
 	"sagitta/core/internal/imagemagick"
+	"sagitta/core/sim/demo"
 )
 
 // Reference: libjpeg-turbo 2.1 via ImageMagick 6.9, Debian 12 (convert
@@ -261,5 +262,58 @@ func TestAtMatchesRow(t *testing.T) {
 		if got, want := m.At(x, 4), (color.RGBA{r[x], g[x], bb[x], 255}); got != want {
 			t.Fatalf("At(%d, 4) = %v, want %v", x, got, want)
 		}
+	}
+}
+
+// TestDemoPhotoExact decodes the demo photo (the simulator's chart photo
+// through its invented lens and camera, 1500 x 1000, with noise, colour
+// fringes and fall-off) as its own JPEG and re-encoded by ImageMagick at
+// q95 with each chroma sampling, and compares with libjpeg-turbo.
+func TestDemoPhotoExact(t *testing.T) {
+	convert := imagemagick.Convert()
+	if convert == "" {
+		t.Skip("ImageMagick's convert is not installed (Debian package imagemagick)")
+	}
+	if testing.Short() {
+		t.Skip("the demo photo takes a few seconds to simulate; run without -short")
+	}
+	data, err := demo.PortraitSmall(4).Photo()
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	src := filepath.Join(dir, "demo.jpg")
+	if err := os.WriteFile(src, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	t.Run("as simulated", func(t *testing.T) { compare(t, convert, src) })
+	for _, s := range []string{"1x1", "2x1", "2x2", "1x2"} {
+		for _, prog := range []bool{false, true} {
+			name := s
+			args := []string{src, "-quality", "95", "-sampling-factor", s}
+			if prog {
+				name += "-progressive"
+				args = append(args, "-interlace", "JPEG")
+			}
+			t.Run(name, func(t *testing.T) {
+				file := filepath.Join(dir, name+".jpg")
+				run(t, convert, append(args, file)...)
+				compare(t, convert, file)
+			})
+		}
+	}
+}
+
+// TestFilesExact compares the JPEG files named in $SAGITTA_JPEG_FILES
+// (separated by the path list separator) with libjpeg-turbo, for checking
+// real photos by hand; it skips when the variable is empty.
+func TestFilesExact(t *testing.T) {
+	list := os.Getenv("SAGITTA_JPEG_FILES")
+	convert := imagemagick.Convert()
+	if list == "" || convert == "" {
+		t.Skip("set SAGITTA_JPEG_FILES (and install ImageMagick) to compare files by hand")
+	}
+	for _, f := range filepath.SplitList(list) {
+		t.Run(filepath.Base(f), func(t *testing.T) { compare(t, convert, f) })
 	}
 }
