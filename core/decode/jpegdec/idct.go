@@ -20,19 +20,21 @@ const (
 	pass1Bits = 2
 )
 
-// fix returns x * 2^13 rounded to an integer.
+// The factors times 2^13, rounded (c_k = cos(k pi / 16); those marked
+// "negated" enter the sums with a minus sign; TestIDCTConstants derives
+// them).
 const (
 	fix0298631336 = 2446  // sqrt(2) (-c1 + c3 + c5 - c7)
-	fix0390180644 = 3196  // sqrt(2) (c5 - c3)
+	fix0390180644 = 3196  // sqrt(2) (c3 - c5), negated
 	fix0541196100 = 4433  // sqrt(2) c6
 	fix0765366865 = 6270  // sqrt(2) (c2 - c6)
-	fix0899976223 = 7373  // sqrt(2) (c7 - c3)
+	fix0899976223 = 7373  // sqrt(2) (c3 - c7), negated
 	fix1175875602 = 9633  // sqrt(2) c3
 	fix1501321110 = 12299 // sqrt(2) (c1 + c3 - c5 - c7)
-	fix1847759065 = 15137 // sqrt(2) (-c2 - c6)
-	fix1961570560 = 16069 // sqrt(2) (-c3 - c5)
+	fix1847759065 = 15137 // sqrt(2) (c2 + c6), negated
+	fix1961570560 = 16069 // sqrt(2) (c3 + c5), negated
 	fix2053119869 = 16819 // sqrt(2) (c1 + c3 - c5 + c7)
-	fix2562915447 = 20995 // sqrt(2) (-c1 - c3)
+	fix2562915447 = 20995 // sqrt(2) (c1 + c3), negated
 	fix3072711026 = 25172 // sqrt(2) (c1 + c3 + c5 - c7)
 )
 
