@@ -6,6 +6,7 @@ import (
 	"image"
 	"strings"
 
+	"sagitta/core/decode/jpegdec"
 	"sagitta/core/exif"
 	"sagitta/core/note"
 )
@@ -25,9 +26,12 @@ import (
 var ErrForeignDeclined = errors.New("decode: this file is decoded by the core")
 
 // ForeignDecodable reports whether a browser may decode the file for
-// FromPixels: a JPEG of 8-bit samples with one (grey) or three (YCbCr)
-// components, or a PNG of 8-bit grey, grey+alpha, RGB or RGBA samples, and
-// no Exif orientation other than 1 (a browser may apply it). Everything
+// FromPixels: a JPEG of 8-bit samples with one (grey) or three (YCbCr or
+// RGB) components that core/decode/jpegdec decodes (its pixels are then
+// libjpeg-turbo's, the browser's decoder's: chroma at full, half or
+// quarter resolution as 4:4:4, 4:2:2, 4:4:0, 4:2:0), or a PNG of 8-bit
+// grey, grey+alpha, RGB or RGBA samples, and no Exif orientation other
+// than 1 (a browser may apply it). Everything
 // else (16-bit PNG, palette PNG, CMYK JPEG, TIFF, DNG, a damaged header) is
 // left to Decode.
 func ForeignDecodable(data []byte) bool {
@@ -39,8 +43,8 @@ func ForeignDecodable(data []byte) bool {
 	switch format {
 	case FormatJPEG:
 		bits, comps, ok := jpegFrame(data)
-		if !ok || bits != 8 || (comps != 1 && comps != 3) {
-			return false
+		if !ok || bits != 8 || (comps != 1 && comps != 3) || !jpegdec.Supported(data) {
+			return false // the core's decoder gives the browser's pixels only for these
 		}
 		t, err = exif.ReadJPEG(data)
 	case FormatPNG:

@@ -109,6 +109,9 @@ type decoder struct {
 	streaming   bool // single interleaved baseline scan, no coefficient buffer
 	doneStream  bool
 	maxPixels   int
+	headerOnly  bool // Supported: stop at the first scan
+	rgb         bool // three components stored as RGB, not YCbCr
+	ratio       image.YCbCrSubsampleRatio
 }
 
 // Decode decodes data. maxPixels (> 0) bounds width x height, checked
@@ -392,6 +395,12 @@ func (d *decoder) sos(seg []byte) error {
 		return FormatError("bad sequential scan")
 	}
 	if d.scans == 0 {
+		if err := d.layout(); err != nil {
+			return err
+		}
+		if d.headerOnly {
+			return errHeaderRead
+		}
 		d.streaming = !d.progressive && ns == len(d.comps)
 		d.allocate()
 	}
@@ -624,38 +633,77 @@ func (d *decoder) restartMarker(comps []*component) error {
 	return nil
 }
 
+// layout decides, from the markers read before the first scan, how the
+// components become pixels (libjpeg-turbo's rules for the colour space:
+// a JFIF marker means YCbCr; else an Adobe marker's transform 0 means RGB;
+// else component identifiers 'R', 'G', 'B' mean RGB; else YCbCr) and
+// refuses what this package does not decode.
+func (d *decoder) layout() error {
+	if len(d.comps) == 1 {
+		return nil
+	}
+	if !d.jfif && (d.adobe && d.transform == 0 || !d.adobe && d.comps[0].id == 'R' && d.comps[1].id == 'G' && d.comps[2].id == 'B') {
+		d.rgb = true
+	}
+	y, cb, cr := &d.comps[0], &d.comps[1], &d.comps[2]
+	if cb.h != cr.h || cb.v != cr.v || y.h != d.maxH || y.v != d.maxV {
+		return unsupported("chroma sampling")
+	}
+	switch {
+	case y.h == cb.h && y.v == cb.v:
+		d.ratio = image.YCbCrSubsampleRatio444
+	case d.rgb:
+		return unsupported("subsampled RGB")
+	case y.h == 2*cb.h && y.v == cb.v:
+		d.ratio = image.YCbCrSubsampleRatio422
+	case y.h == 2*cb.h && y.v == 2*cb.v:
+		d.ratio = image.YCbCrSubsampleRatio420
+	case y.h == cb.h && y.v == 2*cb.v:
+		d.ratio = image.YCbCrSubsampleRatio440
+	default:
+		return unsupported("chroma sampling")
+	}
+	return nil
+}
+
+// errHeaderRead stops Supported's reading at the first scan.
+var errHeaderRead = errors.New("jpegdec: header read")
+
+// Supported reports whether Decode would decode data as far as its
+// markers up to the first scan tell (the scans themselves are not read):
+// the files whose pixels are libjpeg-turbo's. A browser may decode those
+// for the core.
+func Supported(data []byte) (ok bool) {
+	defer func() {
+		if recover() != nil {
+			ok = false
+		}
+	}()
+	d := &decoder{data: data, headerOnly: true}
+	return d.run() == errHeaderRead
+}
+
 func (d *decoder) image() (image.Image, error) {
 	if len(d.comps) == 1 {
 		c := &d.comps[0]
 		return &image.Gray{Pix: c.pix, Stride: c.stride, Rect: image.Rect(0, 0, d.w, d.h)}, nil
 	}
-	if d.adobe && d.transform == 0 {
-		return nil, unsupported("RGB colour")
-	}
-	if !d.jfif && !d.adobe && d.comps[0].id == 'R' && d.comps[1].id == 'G' && d.comps[2].id == 'B' {
-		return nil, unsupported("RGB colour")
-	}
 	y, cb, cr := &d.comps[0], &d.comps[1], &d.comps[2]
-	if cb.h != cr.h || cb.v != cr.v || y.h != d.maxH || y.v != d.maxV {
-		return nil, unsupported("chroma sampling")
-	}
-	var ratio image.YCbCrSubsampleRatio
-	switch {
-	case y.h == cb.h && y.v == cb.v:
-		ratio = image.YCbCrSubsampleRatio444
-	case y.h == 2*cb.h && y.v == cb.v:
-		ratio = image.YCbCrSubsampleRatio422
-	case y.h == 2*cb.h && y.v == 2*cb.v:
-		ratio = image.YCbCrSubsampleRatio420
-	case y.h == cb.h && y.v == 2*cb.v:
-		ratio = image.YCbCrSubsampleRatio440
-	default:
-		return nil, unsupported("chroma sampling")
+	if d.rgb { // stored as RGB: copied as it is
+		m := image.NewRGBA(image.Rect(0, 0, d.w, d.h))
+		for j := 0; j < d.h; j++ {
+			o := j * m.Stride
+			for i := 0; i < d.w; i++ {
+				k := j*y.stride + i
+				m.Pix[o+4*i], m.Pix[o+4*i+1], m.Pix[o+4*i+2], m.Pix[o+4*i+3] = y.pix[k], cb.pix[k], cr.pix[k], 255
+			}
+		}
+		return m, nil
 	}
 	m := &YCbCr{YCbCr: image.YCbCr{
 		Y: y.pix, Cb: cb.pix, Cr: cr.pix,
 		YStride: y.stride, CStride: cb.stride,
-		SubsampleRatio: ratio,
+		SubsampleRatio: d.ratio,
 		Rect:           image.Rect(0, 0, d.w, d.h),
 	}}
 	m.init()

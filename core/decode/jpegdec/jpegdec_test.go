@@ -2,6 +2,7 @@ package jpegdec
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"image"
 	"image/color"
@@ -12,6 +13,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"sagitta/core/internal/imagemagick"
@@ -95,6 +97,11 @@ func ours(t *testing.T, data []byte) (out []byte, grey bool) {
 			out = append(out, m.Pix[y*m.Stride:y*m.Stride+w]...)
 		}
 		return out, true
+	case *image.RGBA:
+		for i := 0; i < len(m.Pix); i += 4 {
+			out = append(out, m.Pix[i:i+3]...)
+		}
+		return out, false
 	case *YCbCr:
 		w, h := m.Rect.Dx(), m.Rect.Dy()
 		r, g, b := make([]uint8, w), make([]uint8, w), make([]uint8, w)
@@ -207,8 +214,8 @@ func TestExactAgainstLibjpeg(t *testing.T) {
 	}
 }
 
-// TestRestartIntervals decodes files with restart markers written by
-// libjpeg-turbo's cjpeg (Debian package libjpeg-turbo-progs).
+// TestRestartIntervals decodes files with restart markers, and RGB files,
+// written by libjpeg-turbo's cjpeg (Debian package libjpeg-turbo-progs).
 func TestRestartIntervals(t *testing.T) {
 	convert := imagemagick.Convert()
 	cjpeg, err := exec.LookPath("cjpeg")
@@ -232,13 +239,18 @@ func TestRestartIntervals(t *testing.T) {
 		{"420-r2-progressive", []string{"-sample", "2x2", "-restart", "2B", "-progressive"}},
 		{"grey-r5", []string{"-grayscale", "-restart", "5B"}},
 		{"422-r1row", []string{"-sample", "2x1", "-restart", "1"}},
+		{"rgb", []string{"-rgb"}},
+		{"rgb-progressive-r4", []string{"-rgb", "-progressive", "-restart", "4B"}},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			file := filepath.Join(dir, c.name+".jpg")
 			run(t, cjpeg, append(append([]string{"-quality", "92"}, c.args...), "-outfile", file, ppm)...)
 			data, _ := os.ReadFile(file)
-			if !bytes.Contains(data, []byte{0xff, 0xdd}) {
+			if strings.Contains(c.name, "-r") && !bytes.Contains(data, []byte{0xff, 0xdd}) {
 				t.Fatal("cjpeg wrote no restart interval")
+			}
+			if !Supported(data) {
+				t.Fatal("Supported refuses it")
 			}
 			compare(t, convert, file)
 		})
@@ -315,5 +327,33 @@ func TestFilesExact(t *testing.T) {
 	}
 	for _, f := range filepath.SplitList(list) {
 		t.Run(filepath.Base(f), func(t *testing.T) { compare(t, convert, f) })
+	}
+}
+
+// TestSupported: what Supported accepts from the header is what Decode
+// decodes; a CMYK file (Adobe, four components) and a 12-bit frame are
+// refused.
+func TestSupported(t *testing.T) {
+	var b bytes.Buffer
+	if err := jpeg.Encode(&b, noisy(21, 13, 4), nil); err != nil {
+		t.Fatal(err)
+	}
+	if !Supported(b.Bytes()) {
+		t.Error("a 4:2:0 file refused")
+	}
+	if _, err := Decode(b.Bytes(), 0); err != nil {
+		t.Error(err)
+	}
+	data := bytes.Clone(b.Bytes())
+	sof := bytes.Index(data, []byte{0xff, 0xc0})
+	data[sof+4] = 12 // sample precision
+	if Supported(data) {
+		t.Error("a 12-bit frame accepted")
+	}
+	if _, err := Decode(data, 0); !errors.Is(err, ErrUnsupported) {
+		t.Errorf("12-bit: %v, want ErrUnsupported", err)
+	}
+	if Supported(b.Bytes()[:sof]) {
+		t.Error("a file cut before its frame accepted")
 	}
 }
