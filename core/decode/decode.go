@@ -211,7 +211,11 @@ func Decode(data []byte, opt Options) (*Image, error) {
 			// The core's decoder gives libjpeg-turbo's pixels (so a
 			// browser's decoding agrees); what it refuses (CMYK, RGB,
 			// arithmetic coding, 12-bit, damaged data) goes to Go's.
-			if img, e = jpegdec.Decode(data, 0); e != nil {
+			limit := opt.MaxPixels
+			if limit <= 0 {
+				limit = DefaultMaxPixels
+			}
+			if img, e = jpegdec.Decode(data, limit); e != nil {
 				img, e = jpeg.Decode(r)
 			}
 		case FormatTIFF:
