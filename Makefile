@@ -32,12 +32,14 @@ vet: deps
 # Debian tools the tests use as independent references (poppler's pdfinfo
 # and pdftoppm read our PDFs; libraw's unprocessed_raw and raw-identify read
 # our DNGs; ImageMagick blurs and reduces an edge for core/edge's outside
-# reference). Installed when missing; tests that need them skip only when
+# reference and decodes JPEG for core/decode/jpegdec, whose files with
+# restart markers come from libjpeg-turbo-progs' cjpeg). Installed when missing; tests that need them skip only when
 # they cannot be had.
 tools:
 	@command -v pdftoppm >/dev/null 2>&1 || { (apt-get install -y poppler-utils >/dev/null 2>&1 || (apt-get update >/dev/null && apt-get install -y poppler-utils >/dev/null)) || echo "warning: poppler-utils could not be installed"; }
 	@command -v unprocessed_raw >/dev/null 2>&1 || { (apt-get install -y libraw-bin >/dev/null 2>&1 || (apt-get update >/dev/null && apt-get install -y libraw-bin >/dev/null)) || echo "warning: libraw-bin could not be installed"; }
 	@command -v convert-im6.q16 >/dev/null 2>&1 || command -v magick >/dev/null 2>&1 || { (apt-get install -y imagemagick >/dev/null 2>&1 || (apt-get update >/dev/null && apt-get install -y imagemagick >/dev/null)) || echo "warning: imagemagick could not be installed"; }
+	@command -v cjpeg >/dev/null 2>&1 || { (apt-get install -y libjpeg-turbo-progs >/dev/null 2>&1 || (apt-get update >/dev/null && apt-get install -y libjpeg-turbo-progs >/dev/null)) || echo "warning: libjpeg-turbo-progs could not be installed"; }
 
 test-go: deps tools
 	$(GO) test -count=1 ./...
@@ -62,6 +64,7 @@ test-fuzz: deps
 	  GO=$(GO) FUZZTIME=$(FUZZTIME) sh .ci/fuzz.sh ./core/decode "$$t" || exit 1; done
 	GO=$(GO) FUZZTIME=$(FUZZTIME) sh .ci/fuzz.sh ./core/exif FuzzParse
 	GO=$(GO) FUZZTIME=$(FUZZTIME) sh .ci/fuzz.sh ./core/raw FuzzDecode
+	GO=$(GO) FUZZTIME=$(FUZZTIME) sh .ci/fuzz.sh ./core/decode/jpegdec FuzzDecode
 
 # The goroutines live in core/decode (luminance rows, the fitted tone curve),
 # core/internal/coarse (the reduced views' rows), core/analyze (edges

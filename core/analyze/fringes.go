@@ -101,7 +101,7 @@ type CACurve struct {
 //
 // The positions are found in linear light, except in a JPEG whose colour
 // is subsampled: there they are found in the stored code values, where the
-// encoder's averaging and the decoder's repetition of colour keep each
+// encoder's averaging and the decoder's interpolation of colour keep each
 // colour's area rule (decode.Image.StoredRGB), which linear light keeps
 // less well (a gamma-encoded difference is smoothed). A nonlinear code
 // shifts all three colours of a neutral edge alike, so their differences

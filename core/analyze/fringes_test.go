@@ -160,14 +160,14 @@ func TestChromaSubsampledJPEG(t *testing.T) {
 // magnifications as the demo lens (red +0.03 %, blue -0.04 %; truth: the
 // difference times the height in px), 1500 x 1000 px, as JPEG files whose
 // colour is stored 4:2:0: at quality 100 README quotes the curves within
-// 0.0094 px of the truth, at quality 92 (the demo's) within 0.093 px, the
+// 0.014 px of the truth, at quality 92 (the demo's) within 0.12 px, the
 // colour's quantisation moving the offsets; the limits are twice those.
 func TestLateralCAChartJPEG(t *testing.T) {
 	nativeOnlyWhenShort(t)
 	qs := []struct {
 		q     int
 		limit float64
-	}{{100, 0.019}, {92, 0.19}}
+	}{{100, 0.028}, {92, 0.24}}
 	if testing.Short() {
 		qs = qs[:1]
 	}

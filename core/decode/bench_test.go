@@ -1,7 +1,10 @@
 package decode
 
 import (
+	"bytes"
 	"fmt"
+	"image/jpeg"
+	"os"
 	"testing"
 )
 
@@ -55,4 +58,35 @@ func BenchmarkLuminance(b *testing.B) {
 			}
 		})
 	}
+}
+
+// BenchmarkJPEGDecoders decodes a 24 MP 4:2:0 JPEG into luminance with the
+// core's decoder (Decode: core/decode/jpegdec, libjpeg-turbo's pixels) and,
+// for comparison, with Go's image/jpeg followed by the same conversion. It
+// uses the bench photo of `make bench` (/tmp/sagitta-bench/chart-24MP-3000e.jpg)
+// when present, else a synthetic photo-like file. Measure CPU time with
+// -benchtime 1x -count 3 and /usr/bin/time (the machine may be shared).
+func BenchmarkJPEGDecoders(b *testing.B) {
+	data, err := os.ReadFile("/tmp/sagitta-bench/chart-24MP-3000e.jpg")
+	if err != nil {
+		data = encodeJPEG(b, smoothRGBA(6000, 4000), 95)
+	}
+	b.Run("core", func(b *testing.B) {
+		b.ReportAllocs()
+		for b.Loop() {
+			if _, err := Decode(data, Options{}); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+	b.Run("go", func(b *testing.B) {
+		b.ReportAllocs()
+		for b.Loop() {
+			img, err := jpeg.Decode(bytes.NewReader(data))
+			if err != nil {
+				b.Fatal(err)
+			}
+			newConverter(SRGB).luminance(img)
+		}
+	})
 }

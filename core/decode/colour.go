@@ -4,6 +4,7 @@ import (
 	"image"
 	"image/color"
 
+	"sagitta/core/decode/jpegdec"
 	"sagitta/core/plane"
 )
 
@@ -69,6 +70,15 @@ func (im *Image) rgb(r image.Rectangle, t Tone) (R, G, B *plane.Plane, ok bool) 
 		R.Pix[i], G.Pix[i], B.Pix[i] = t8[r], t8[g], t8[bb]
 	}
 	switch m := im.src.(type) {
+	case *jpegdec.YCbCr:
+		var s jpegdec.Scratch
+		rr, gg, bb := make([]uint8, w), make([]uint8, w), make([]uint8, w)
+		for y := 0; y < h; y++ {
+			m.Row(r.Min.Y+y, r.Min.X, r.Max.X, rr, gg, bb, &s)
+			for x := range rr {
+				set8(y*w+x, rr[x], gg[x], bb[x])
+			}
+		}
 	case *image.YCbCr:
 		for y := 0; y < h; y++ {
 			for x := 0; x < w; x++ {
@@ -125,7 +135,10 @@ func keepColour(out *Image, img image.Image) {
 		return
 	}
 	out.src = img
-	if m, ok := img.(*image.YCbCr); ok {
+	switch m := img.(type) {
+	case *image.YCbCr:
+		out.ChromaSubsampling = subsampleName(m.SubsampleRatio)
+	case *jpegdec.YCbCr:
 		out.ChromaSubsampling = subsampleName(m.SubsampleRatio)
 	}
 }

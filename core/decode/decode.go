@@ -1,7 +1,9 @@
 // Package decode turns image file bytes into a linear-light luminance plane:
 // it detects the format (PNG, JPEG, TIFF) from its magic bytes, refuses
-// oversized images from the header before allocating pixels, decodes with
-// the standard decoders, undoes the tone curve and forms luminance.
+// oversized images from the header before allocating pixels, decodes (JPEG
+// with the core's own decoder, core/decode/jpegdec, which gives the pixels
+// of libjpeg-turbo's defaults; the rest with the standard decoders), undoes
+// the tone curve and forms luminance.
 //
 // Tone curves: sRGB decoding per IEC 61966-2-1:1999 (section 5.2), a pure
 // power law L = V^G, or linear data L = V, with V the code value divided by
@@ -35,6 +37,7 @@ import (
 
 	"golang.org/x/image/tiff"
 
+	"sagitta/core/decode/jpegdec"
 	"sagitta/core/exif"
 	"sagitta/core/note"
 	"sagitta/core/plane"
@@ -205,7 +208,16 @@ func Decode(data []byte, opt Options) (*Image, error) {
 		case FormatPNG:
 			img, e = png.Decode(r)
 		case FormatJPEG:
-			img, e = jpeg.Decode(r)
+			// The core's decoder gives libjpeg-turbo's pixels (so a
+			// browser's decoding agrees); what it refuses (CMYK, RGB,
+			// arithmetic coding, 12-bit, damaged data) goes to Go's.
+			limit := opt.MaxPixels
+			if limit <= 0 {
+				limit = DefaultMaxPixels
+			}
+			if img, e = jpegdec.Decode(data, limit); e != nil {
+				img, e = jpeg.Decode(r)
+			}
 		case FormatTIFF:
 			img, e = tiff.Decode(r)
 		}

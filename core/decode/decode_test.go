@@ -6,6 +6,9 @@ import (
 	"image/color"
 	"image/jpeg"
 	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
 	"slices"
 	"strings"
 	"testing"
@@ -13,6 +16,7 @@ import (
 	"golang.org/x/image/tiff"
 
 	"sagitta/core/exif"
+	"sagitta/core/internal/imagemagick"
 )
 
 // TestRec709Weights: pure 8-bit red, green and blue give the BT.709
@@ -59,7 +63,8 @@ func TestRec709Weights(t *testing.T) {
 // TestFormats decodes every supported format, bit depth and colour model
 // and compares each pixel with the reference luminance (refLum: the sRGB
 // formula of IEC 61966-2-1 and the BT.709 weights applied to the source
-// image, or for lossy JPEG to image/jpeg's own output).
+// image, or for lossy JPEG to libjpeg-turbo's decoding of it: the core
+// decodes JPEG as libjpeg-turbo does, see core/decode/jpegdec).
 func TestFormats(t *testing.T) {
 	const w, h = 37, 23 // odd sizes: partial chroma blocks and strides
 	cmykStored := [4][]uint8{{0, 40, 200}, {255, 90, 17}, {128, 128, 3}, {64, 250, 128}}
@@ -143,9 +148,7 @@ func TestFormats(t *testing.T) {
 				}
 				src := tc.src
 				if src == nil {
-					if src, err = jpeg.Decode(bytes.NewReader(tc.data)); err != nil {
-						t.Fatal(err)
-					}
+					src = libjpegPixels(t, tc.data)
 				}
 				b := src.Bounds()
 				if im.Format != tc.format || im.Width != b.Dx() || im.Height != b.Dy() ||
@@ -313,4 +316,34 @@ func TestExif(t *testing.T) {
 	if err != nil || !slices.ContainsFunc(im.Warnings, func(s string) bool { return strings.Contains(s, "Exif data unreadable") }) {
 		t.Errorf("broken eXIf: %v %q", err, im.Warnings)
 	}
+}
+
+// libjpegPixels decodes a JPEG with libjpeg-turbo's defaults, pinned
+// (reference: libjpeg-turbo 2.1 via ImageMagick 6.9, Debian 12; the test
+// skips when ImageMagick is missing).
+func libjpegPixels(t *testing.T, data []byte) *image.NRGBA {
+	t.Helper()
+	convert := imagemagick.Convert()
+	if convert == "" {
+		t.Skip("ImageMagick is not installed (apt-get install imagemagick; make tools installs it): the JPEG reference is skipped")
+	}
+	cfg, err := jpeg.DecodeConfig(bytes.NewReader(data))
+	if err != nil {
+		t.Fatal(err)
+	}
+	file := filepath.Join(t.TempDir(), "in.jpg")
+	if err := os.WriteFile(file, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, err := exec.Command(convert, "-define", "jpeg:dct-method=islow", "-define", "jpeg:fancy-upsampling=on",
+		file, "-depth", "8", "rgb:-").Output()
+	if err != nil || len(out) != 3*cfg.Width*cfg.Height {
+		t.Fatalf("ImageMagick: %v (%d bytes)", err, len(out))
+	}
+	m := image.NewNRGBA(image.Rect(0, 0, cfg.Width, cfg.Height))
+	for i := 0; i < cfg.Width*cfg.Height; i++ {
+		copy(m.Pix[4*i:4*i+3], out[3*i:3*i+3])
+		m.Pix[4*i+3] = 255
+	}
+	return m
 }

@@ -6,6 +6,7 @@ import (
 	"runtime"
 	"sync/atomic"
 
+	"sagitta/core/decode/jpegdec"
 	"sagitta/core/internal/parallel"
 	"sagitta/core/plane"
 )
@@ -146,6 +147,20 @@ func (c *converter) luminance(img image.Image) *plane.Plane {
 			}
 			if !opaque {
 				notOpaque.Store(true)
+			}
+		})
+	case *jpegdec.YCbCr:
+		c.colour = true
+		t := c.tone.lut8()
+		parallelRows(w, h, func(y0, y1 int) {
+			var s jpegdec.Scratch
+			r, g, bb := make([]uint8, w), make([]uint8, w), make([]uint8, w)
+			for y := y0; y < y1; y++ {
+				m.Row(y, 0, w, r, g, bb, &s)
+				dst := p.Pix[y*w : (y+1)*w]
+				for x := range dst {
+					dst[x] = y709(t[r[x]], t[g[x]], t[bb[x]])
+				}
 			}
 		})
 	case *image.YCbCr:

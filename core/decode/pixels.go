@@ -6,6 +6,7 @@ import (
 	"image"
 	"strings"
 
+	"sagitta/core/decode/jpegdec"
 	"sagitta/core/exif"
 	"sagitta/core/note"
 )
@@ -25,9 +26,12 @@ import (
 var ErrForeignDeclined = errors.New("decode: this file is decoded by the core")
 
 // ForeignDecodable reports whether a browser may decode the file for
-// FromPixels: a JPEG of 8-bit samples with one (grey) or three (YCbCr)
-// components, or a PNG of 8-bit grey, grey+alpha, RGB or RGBA samples, and
-// no Exif orientation other than 1 (a browser may apply it). Everything
+// FromPixels: a JPEG of 8-bit samples with one (grey) or three (YCbCr or
+// RGB) components that core/decode/jpegdec decodes (its pixels are then
+// libjpeg-turbo's, the browser's decoder's: chroma at full, half or
+// quarter resolution as 4:4:4, 4:2:2, 4:4:0, 4:2:0), or a PNG of 8-bit
+// grey, grey+alpha, RGB or RGBA samples, and no Exif orientation other
+// than 1 (a browser may apply it). Everything
 // else (16-bit PNG, palette PNG, CMYK JPEG, TIFF, DNG, a damaged header) is
 // left to Decode.
 func ForeignDecodable(data []byte) bool {
@@ -39,8 +43,8 @@ func ForeignDecodable(data []byte) bool {
 	switch format {
 	case FormatJPEG:
 		bits, comps, ok := jpegFrame(data)
-		if !ok || bits != 8 || (comps != 1 && comps != 3) {
-			return false
+		if !ok || bits != 8 || (comps != 1 && comps != 3) || !jpegdec.Supported(data) {
+			return false // the core's decoder gives the browser's pixels only for these
 		}
 		t, err = exif.ReadJPEG(data)
 	case FormatPNG:
@@ -65,8 +69,9 @@ func ForeignDecodable(data []byte) bool {
 // does and returns the same kinds of errors; a file ForeignDecodable
 // refuses gives an error wrapping ErrForeignDeclined. pix is never copied;
 // a colour photo's is kept (as Decode keeps its decoded image) for
-// LinearRGB. Its colour is already upsampled by the other decoder, so
-// ChromaSubsampling stays empty and colour offsets are found in linear light.
+// LinearRGB. A JPEG's ChromaSubsampling is read from its header, as the
+// other decoder's pixels are those Decode gives (core/decode/jpegdec gives
+// libjpeg-turbo's, the browser's decoder).
 func FromPixels(data []byte, pix image.Image, opt Options) (*Image, error) {
 	format, w, h, err := checkHeader(data, opt)
 	if err != nil {
@@ -100,6 +105,9 @@ func FromPixels(data []byte, pix image.Image, opt Options) (*Image, error) {
 	case FormatJPEG:
 		_, comps, _ := jpegFrame(data)
 		out.Colour = comps != 1
+		if out.Colour {
+			out.ChromaSubsampling = jpegSubsampling(data)
+		}
 	}
 	if conv.alpha {
 		out.warn(note.AlphaIgnored, alphaText)
@@ -141,6 +149,43 @@ func jpegFrame(data []byte) (bits, comps int, ok bool) {
 		p += 2 + n
 	}
 	return 0, 0, false
+}
+
+// jpegSubsampling names the chroma subsampling of a three-component JPEG
+// from the sampling factors of its frame header (ITU-T T.81, B.2.2), as
+// keepColour names that of a decoded image; "" for full-resolution chroma
+// or anything unusual.
+func jpegSubsampling(data []byte) string {
+	p := 2
+	for p+4 <= len(data) {
+		if data[p] != 0xff {
+			return ""
+		}
+		m := data[p+1]
+		if m == 0xff {
+			p++
+			continue
+		}
+		n := int(data[p+2])<<8 | int(data[p+3])
+		if n < 2 || p+2+n > len(data) {
+			return ""
+		}
+		if m == 0xc0 || m == 0xc1 || m == 0xc2 {
+			if n < 17 || data[p+9] != 3 {
+				return ""
+			}
+			y, cb, cr := data[p+11], data[p+14], data[p+17]
+			if cb != cr || cb != 0x11 {
+				return ""
+			}
+			return map[byte]string{0x21: "4:2:2", 0x22: "4:2:0", 0x12: "4:4:0", 0x41: "4:1:1", 0x42: "4:1:0"}[y]
+		}
+		if m == 0xda || m == 0xd9 {
+			return ""
+		}
+		p += 2 + n
+	}
+	return ""
 }
 
 // LumDiff compares the luminance of a file decoded by Decode with that of
