@@ -57,7 +57,9 @@ func BenchmarkWholePhoto(b *testing.B) {
 		geo := field.NewGeometry(dec.Width, dec.Height, 6)
 		b.ReportAllocs()
 		for i := 0; i < b.N; i++ {
-			findPatterns(context.Background(), dec.Lum, geo, 0)
+			for _, j := range findPatterns(dec.Lum, geo, nil) {
+				measurePattern(dec.Lum, j, [2]float64{geo.CentreX, geo.CentreY}, 0)
+			}
 		}
 	})
 	b.Run("measure", func(b *testing.B) {
