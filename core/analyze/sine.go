@@ -10,6 +10,7 @@ import (
 	"sagitta/core/curve"
 	"sagitta/core/edgefind"
 	"sagitta/core/field"
+	"sagitta/core/internal/coarse"
 	"sagitta/core/note"
 	"sagitta/core/plane"
 	"sagitta/core/sine"
@@ -105,12 +106,12 @@ type StarPart struct {
 	Records []Measurement `json:"records"`
 }
 
-// findPatterns finds the sine patterns of the linear plane p (the search of
+// findPatterns finds the sine patterns of the linear plane of vs (the search of
 // core/sine, and the gratings of the recognised chart when pose is not
 // nil), to be measured later (measurePattern).
-func findPatterns(p *plane.Plane, geo field.Geometry, pose *chart.Pose) []PatternJob {
+func findPatterns(vs *coarse.Views, geo field.Geometry, pose *chart.Pose) []PatternJob {
 	var jobs []PatternJob
-	for _, c := range sine.Find(p, sine.FindOptions{}) {
+	for _, c := range sine.Find(vs.Plane(), sine.FindOptions{Views: vs}) {
 		if c.Kind == sine.KindStar {
 			align := math.Atan2(c.Y-geo.CentreY, c.X-geo.CentreX) * 180 / math.Pi
 			jobs = append(jobs, PatternJob{Kind: jobStar, X: c.X, Y: c.Y, RadiusPx: c.RadiusPx, AlignDeg: align})

@@ -14,6 +14,7 @@ import (
 	"sagitta/core/edge"
 	"sagitta/core/edgefind"
 	"sagitta/core/field"
+	"sagitta/core/internal/coarse"
 	"sagitta/core/internal/parallel"
 	"sagitta/core/note"
 	"sagitta/core/plane"
@@ -187,7 +188,10 @@ func Find(ctx context.Context, ph Photo, s Settings, progress Progress) (f *Foun
 	// Sagitta's chart, if it is there (chart.go), first: its grey steps
 	// give the photo's tone curve, needed before anything is measured
 	// (tone.go).
-	pose, chartNote := chart.Recognise(dec.Lum)
+	// One set of reduced views of the luminance plane for every search
+	// (coarse.Views), made again when the tone curve changes the plane.
+	views := coarse.NewViews(dec.Lum)
+	pose, chartNote := chart.RecogniseIn(views)
 	f.pose, f.chartNote = pose, chartNote
 	switch {
 	case pose != nil:
@@ -196,6 +200,7 @@ func Find(ctx context.Context, ph Photo, s Settings, progress Progress) (f *Foun
 		f.opt.toneMap = tf.mapper() // the fitted tone curve, for colour planes (fringes.go)
 		if tf != nil && tf.Applied {
 			f.plan.ToneX, f.plan.ToneY, f.plan.TonePaper = tf.fitX, tf.fitY, tf.PaperLevel
+			views = coarse.NewViews(dec.Lum)
 		}
 		if why != "" {
 			img.warn(note.New(note.ToneStepsUnread, "chart: "+why))
@@ -207,12 +212,12 @@ func Find(ctx context.Context, ph Photo, s Settings, progress Progress) (f *Foun
 	case chk.tone.Kind == decode.ToneAuto && dec.Format == decode.FormatJPEG:
 		img.warn(note.New(note.ToneAssumed, toneAssumed))
 	}
-	cands, rejects := edgefind.Edges(dec.Lum, edgefind.Options{})
+	cands, rejects := edgefind.Edges(dec.Lum, edgefind.Options{Views: views})
 	// Sine stars and gratings, and the chart's gratings from its design
 	// (sine.go, chartgratings.go): measured as targets. Edge candidates on
 	// them are left out of the plan; Finish drops those (and any others)
 	// that meet the patterns as measured.
-	f.plan.Patterns = findPatterns(dec.Lum, geo, pose)
+	f.plan.Patterns = findPatterns(views, geo, pose)
 	f.plan.Centre = [2]float64{geo.CentreX, geo.CentreY}
 	f.rejects = rejects
 	possible := possibleAreas(f.plan.Patterns)

@@ -23,6 +23,7 @@ import (
 	"sagitta/core/decode"
 	"sagitta/core/edgefind"
 	"sagitta/core/exif"
+	"sagitta/core/internal/coarse"
 	"sagitta/core/internal/parallel"
 	"sagitta/core/sim/chartsim"
 	"sagitta/core/sim/simcam"
@@ -225,7 +226,7 @@ func stageRows(b *testing.B, size string, data []byte) {
 	}))
 	var jobs []PatternJob
 	row("native", size, "sine search", measureStage(func() {
-		jobs = findPatterns(dec.Lum, geo, pose)
+		jobs = findPatterns(coarse.NewViews(dec.Lum), geo, pose)
 	}))
 	parts := make([]Part, len(jobs))
 	row("native", size, fmt.Sprintf("sine patterns measured (%d)", len(jobs)), measureStage(func() {

@@ -48,6 +48,9 @@ const (
 type FindOptions struct {
 	CoarsePx    int     // longer side of the reduced image, px (default 1500)
 	MinRadiusPx float64 // smallest star radius, and half the smallest grating side, to report, px (default 24)
+	// Views, when not nil, are reductions of the photo shared with the
+	// other searches (the same reduction is made once).
+	Views *coarse.Views
 }
 
 func (o FindOptions) withDefaults() FindOptions {
@@ -104,7 +107,7 @@ func Find(p *plane.Plane, opt FindOptions) []Candidate {
 	// down): rounding up could leave the outer rim of a small star finer
 	// than the texture test sees at every level.
 	k := max(1, max(p.W, p.H)/opt.CoarsePx)
-	c := coarse.Shrink(p, k)
+	c := coarse.Of(opt.Views, p).Shrink(k)
 	ws := newWorkspace(c.W * c.H)
 	var out []Candidate
 	for level := 0; level < pyramidLevels; level++ {
