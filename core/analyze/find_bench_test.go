@@ -25,10 +25,14 @@ func BenchmarkFind(b *testing.B) {
 	ph := Photo{Name: "chart.jpg", Data: data}
 	b.Run("whole", func(b *testing.B) {
 		b.ReportAllocs()
+		c0 := cpuTime()
 		for b.Loop() {
 			if _, err := Find(context.Background(), ph, Settings{}, nil); err != nil {
 				b.Fatal(err)
 			}
+		}
+		if c1 := cpuTime(); c0 >= 0 && c1 >= 0 { // user + system time, all threads
+			b.ReportMetric((c1-c0).Seconds()/float64(b.N), "cpu-s/op")
 		}
 	})
 	dec, err := decode.Decode(data, decode.Options{})
