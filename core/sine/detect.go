@@ -200,15 +200,23 @@ func boxMean(dst, src, tmp []float32, w, h, rad int) {
 		for x := 0; x < min(rad, w); x++ {
 			s += float64(row[x])
 		}
-		for x := range w {
-			if x+rad < w {
-				s += float64(row[x+rad])
-			}
-			if x-rad-1 >= 0 {
-				s -= float64(row[x-rad-1])
-			}
-			n := min(x+rad, w-1) - max(x-rad, 0) + 1
-			out[x] = float32(s / float64(n))
+		// The same sums in the same order; the middle, where the window
+		// lies wholly inside the row, without the tests at the ends.
+		mid0, mid1 := rad+1, w-rad
+		if mid1 <= mid0 {
+			mid0, mid1 = w, w
+		}
+		for x := 0; x < mid0; x++ {
+			boxStep(row, out, &s, x, w, rad)
+		}
+		full := float64(2*rad + 1)
+		for x := mid0; x < mid1; x++ {
+			s += float64(row[x+rad])
+			s -= float64(row[x-rad-1])
+			out[x] = float32(s / full)
+		}
+		for x := mid1; x < w; x++ {
+			boxStep(row, out, &s, x, w, rad)
 		}
 	}
 	col := make([]float64, w)
@@ -233,6 +241,19 @@ func boxMean(dst, src, tmp []float32, w, h, rad int) {
 			dst[y*w+x] = float32(col[x] / n)
 		}
 	}
+}
+
+// boxStep moves the running sum s of boxMean's row pass to x, near an end of
+// the row, and writes the mean there.
+func boxStep(row, out []float32, s *float64, x, w, rad int) {
+	if x+rad < w {
+		*s += float64(row[x+rad])
+	}
+	if x-rad-1 >= 0 {
+		*s -= float64(row[x-rad-1])
+	}
+	n := min(x+rad, w-1) - max(x-rad, 0) + 1
+	out[x] = float32(*s / float64(n))
 }
 
 // workspace holds the buffers of the texture test, reused on every level
