@@ -536,7 +536,7 @@ function foundOutlines(plan) {
   (plan.patterns || []).forEach((j, k) => {
     let pts = j.corners_px;
     if (j.kind === 'star') {
-      const [x, y, rad] = [j.x_px || 0, j.y_px || 0, j.radius_px || 0];
+      const [x, y, rad] = [j.x_px || 0, j.y_px || 0, 1.1 * (j.radius_px || 0)]; // just outside its rim
       pts = Array.from({ length: 24 }, (_, i) => [x + rad * Math.cos((i * Math.PI) / 12), y + rad * Math.sin((i * Math.PI) / 12)]);
     }
     out.push({ index: plan.regions.length + k, pts });
