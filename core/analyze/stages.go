@@ -220,19 +220,29 @@ func Find(ctx context.Context, ph Photo, s Settings, progress Progress) (f *Foun
 	f.plan.Patterns = findPatterns(views, geo, pose)
 	f.plan.Centre = [2]float64{geo.CentreX, geo.CentreY}
 	f.rejects = rejects
-	possible := possibleAreas(f.plan.Patterns)
-	f.cands, f.slot = make([]edge.Region, len(cands)), make([]int, len(cands))
+	f.cands = make([]edge.Region, len(cands))
 	for i, c := range cands {
-		f.cands[i], f.slot[i] = c.Region, -1
-		if !possible.overlaps(c.Region.Corners()) {
-			f.slot[i] = len(f.plan.Regions)
-			f.plan.Regions = append(f.plan.Regions, c.Region)
-		}
+		f.cands[i] = c.Region
 	}
+	f.planRegions()
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
 	return f, nil
+}
+
+// planRegions puts in the plan the edge candidates that meet none of the
+// areas the found patterns may keep clear (possibleAreas), and sets slot.
+func (f *Found) planRegions() {
+	possible := possibleAreas(f.plan.Patterns)
+	f.plan.Regions, f.slot = nil, make([]int, len(f.cands))
+	for i, r := range f.cands {
+		f.slot[i] = -1
+		if !possible.overlaps(r.Corners()) {
+			f.slot[i] = len(f.plan.Regions)
+			f.plan.Regions = append(f.plan.Regions, r)
+		}
+	}
 }
 
 // Prepare decodes a photo in another process for measuring a part of the

@@ -115,3 +115,48 @@ func TestFinishChecksParts(t *testing.T) {
 		}
 	}
 }
+
+// TestFinishMeasuresLeftOut: edge candidates that Find leaves out of the
+// plan because they lie on a sine pattern found are measured by Finish when
+// that pattern does not measure, so the photo's JSON is Run's. A pattern
+// that is not one (a star on the first edge candidate of the chart photo,
+// where no star measures) is added to the plan.
+func TestFinishMeasuresLeftOut(t *testing.T) {
+	data := chartPhoto.photo(t)
+	s := Settings{FallbackSensorMM: [2]float64{36, 24}}
+	want, err := Run(context.Background(), "p.jpg", data, s, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	wantJSON, _ := json.Marshal(want)
+	f, err := Find(context.Background(), Photo{Name: "p.jpg", Data: data}, s, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := f.cands[0]
+	f.plan.Patterns = append(f.plan.Patterns, PatternJob{Kind: jobStar, X: r.X, Y: r.Y, RadiusPx: 2 * r.HalfLen})
+	f.planRegions()
+	left := 0
+	for _, k := range f.slot {
+		if k < 0 {
+			left++
+		}
+	}
+	if left == 0 {
+		t.Fatal("no candidate was left out of the plan")
+	}
+	parts, err := f.Measure(context.Background(), 0, f.Targets(), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if p := parts[len(parts)-1]; p.Star != nil || p.Rejected != nil {
+		t.Fatal("a star was measured on an edge")
+	}
+	img, err := f.Finish(context.Background(), parts, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got, _ := json.Marshal(img); !bytes.Equal(got, wantJSON) {
+		t.Errorf("%d candidates measured by Finish: the JSON differs from Run's", left)
+	}
+}
