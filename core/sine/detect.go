@@ -368,26 +368,22 @@ func classify(c *plane.Plane, cp comp, keep func(x, y int) bool, minR float64) (
 	var sx, sy, sw float64
 	const nBins = 36 // 5 degree bins over 180 degrees
 	var hist [nBins]float64
-	for y := max(cp.y0, 1); y <= min(cp.y1, c.H-2); y++ {
-		for x := max(cp.x0, 1); x <= min(cp.x1, c.W-2); x++ {
-			if !keep(x, y) {
-				continue
-			}
-			gx := 0.5 * float64(c.Pix[y*c.W+x+1]-c.Pix[y*c.W+x-1])
-			gy := 0.5 * float64(c.Pix[(y+1)*c.W+x]-c.Pix[(y-1)*c.W+x])
-			g2 := gx*gx + gy*gy
-			a[0] += gx * gx
-			a[1] += gx * gy
-			a[2] += gy * gy
-			sx += g2 * (float64(x) + 0.5)
-			sy += g2 * (float64(y) + 0.5)
-			sw += g2
-			ang := math.Atan2(gy, gx)
-			if ang < 0 {
-				ang += math.Pi
-			}
-			hist[int(ang/math.Pi*nBins)%nBins] += g2
+	// The blob's pixels and gradients, once for every fit below.
+	pts := gradPts(c, max(cp.x0, 1), max(cp.y0, 1), min(cp.x1, c.W-2), min(cp.y1, c.H-2), keep, nil)
+	for _, q := range pts {
+		gx, gy := q.gx, q.gy
+		g2 := gx*gx + gy*gy
+		a[0] += gx * gx
+		a[1] += gx * gy
+		a[2] += gy * gy
+		sx += g2 * q.px
+		sy += g2 * q.py
+		sw += g2
+		ang := math.Atan2(gy, gx)
+		if ang < 0 {
+			ang += math.Pi
 		}
+		hist[int(ang/math.Pi*nBins)%nBins] += g2
 	}
 	if sw == 0 {
 		return Candidate{}, false
@@ -410,7 +406,7 @@ func classify(c *plane.Plane, cp comp, keep func(x, y int) bool, minR float64) (
 	var res centreResult
 	for _, tk := range []float64{0.7, 0.5, 0.35} {
 		res = fitCentre(c, cx, cy, centreOpts{x0: cp.x0, y0: cp.y0, x1: cp.x1, y1: cp.y1,
-			keep: keep, rMin: 2, tukey: tk, iters: 2})
+			keep: keep, pts: pts, rMin: 2, tukey: tk, iters: 2})
 		if !res.ok {
 			return Candidate{}, false
 		}
