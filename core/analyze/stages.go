@@ -289,7 +289,7 @@ func (m *Measurer) Use(plan Plan) error {
 
 // Measure measures the targets lo to hi-1 (0 <= lo <= hi <= Targets(),
 // else it panics: a caller's error), in parallel over the settings'
-// workers (the edges and the sine patterns side by side); done(n) reports
+// workers (the sine patterns, then the edges); done(n) reports
 // how many of them are finished. It returns one Part per target, in
 // order, or ctx.Err().
 func (m *Measurer) Measure(ctx context.Context, lo, hi int, done func(n int)) ([]Part, error) {
@@ -302,43 +302,33 @@ func (m *Measurer) Measure(ctx context.Context, lo, hi int, done func(n int)) ([
 	}
 	regions := m.plan.Regions[min(lo, nr):min(hi, nr)]
 	jobs := m.plan.Patterns[max(lo, nr)-nr : max(hi, nr)-nr]
-	var mu sync.Mutex // one progress report at a time
-	edgesDone, patsDone := 0, 0
-	report := func() { done(edgesDone + patsDone) }
+	// The sine patterns first (few, each longer than an edge), then the
+	// edges, each over every worker.
 	pats := make([]Part, len(jobs))
-	var wg sync.WaitGroup
-	var failure any
-	if len(jobs) > 0 {
-		wg.Add(1)
-		go func() { // the patterns, beside the edges
-			defer wg.Done()
-			defer func() {
-				if r := recover(); r != nil {
-					failure = r
-				}
-			}()
-			parallel.For(len(jobs), m.workers, func(i int) {
-				if ctx.Err() != nil {
-					return
-				}
-				pats[i] = measurePattern(m.dec.Lum, jobs[i], m.plan.Centre, max(lo, nr)+i)
+	var mu sync.Mutex // one progress report at a time
+	patsDone := 0
+	var failure any // a panic on a goroutine, raised again here (see measureSafely)
+	parallel.For(len(jobs), m.workers, func(i int) {
+		defer func() {
+			if r := recover(); r != nil {
 				mu.Lock()
-				patsDone++
-				report()
+				failure = r
 				mu.Unlock()
-			})
+			}
 		}()
-	}
-	results := measureAll(ctx, m.dec, regions, m.opt, m.workers, func(n int) {
+		if ctx.Err() != nil {
+			return
+		}
+		pats[i] = measurePattern(m.dec.Lum, jobs[i], m.plan.Centre, max(lo, nr)+i)
 		mu.Lock()
-		edgesDone = n
-		report()
+		patsDone++
+		done(patsDone)
 		mu.Unlock()
 	})
-	wg.Wait()
 	if failure != nil {
 		panic(failure)
 	}
+	results := measureAll(ctx, m.dec, regions, m.opt, m.workers, func(n int) { done(patsDone + n) })
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}

@@ -45,9 +45,18 @@ type centreOpts struct {
 	iters      int
 }
 
-// gradPt is one pixel of a centre fit: its centre and its gradient
-// (central differences).
-type gradPt struct{ px, py, gx, gy float64 }
+// gradPt is one pixel of a centre fit: the pixel and the differences of
+// its neighbours, row[x+1] - row[x-1] and the same down the column, exact
+// in float32 (the gradient is half of each: gradient).
+type gradPt struct {
+	x, y   int32
+	dx, dy float32
+}
+
+// gradient returns the pixel's centre and gradient.
+func (q gradPt) gradient() (px, py, gx, gy float64) {
+	return float64(q.x) + 0.5, float64(q.y) + 0.5, 0.5 * float64(q.dx), 0.5 * float64(q.dy)
+}
 
 // pairs is the number of opposite sector pairs for the jackknife
 // (sectorPair).
@@ -69,13 +78,12 @@ func (s *centreSums) add(pts []gradPt, cx, cy float64, o *centreOpts) {
 	a, bx, by, eIn, eAll := s.a, s.bx, s.by, s.eIn, s.eAll
 	pa, pbx, pby := s.pa, s.pbx, s.pby
 	for _, q := range pts {
-		px, py := q.px, q.py
+		px, py, gx, gy := q.gradient()
 		dx, dy := px-cx, py-cy
 		r2 := dx*dx + dy*dy
 		if r2 < o.rMin*o.rMin || o.rMax > 0 && r2 > o.rMax*o.rMax {
 			continue
 		}
-		gx, gy := q.gx, q.gy
 		g2 := gx*gx + gy*gy
 		if g2 == 0 {
 			continue
@@ -125,9 +133,7 @@ func gradPts(p *plane.Plane, x0, y0, x1, y1 int, keep func(x, y int) bool, out [
 			if keep != nil && !keep(x, y) {
 				continue
 			}
-			gx := 0.5 * float64(row[x+1]-row[x-1])
-			gy := 0.5 * float64(dn[x]-up[x])
-			out = append(out, gradPt{float64(x) + 0.5, float64(y) + 0.5, gx, gy})
+			out = append(out, gradPt{int32(x), int32(y), row[x+1] - row[x-1], dn[x] - up[x]})
 		}
 	}
 	return out

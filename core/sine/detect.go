@@ -360,6 +360,10 @@ func components(ws *workspace, mask []bool, w, h int) ([]int32, []comp) {
 	return labels, comps
 }
 
+// maxListed is the largest blob whose pixels classify lists for its
+// centre fits (16 bytes each).
+const maxListed = 1 << 18
+
 // classify decides whether a textured blob of the reduced image c is a
 // star or a grating and returns its candidate in coarse coordinates.
 func classify(c *plane.Plane, cp comp, keep func(x, y int) bool, minR float64) (Candidate, bool) {
@@ -368,22 +372,26 @@ func classify(c *plane.Plane, cp comp, keep func(x, y int) bool, minR float64) (
 	var sx, sy, sw float64
 	const nBins = 36 // 5 degree bins over 180 degrees
 	var hist [nBins]float64
-	// The blob's pixels and gradients, once for every fit below.
-	pts := gradPts(c, max(cp.x0, 1), max(cp.y0, 1), min(cp.x1, c.W-2), min(cp.y1, c.H-2), keep, nil)
-	for _, q := range pts {
-		gx, gy := q.gx, q.gy
-		g2 := gx*gx + gy*gy
-		a[0] += gx * gx
-		a[1] += gx * gy
-		a[2] += gy * gy
-		sx += g2 * q.px
-		sy += g2 * q.py
-		sw += g2
-		ang := math.Atan2(gy, gx)
-		if ang < 0 {
-			ang += math.Pi
+	for y := max(cp.y0, 1); y <= min(cp.y1, c.H-2); y++ {
+		for x := max(cp.x0, 1); x <= min(cp.x1, c.W-2); x++ {
+			if !keep(x, y) {
+				continue
+			}
+			gx := 0.5 * float64(c.Pix[y*c.W+x+1]-c.Pix[y*c.W+x-1])
+			gy := 0.5 * float64(c.Pix[(y+1)*c.W+x]-c.Pix[(y-1)*c.W+x])
+			g2 := gx*gx + gy*gy
+			a[0] += gx * gx
+			a[1] += gx * gy
+			a[2] += gy * gy
+			sx += g2 * (float64(x) + 0.5)
+			sy += g2 * (float64(y) + 0.5)
+			sw += g2
+			ang := math.Atan2(gy, gx)
+			if ang < 0 {
+				ang += math.Pi
+			}
+			hist[int(ang/math.Pi*nBins)%nBins] += g2
 		}
-		hist[int(ang/math.Pi*nBins)%nBins] += g2
 	}
 	if sw == 0 {
 		return Candidate{}, false
@@ -401,8 +409,14 @@ func classify(c *plane.Plane, cp comp, keep func(x, y int) bool, minR float64) (
 		}
 		return gratingBox(cp, keep, ang, minR)
 	}
-	// A meeting point: robust fit from the energy centroid.
+	// A meeting point: robust fit from the energy centroid. The blob's
+	// pixels and gradients are listed once for the six passes (up to
+	// maxListed pixels; a larger blob is scanned each time).
 	cx, cy := sx/sw, sy/sw
+	var pts []gradPt
+	if cp.n <= maxListed {
+		pts = gradPts(c, max(cp.x0, 1), max(cp.y0, 1), min(cp.x1, c.W-2), min(cp.y1, c.H-2), keep, make([]gradPt, 0, cp.n))
+	}
 	var res centreResult
 	for _, tk := range []float64{0.7, 0.5, 0.35} {
 		res = fitCentre(c, cx, cy, centreOpts{x0: cp.x0, y0: cp.y0, x1: cp.x1, y1: cp.y1,
