@@ -220,8 +220,12 @@ async function measure(p) {
   }, (parts, count) => {
     // Results as they come: the targets measured so far, on the photo.
     if (p.job !== job) return;
-    if (!p.partial) p.partial = { records: [], measured: 0, targets: 0 };
-    for (const part of parts) if (part.record) p.partial.records.push({ ...part.record, id: part.index });
+    if (!p.partial) p.partial = { records: [], measured: 0, targets: 0, found: [], done: new Set() };
+    if (count.plan) p.partial.found = foundOutlines(count.plan); // outlined as soon as they are found
+    for (const part of parts) {
+      p.partial.done.add(part.index);
+      if (part.record) p.partial.records.push({ ...part.record, id: part.index });
+    }
     p.partial.frame = count.frame;
     p.partial.measured = count.measured;
     p.partial.targets = count.targets;
@@ -515,6 +519,29 @@ async function showSelected() {
     shownBitmap = source && !p.preview ? source : null;
     shownKey = shownBitmap ? p.key : null;
   }
+}
+
+// foundOutlines gives the outline (px) of every target in a photo's plan
+// (the core's analyze.Plan), by its index: the edge regions (corners as
+// edge.Region.Corners makes them), then the sine patterns (a star as a
+// polygon round its disc, a grating by its corners).
+function foundOutlines(plan) {
+  const out = [];
+  plan.regions.forEach((r, i) => {
+    const a = (r.AngleDeg * Math.PI) / 180;
+    const [tx, ty, nx, ny] = [Math.cos(a), Math.sin(a), -Math.sin(a), Math.cos(a)];
+    const pts = [[-1, -1], [1, -1], [1, 1], [-1, 1]].map(([u, v]) => [r.X + u * r.HalfLen * tx + v * r.HalfWidth * nx, r.Y + u * r.HalfLen * ty + v * r.HalfWidth * ny]);
+    out.push({ index: i, pts });
+  });
+  (plan.patterns || []).forEach((j, k) => {
+    let pts = j.corners_px;
+    if (j.kind === 'star') {
+      const [x, y, rad] = [j.x_px || 0, j.y_px || 0, 1.1 * (j.radius_px || 0)]; // just outside its rim
+      pts = Array.from({ length: 24 }, (_, i) => [x + rad * Math.cos((i * Math.PI) / 12), y + rad * Math.sin((i * Math.PI) / 12)]);
+    }
+    out.push({ index: plan.regions.length + k, pts });
+  });
+  return out;
 }
 
 // displayBitmap decodes a photo for display once, while it is measured (the

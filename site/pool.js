@@ -94,10 +94,12 @@ export class Pool {
 
   /**
    * analyze queues one photo. onProgress(stage, fraction) reports progress;
-   * onParts(parts, {measured, targets, decodedBy, frame}) gives each range's
-   * parts as they come (the core's analyze.Part: {index, record} or
-   * {index, rejected}; records not yet placed in the field; frame: the
-   * photo's {width, height, orientation}). One
+   * onParts(parts, {measured, targets, decodedBy, frame, plan}) gives each
+   * range's parts as they come (the core's analyze.Part: {index, record},
+   * {index, rejected}, a sine pattern's {index, star} or {index, grating};
+   * records not yet placed in the field; frame: the photo's {width, height,
+   * orientation}), and first, once the targets are found, no parts and the
+   * plan (the core's analyze.Plan: where each target lies). One
    * worker finds the photo's targets; every free worker then measures a
    * share of them (each decodes the photo itself) and the finder merges and
    * summarises them. Returns {id, promise, cancel}; the promise gives
@@ -351,6 +353,14 @@ export class Pool {
     }
     job.outstanding = 0;
     if (job.onProgress) job.onProgress(STAGE_MEASURING, 0.3);
+    if (job.onParts) {
+      try {
+        // The targets found, before any is measured.
+        job.onParts([], { measured: 0, targets: job.targets, decodedBy: job.decodedBy, frame: job.frame, plan: JSON.parse(msg.plan) });
+      } catch {
+        // showing the targets early is a courtesy; the result does not depend on it
+      }
+    }
     this.dispatch(job);
   }
 

@@ -59,7 +59,8 @@
 //   {type: "found", id, targets, plan, width, height, orientation,
 //    decodedBy, memory}
 //                                                targets: how many to
-//                                                measure; plan: for helpers;
+//                                                measure (edges, then sine
+//                                                patterns); plan: for helpers;
 //                                                the photo's size, px, and
 //                                                Exif orientation (0: none);
 //                                                decodedBy: "browser" or
@@ -67,8 +68,11 @@
 //   {type: "prepared", id, decodedBy, memory}
 //   {type: "measured", id, lo, hi, parts, memory}
 //                                                parts: JSON array of the
-//                                                range's records or reasons
-//                                                (analyze.Part)
+//                                                range's outcomes
+//                                                (analyze.Part): an edge's
+//                                                record or reason, a sine
+//                                                star's or grating's
+//                                                measurement
 //   {type: "progress", id, stage, fraction}      stage in words ("reading",
 //                                                "finding targets",
 //                                                "measuring", "summarising"),

@@ -124,6 +124,8 @@ export function renderPartial(sec, p, display) {
     partial = { key: p.key, sec, viewer, count };
   }
   setTextOf(partial.count, `${p.name} · measuring: ${measured} of ${targets} targets, ${records.length} usable so far; the figures come when all are measured`);
+  const { found = [], done } = p.partial;
+  partial.viewer.setFound(found.filter((f) => !done || !done.has(f.index)).map((f) => f.pts));
   partial.viewer.setTargets(records, [], () => '#ffffff', () => 'Measured; its figures come with the result');
 }
 

@@ -70,6 +70,7 @@ export class PhotoViewer {
     this.layer = svgEl('g', {}, this.svg);
     this.rejLayer = svgEl('g', { class: 'rejected-layer' }, this.layer);
     this.markLayer = svgEl('g', { class: 'mark-layer', 'aria-hidden': 'true' }, this.layer);
+    this.foundLayer = svgEl('g', { class: 'found-layer', 'aria-hidden': 'true' }, this.layer);
     this.tgtLayer = svgEl('g', { class: 'target-layer' }, this.layer);
     this.tip = document.createElement('div');
     this.tip.className = 'viewer-tip';
@@ -125,6 +126,15 @@ export class PhotoViewer {
     this.svg.setAttribute('aria-hidden', 'false');
     this.resize();
     this.fit();
+  }
+
+  /**
+   * setFound outlines the targets found but not yet measured (polygons,
+   * px), under the measured ones.
+   */
+  setFound(outlines) {
+    this.foundLayer.replaceChildren();
+    for (const pts of outlines) svgEl('polygon', { class: 'found', points: pts.map((q) => q.join(',')).join(' ') }, this.foundLayer);
   }
 
   /**

@@ -30,9 +30,9 @@ import (
 //	sagittaUse(id, plan string) -> true
 //	    gives a helping worker the finder's plan
 //	sagittaMeasure(id, lo, hi) -> string (JSON [analyze.Part])
-//	    measures the candidates lo..hi-1
+//	    measures the targets lo..hi-1 (edge candidates, then sine patterns)
 //	sagittaFinish(id, parts string (JSON [analyze.Part])) -> string (JSON)
-//	    merges every candidate's part and summarises: the photo's analysis
+//	    merges every target's part and summarises: the photo's analysis
 //	    (analyze.Image); the photo is released
 //	sagittaRelease(id)
 //	    drops a photo the worker holds

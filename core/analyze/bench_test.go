@@ -11,6 +11,7 @@ import (
 	"sagitta/core/edge"
 	"sagitta/core/edgefind"
 	"sagitta/core/field"
+	"sagitta/core/internal/coarse"
 	"sagitta/core/sim/demo"
 )
 
@@ -57,7 +58,9 @@ func BenchmarkWholePhoto(b *testing.B) {
 		geo := field.NewGeometry(dec.Width, dec.Height, 6)
 		b.ReportAllocs()
 		for i := 0; i < b.N; i++ {
-			findPatterns(context.Background(), dec.Lum, geo, 0)
+			for _, j := range findPatterns(coarse.NewViews(dec.Lum), geo, nil) {
+				measurePattern(dec.Lum, j, [2]float64{geo.CentreX, geo.CentreY}, 0)
+			}
 		}
 	})
 	b.Run("measure", func(b *testing.B) {

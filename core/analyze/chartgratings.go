@@ -43,11 +43,32 @@ func designGrating(pose *chart.Pose, g chart.Grating) (q [4][2]float64, freq, di
 	return q, math.Hypot(fx, fy), dir
 }
 
-// gratingsFromChart measures every grating of the recognised chart that
-// lies inside the photo from the design and puts them in place of the
-// searched gratings on the same targets (searched gratings elsewhere, not
-// the chart's, are kept). The areas kept clear of edge finding follow.
-func (ps *patterns) gratingsFromChart(p *plane.Plane, pose *chart.Pose) {
+// designJobs lists every grating of the recognised chart that lies inside
+// the photo, placed from the design (nothing when pose is nil).
+func designJobs(pose *chart.Pose) []PatternJob {
+	if pose == nil {
+		return nil
+	}
+	var jobs []PatternJob
+	for _, g := range pose.Design.Gratings {
+		in := true
+		for _, c := range [4][2]float64{{-1, -1}, {1, -1}, {1, 1}, {-1, 1}} {
+			in = in && pose.InFrame(g.X+c[0]*g.W/2, g.Y+c[1]*g.H/2, 2)
+		}
+		if !in {
+			continue
+		}
+		q, f, dir := designGrating(pose, g)
+		jobs = append(jobs, PatternJob{Kind: jobDesign, Corners: q, FreqCyPx: f, DirectionDeg: dir})
+	}
+	return jobs
+}
+
+// gratingsFromChart puts the chart's gratings measured from the design
+// (the design jobs among jobs, measured in parts) in place of the searched
+// gratings on the same targets (searched gratings elsewhere, not the
+// chart's, are kept). The areas kept clear of edge finding follow.
+func (ps *patterns) gratingsFromChart(jobs []PatternJob, parts []Part, pose *chart.Pose) {
 	if pose == nil {
 		return
 	}
@@ -62,21 +83,12 @@ func (ps *patterns) gratingsFromChart(p *plane.Plane, pose *chart.Pose) {
 			}
 		}
 	}
-	for _, g := range pose.Design.Gratings {
-		in := true
-		for _, c := range [4][2]float64{{-1, -1}, {1, -1}, {1, 1}, {-1, 1}} {
-			in = in && pose.InFrame(g.X+c[0]*g.W/2, g.Y+c[1]*g.H/2, 2)
-		}
-		if !in {
+	for i, j := range jobs {
+		if j.Kind != jobDesign || parts[i].Grating == nil {
 			continue
 		}
-		q, f, dir := designGrating(pose, g)
-		m, err := measureGuessed(p, sine.GratingGuess{Corners: q, FreqCyPx: f, DirectionDeg: dir, Exact: true})
-		if err != nil || m == nil {
-			continue
-		}
-		kept = append(kept, m)
-		quads = append(quads, grow(q, patternMarginPx))
+		kept = append(kept, parts[i].Grating)
+		quads = append(quads, grow(j.Corners, patternMarginPx))
 	}
 	ps.gratings, ps.quads = kept, quads
 }

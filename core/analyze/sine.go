@@ -1,16 +1,16 @@
 package analyze
 
 import (
-	"context"
 	"errors"
 	"fmt"
 	"math"
 	"sort"
 
+	"sagitta/core/chart"
 	"sagitta/core/curve"
 	"sagitta/core/edgefind"
 	"sagitta/core/field"
-	"sagitta/core/internal/parallel"
+	"sagitta/core/internal/coarse"
 	"sagitta/core/note"
 	"sagitta/core/plane"
 	"sagitta/core/sine"
@@ -64,97 +64,157 @@ const (
 	patternMarginPx = 8
 )
 
-// patterns holds the sine patterns found and measured in one photo.
+// patterns holds the sine patterns of one photo once measured.
 type patterns struct {
-	stars    []*sine.Star
+	stars    []*StarPart
 	gratings []*sine.Grating
 	discs    [][3]float64    // x, y, r of areas kept clear of edge finding
 	quads    [][4][2]float64 // likewise
 	rejected []Rejected      // stars found but not measurable
 }
 
-// findPatterns finds and measures the sine patterns of the linear plane p,
-// measuring them in parallel over workers goroutines (GOMAXPROCS when 0).
-// Stars that are real but unusable are listed in rejected.
-func findPatterns(ctx context.Context, p *plane.Plane, geo field.Geometry, workers int) *patterns {
-	ps := &patterns{}
-	cands := sine.Find(p, sine.FindOptions{})
-	type result struct {
-		s   *sine.Star
-		g   *sine.Grating
-		err error
-	}
-	res := make([]result, len(cands))
-	parallel.For(len(cands), workers, func(i int) {
-		if ctx.Err() != nil {
-			return // cancelled: Run returns ctx.Err()
-		}
-		c := cands[i]
+// Kinds of PatternJob.
+const (
+	jobStar    = "star"    // a sine star found by the search
+	jobGrating = "grating" // a sine grating found by the search
+	jobDesign  = "design"  // a grating of the recognised chart, placed from its design (chartgratings.go)
+)
+
+// PatternJob is one sine pattern found in the photo and waiting to be
+// measured (a part of the photo's targets, like an edge candidate). It
+// passes between processes as JSON.
+type PatternJob struct {
+	Kind string `json:"kind"` // "star", "grating" or "design"
+	// A star: its centre and outer radius as the search found them, and
+	// the direction of the field radius through it (StarOptions.AlignDeg).
+	X        float64 `json:"x_px,omitempty"`
+	Y        float64 `json:"y_px,omitempty"`
+	RadiusPx float64 `json:"radius_px,omitempty"`
+	AlignDeg float64 `json:"align_deg,omitempty"`
+	// A grating: its outline in px; a design grating also its frequency
+	// (cy/px) and direction (degrees) from the chart's design.
+	Corners      [4][2]float64 `json:"corners_px"`
+	FreqCyPx     float64       `json:"freq_cy_px,omitempty"`
+	DirectionDeg float64       `json:"direction_deg,omitempty"`
+}
+
+// StarPart is a measured star as a Part carries it: its description and
+// its two records (along and across the field radius), numbered when the
+// photo is finished.
+type StarPart struct {
+	Info    StarInfo      `json:"info"`
+	Records []Measurement `json:"records"`
+}
+
+// findPatterns finds the sine patterns of the linear plane of vs (the search of
+// core/sine, and the gratings of the recognised chart when pose is not
+// nil), to be measured later (measurePattern).
+func findPatterns(vs *coarse.Views, geo field.Geometry, pose *chart.Pose) []PatternJob {
+	var jobs []PatternJob
+	for _, c := range sine.Find(vs.Plane(), sine.FindOptions{Views: vs}) {
 		if c.Kind == sine.KindStar {
 			align := math.Atan2(c.Y-geo.CentreY, c.X-geo.CentreX) * 180 / math.Pi
-			res[i].s, res[i].err = measureStar(p, c, align)
+			jobs = append(jobs, PatternJob{Kind: jobStar, X: c.X, Y: c.Y, RadiusPx: c.RadiusPx, AlignDeg: align})
 		} else {
-			res[i].g, res[i].err = measureGrating(p, c)
+			jobs = append(jobs, PatternJob{Kind: jobGrating, Corners: c.Corners})
 		}
-	})
-	for i, c := range cands {
-		r := res[i]
-		switch {
-		case r.s != nil:
-			ps.stars = append(ps.stars, r.s)
-			rad := math.Max(r.s.RadiusPx, c.RadiusPx)
-			ps.discs = append(ps.discs, [3]float64{r.s.X, r.s.Y, rad + math.Max(patternMarginPx, 0.05*rad)})
-		case r.g != nil:
-			ps.gratings = append(ps.gratings, r.g)
-			ps.quads = append(ps.quads, grow(c.Corners, patternMarginPx))
-		case errors.Is(r.err, sine.ErrStarTooSmall):
-			ps.rejected = append(ps.rejected, Rejected{c.X - c.RadiusPx, c.Y, c.X + c.RadiusPx, c.Y,
-				"sine star too small for its number of cycles", string(note.StarTooSmall)})
+	}
+	return append(jobs, designJobs(pose)...)
+}
+
+// possibleAreas are the areas the found patterns would keep clear of edge
+// finding if every one of them measured as found: the parts of the plan
+// leave out the edge candidates that meet them (Finish measures those
+// that are not kept clear after all).
+func possibleAreas(jobs []PatternJob) *patterns {
+	ps := &patterns{}
+	for _, j := range jobs {
+		if j.Kind == jobStar {
+			ps.discs = append(ps.discs, [3]float64{j.X, j.Y, j.RadiusPx + math.Max(patternMarginPx, 0.05*j.RadiusPx)})
+		} else {
+			ps.quads = append(ps.quads, grow(j.Corners, patternMarginPx))
 		}
 	}
 	return ps
 }
 
+// measurePattern measures one found pattern in the linear plane p whose
+// optical centre is centre: a Part with a star, a grating, a star too
+// small to measure (rejected), or nothing.
+func measurePattern(p *plane.Plane, j PatternJob, centre [2]float64, index int) Part {
+	part := Part{Index: index}
+	switch j.Kind {
+	case jobStar:
+		s, err := measureStar(p, sine.StarGuess{X: j.X, Y: j.Y, RadiusPx: j.RadiusPx}, j.AlignDeg)
+		switch {
+		case s != nil:
+			part.Star = starPart(s, centre)
+		case errors.Is(err, sine.ErrStarTooSmall):
+			part.Rejected = &Rejected{j.X - j.RadiusPx, j.Y, j.X + j.RadiusPx, j.Y,
+				"sine star too small for its number of cycles", string(note.StarTooSmall)}
+		}
+	case jobGrating:
+		part.Grating, _ = measureGrating(p, j.Corners)
+	case jobDesign:
+		g, err := measureGuessed(p, sine.GratingGuess{Corners: j.Corners, FreqCyPx: j.FreqCyPx, DirectionDeg: j.DirectionDeg, Exact: true})
+		if err == nil {
+			part.Grating = g
+		}
+	}
+	return part
+}
+
+// patternsOf gathers the measured patterns from their parts (in the order
+// of jobs), in the order the records take: the searched stars and
+// gratings, with the chart's gratings measured from the design in place of
+// searched ones on the same targets (gratingsFromChart), and the areas
+// kept clear of edge finding.
+func patternsOf(jobs []PatternJob, parts []Part, pose *chart.Pose) *patterns {
+	ps := &patterns{}
+	for i, j := range jobs {
+		p := parts[i]
+		switch {
+		case j.Kind == jobDesign:
+		case p.Star != nil:
+			ps.stars = append(ps.stars, p.Star)
+			rad := math.Max(p.Star.Info.RadiusPx, j.RadiusPx)
+			ps.discs = append(ps.discs, [3]float64{p.Star.Info.XPx, p.Star.Info.YPx, rad + math.Max(patternMarginPx, 0.05*rad)})
+		case p.Grating != nil:
+			ps.gratings = append(ps.gratings, p.Grating)
+			ps.quads = append(ps.quads, grow(j.Corners, patternMarginPx))
+		case p.Rejected != nil:
+			ps.rejected = append(ps.rejected, *p.Rejected)
+		}
+	}
+	ps.gratingsFromChart(jobs, parts, pose)
+	return ps
+}
+
 // measureStar and measureGrating turn a panic into an error so that one
 // odd pattern cannot take the photo's analysis down.
-func measureStar(p *plane.Plane, c sine.Candidate, align float64) (s *sine.Star, err error) {
+func measureStar(p *plane.Plane, g sine.StarGuess, align float64) (s *sine.Star, err error) {
 	defer func() {
 		if r := recover(); r != nil {
 			s, err = nil, fmt.Errorf("internal error: %v", r)
 		}
 	}()
-	return sine.MeasureStar(p, sine.StarGuess{X: c.X, Y: c.Y, RadiusPx: c.RadiusPx}, sine.StarOptions{AlignDeg: align})
+	return sine.MeasureStar(p, g, sine.StarOptions{AlignDeg: align})
 }
 
-func measureGrating(p *plane.Plane, c sine.Candidate) (g *sine.Grating, err error) {
+func measureGrating(p *plane.Plane, corners [4][2]float64) (g *sine.Grating, err error) {
 	defer func() {
 		if r := recover(); r != nil {
 			g, err = nil, fmt.Errorf("internal error: %v", r)
 		}
 	}()
-	return sine.MeasureGrating(p, sine.GratingGuess{Corners: c.Corners}, sine.GratingOptions{})
+	return sine.MeasureGrating(p, sine.GratingGuess{Corners: corners}, sine.GratingOptions{})
 }
 
-// exclude drops the edge candidates and rejected runs that lie on a
-// pattern: a star's spokes and a grating's lines are not edges.
-func (ps *patterns) exclude(cands []edgefind.Candidate, rejects []edgefind.Reject) ([]edgefind.Candidate, []edgefind.Reject) {
-	if len(ps.discs)+len(ps.quads) == 0 {
-		return cands, rejects
-	}
-	keepC := cands[:0]
-	for _, c := range cands {
-		if !ps.overlaps(c.Region.Corners()) {
-			keepC = append(keepC, c)
-		}
-	}
-	keepR := rejects[:0]
-	for _, r := range rejects {
-		mx, my := 0.5*(r.X0+r.X1), 0.5*(r.Y0+r.Y1)
-		if !ps.overlaps([4][2]float64{{r.X0, r.Y0}, {mx, my}, {r.X1, r.Y1}, {mx, my}}) {
-			keepR = append(keepR, r)
-		}
-	}
-	return keepC, keepR
+// coversReject reports whether a rejected run of the edge search lies on
+// a pattern: a star's spokes and a grating's lines are not edges.
+func (ps *patterns) coversReject(r edgefind.Reject) bool {
+	mx, my := 0.5*(r.X0+r.X1), 0.5*(r.Y0+r.Y1)
+	return ps.overlaps([4][2]float64{{r.X0, r.Y0}, {mx, my}, {r.X1, r.Y1}, {mx, my}})
 }
 
 // overlaps reports whether the convex quadrilateral q meets any pattern
@@ -249,46 +309,58 @@ func grow(q [4][2]float64, m float64) [4][2]float64 {
 	return q
 }
 
-// starRecords returns the measurement records of the stars, one per
-// orientation: along and across the field radius through the star (at the
-// optical centre, +x and +y), and fills img.Stars. Each star's segments
-// were aligned with that radius when it was measured (findPatterns), so the
-// records depend on the optical centre; what depends on the pitch and the
-// field frequencies is left to place.
-func (ps *patterns) starRecords(img *Image, geo field.Geometry) []Measurement {
+// starPart describes a measured star and makes its two records: along and
+// across the field radius through the star (at the optical centre, +x and
+// +y). Its segments were aligned with that radius when it was measured
+// (findPatterns), so the records depend on the optical centre; what
+// depends on the pitch and the field frequencies is left to place. The
+// star's number is set by starRecords.
+func starPart(s *sine.Star, centre [2]float64) *StarPart {
+	info := StarInfo{XPx: s.X, YPx: s.Y,
+		CentreUncPx: s.CentreUncPx, Cycles: s.Cycles, RadiusPx: s.RadiusPx, InnerPx: s.InnerPx,
+		OuterPx: s.OuterPx, Modulation: s.Modulation, RefFreq: s.RefFreq, MaxFreq: s.MaxFreq, Resolved: s.ResolvedFreq,
+		AliasMod: s.AliasMod, Segments: segmentsOf(s.Segments), Flags: []string{}, Warnings: []string{}, Records: []int{}}
+	for _, f := range s.Flags {
+		info.Flags = append(info.Flags, string(f))
+		info.Warnings = append(info.Warnings, sineFlagText[f])
+	}
+	// The field radius through the star; at the optical centre, +x.
+	radial := math.Atan2(s.Y-centre[1], s.X-centre[0]) * 180 / math.Pi
 	var out []Measurement
-	for i, s := range ps.stars {
-		info := StarInfo{ID: i + 1, XPx: s.X, YPx: s.Y,
-			CentreUncPx: s.CentreUncPx, Cycles: s.Cycles, RadiusPx: s.RadiusPx, InnerPx: s.InnerPx,
-			OuterPx: s.OuterPx, Modulation: s.Modulation, RefFreq: s.RefFreq, MaxFreq: s.MaxFreq, Resolved: s.ResolvedFreq,
-			AliasMod: s.AliasMod, Segments: segmentsOf(s.Segments), Flags: []string{}, Warnings: []string{}, Records: []int{}}
-		for _, f := range s.Flags {
-			info.Flags = append(info.Flags, string(f))
-			info.Warnings = append(info.Warnings, sineFlagText[f])
+	for _, dir := range []float64{radial, radial + 90} {
+		c, se := s.Along(dir)
+		dir = math.Mod(dir+360, 180)
+		if dir > 180-1e-9 {
+			dir = 0
 		}
-		// The field radius through the star; at the optical centre, +x.
-		radial := math.Atan2(s.Y-geo.CentreY, s.X-geo.CentreX) * 180 / math.Pi
-		for _, dir := range []float64{radial, radial + 90} {
-			c, se := s.Along(dir)
-			dir = math.Mod(dir+360, 180)
-			if dir > 180-1e-9 {
-				dir = 0
-			}
-			rec := patternRecord("star", s.X, s.Y, dir, c, s.RefFreq, s.MaxFreq)
+		rec := patternRecord("star", s.X, s.Y, dir, c, s.RefFreq, s.MaxFreq)
+		rec.StdErr = se
+		rec.Flags, rec.Warnings = append(rec.Flags, info.Flags...), append(rec.Warnings, info.Warnings...)
+		r := s.RadiusPx
+		rec.Region = [4][2]float64{{s.X - r, s.Y - r}, {s.X + r, s.Y - r}, {s.X + r, s.Y + r}, {s.X - r, s.Y + r}}
+		rec.Contrast = Number(math.NaN()) // light/dark ratio; undefined for a modulation of 1 or more (bars)
+		if s.Modulation < 1 {
+			rec.Contrast = Number((1 + s.Modulation) / (1 - s.Modulation))
+		}
+		if s.NoiseRMS > 0 {
+			rec.SNR = Number(s.Modulation * s.Mean / s.NoiseRMS)
+		} else {
+			rec.SNR = Number(math.Inf(1))
+		}
+		out = append(out, rec)
+	}
+	return &StarPart{Info: info, Records: out}
+}
+
+// starRecords numbers the measured stars (1, 2, ...), fills img.Stars and
+// returns their records.
+func (ps *patterns) starRecords(img *Image) []Measurement {
+	var out []Measurement
+	for i, sp := range ps.stars {
+		info := sp.Info
+		info.ID = i + 1
+		for _, rec := range sp.Records {
 			rec.PatternID = info.ID
-			rec.StdErr = se
-			rec.Flags, rec.Warnings = append(rec.Flags, info.Flags...), append(rec.Warnings, info.Warnings...)
-			r := s.RadiusPx
-			rec.Region = [4][2]float64{{s.X - r, s.Y - r}, {s.X + r, s.Y - r}, {s.X + r, s.Y + r}, {s.X - r, s.Y + r}}
-			rec.Contrast = Number(math.NaN()) // light/dark ratio; undefined for a modulation of 1 or more (bars)
-			if s.Modulation < 1 {
-				rec.Contrast = Number((1 + s.Modulation) / (1 - s.Modulation))
-			}
-			if s.NoiseRMS > 0 {
-				rec.SNR = Number(s.Modulation * s.Mean / s.NoiseRMS)
-			} else {
-				rec.SNR = Number(math.Inf(1))
-			}
 			out = append(out, rec)
 		}
 		img.Stars = append(img.Stars, info)

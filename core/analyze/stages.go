@@ -14,24 +14,28 @@ import (
 	"sagitta/core/edge"
 	"sagitta/core/edgefind"
 	"sagitta/core/field"
+	"sagitta/core/internal/coarse"
 	"sagitta/core/internal/parallel"
 	"sagitta/core/note"
 	"sagitta/core/plane"
+	"sagitta/core/sine"
 )
 
 // Run's three stages, for front ends that spread one photo's regions over
 // several processes (the page's workers, each its own WebAssembly
 // instance):
 //
-//	Find     decode, tone, the chart's pose, sine patterns, edge candidates
-//	Measure  a range [lo, hi) of the candidates, on the Found itself or on
+//	Find     decode, tone, the chart's pose, the sine patterns and edge
+//	         candidates found (not measured): the targets
+//	Measure  a range [lo, hi) of the targets, on the Found itself or on
 //	         a Measurer that Prepare made from the same photo elsewhere
-//	Finish   the Parts of every candidate, merged in the photo's order,
+//	Finish   the Parts of every target, merged in the photo's order,
 //	         placed in the field and summarised once
 //
-// Run is Find, Measure(0, Targets()) and Finish in one process; any split
-// of the candidates into ranges, measured anywhere and passed through JSON,
-// gives the same Image (TestStagesEqualRun).
+// The targets are the plan's edge candidates (0 .. len(Regions)-1), then
+// its sine patterns. Run is Find, Measure(0, Targets()) and Finish in one
+// process; any split of the targets into ranges, measured anywhere and
+// passed through JSON, gives the same Image (TestStagesEqualRun).
 
 // Photo is one photo given to the pipeline.
 type Photo struct {
@@ -54,12 +58,16 @@ func decodePhoto(ph Photo, opt decode.Options) (*decode.Image, error) {
 	return decode.Decode(ph.Data, opt)
 }
 
-// Plan is what measuring part of a photo's candidates needs besides the
-// photo: the candidate regions, in the photo's order, and the tone curve
-// fitted to the chart's grey steps when the photo was linearised with it.
-// It passes between processes as JSON.
+// Plan is what measuring part of a photo's targets needs besides the
+// photo: the edge candidates' regions, in the photo's order, the sine
+// patterns found, the optical centre (the stars' records lie along and
+// across the field radius), and the tone curve fitted to the chart's grey
+// steps when the photo was linearised with it. It passes between
+// processes as JSON.
 type Plan struct {
-	Regions []edge.Region `json:"regions"`
+	Regions  []edge.Region `json:"regions"`
+	Patterns []PatternJob  `json:"patterns,omitempty"`
+	Centre   [2]float64    `json:"centre_px"`
 	// ToneX, ToneY and TonePaper are the points and the paper level of
 	// the fitted tone curve (fitTone), empty when none was applied.
 	ToneX     []float64 `json:"tone_x,omitempty"`
@@ -67,12 +75,16 @@ type Plan struct {
 	TonePaper float64   `json:"tone_paper,omitempty"`
 }
 
-// Part is the outcome of measuring one candidate: a record, or the reason
-// it was set aside. It passes between processes as JSON.
+// Part is the outcome of measuring one target. An edge candidate gives a
+// record, or the reason it was set aside; a sine pattern gives a star, a
+// grating, a reason (a star too small to measure) or nothing. It passes
+// between processes as JSON.
 type Part struct {
-	Index    int          `json:"index"` // the candidate's place in Plan.Regions
-	Record   *Measurement `json:"record,omitempty"`
-	Rejected *Rejected    `json:"rejected,omitempty"`
+	Index    int           `json:"index"` // the target's place: Plan.Regions, then Plan.Patterns
+	Record   *Measurement  `json:"record,omitempty"`
+	Rejected *Rejected     `json:"rejected,omitempty"`
+	Star     *StarPart     `json:"star,omitempty"`
+	Grating  *sine.Grating `json:"grating,omitempty"`
 }
 
 // Measurer measures candidates of one decoded photo.
@@ -93,12 +105,20 @@ type Found struct {
 	geo       field.Geometry
 	pose      *chart.Pose
 	chartNote note.Note
-	pats      *patterns
 	settings  Settings
+	// cands are every edge candidate found, in the photo's order, and
+	// slot the place of each in plan.Regions (-1: left out of the plan,
+	// as it meets a pattern's area; see possibleAreas); rejects are the
+	// edge search's own rejects. Finish keeps those clear of the measured
+	// patterns.
+	cands   []edge.Region
+	slot    []int
+	rejects []edgefind.Reject
 }
 
-// Targets is the number of candidates to measure.
-func (m *Measurer) Targets() int { return len(m.plan.Regions) }
+// Targets is the number of targets to measure: edge candidates, then sine
+// patterns.
+func (m *Measurer) Targets() int { return len(m.plan.Regions) + len(m.plan.Patterns) }
 
 // Frame returns the photo's size in px and its Exif orientation (0 when
 // none), for showing it while its targets are measured.
@@ -111,7 +131,8 @@ func (f *Found) Frame() (width, height, orientation int) {
 func (f *Found) Plan() Plan { return f.plan }
 
 // Find runs the first stage on a photo: decode, tone, the chart's pose and
-// tone curve, sine patterns (measured here) and the edge candidates.
+// tone curve, and the targets: sine patterns and edge candidates, found
+// here and measured by Measure.
 // Errors are those of Run; it never panics.
 func Find(ctx context.Context, ph Photo, s Settings, progress Progress) (f *Found, err error) {
 	defer func() {
@@ -167,7 +188,10 @@ func Find(ctx context.Context, ph Photo, s Settings, progress Progress) (f *Foun
 	// Sagitta's chart, if it is there (chart.go), first: its grey steps
 	// give the photo's tone curve, needed before anything is measured
 	// (tone.go).
-	pose, chartNote := chart.Recognise(dec.Lum)
+	// One set of reduced views of the luminance plane for every search
+	// (coarse.Views), made again when the tone curve changes the plane.
+	views := coarse.NewViews(dec.Lum)
+	pose, chartNote := chart.RecogniseIn(views)
 	f.pose, f.chartNote = pose, chartNote
 	switch {
 	case pose != nil:
@@ -176,6 +200,7 @@ func Find(ctx context.Context, ph Photo, s Settings, progress Progress) (f *Foun
 		f.opt.toneMap = tf.mapper() // the fitted tone curve, for colour planes (fringes.go)
 		if tf != nil && tf.Applied {
 			f.plan.ToneX, f.plan.ToneY, f.plan.TonePaper = tf.fitX, tf.fitY, tf.PaperLevel
+			views = coarse.NewViews(dec.Lum)
 		}
 		if why != "" {
 			img.warn(note.New(note.ToneStepsUnread, "chart: "+why))
@@ -187,23 +212,37 @@ func Find(ctx context.Context, ph Photo, s Settings, progress Progress) (f *Foun
 	case chk.tone.Kind == decode.ToneAuto && dec.Format == decode.FormatJPEG:
 		img.warn(note.New(note.ToneAssumed, toneAssumed))
 	}
-	cands, rejects := edgefind.Edges(dec.Lum, edgefind.Options{})
-	pats := findPatterns(ctx, dec.Lum, geo, s.Workers) // sine stars and gratings (sine.go)
-	pats.gratingsFromChart(dec.Lum, pose)              // its gratings measured from the design (chartgratings.go)
-	cands, rejects = pats.exclude(cands, rejects)
-	f.pats = pats
-	img.Rejected = append(img.Rejected, pats.rejected...)
-	for _, r := range rejects {
-		img.Rejected = append(img.Rejected, Rejected{r.X0, r.Y0, r.X1, r.Y1, r.Reason, string(r.Code)})
-	}
-	f.plan.Regions = make([]edge.Region, len(cands))
+	cands, rejects := edgefind.Edges(dec.Lum, edgefind.Options{Views: views})
+	// Sine stars and gratings, and the chart's gratings from its design
+	// (sine.go, chartgratings.go): measured as targets. Edge candidates on
+	// them are left out of the plan; Finish drops those (and any others)
+	// that meet the patterns as measured.
+	f.plan.Patterns = findPatterns(views, geo, pose)
+	f.plan.Centre = [2]float64{geo.CentreX, geo.CentreY}
+	f.rejects = rejects
+	f.cands = make([]edge.Region, len(cands))
 	for i, c := range cands {
-		f.plan.Regions[i] = c.Region
+		f.cands[i] = c.Region
 	}
+	f.planRegions()
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
 	return f, nil
+}
+
+// planRegions puts in the plan the edge candidates that meet none of the
+// areas the found patterns may keep clear (possibleAreas), and sets slot.
+func (f *Found) planRegions() {
+	possible := possibleAreas(f.plan.Patterns)
+	f.plan.Regions, f.slot = nil, make([]int, len(f.cands))
+	for i, r := range f.cands {
+		f.slot[i] = -1
+		if !possible.overlaps(r.Corners()) {
+			f.slot[i] = len(f.plan.Regions)
+			f.plan.Regions = append(f.plan.Regions, r)
+		}
+	}
 }
 
 // Prepare decodes a photo in another process for measuring a part of the
@@ -248,27 +287,56 @@ func (m *Measurer) Use(plan Plan) error {
 	return nil
 }
 
-// Measure measures the candidates lo to hi-1 (0 <= lo <= hi <= Targets(),
+// Measure measures the targets lo to hi-1 (0 <= lo <= hi <= Targets(),
 // else it panics: a caller's error), in parallel over the settings'
-// workers; done(n) reports how many of them are finished. It returns one
-// Part per candidate, in order, or ctx.Err().
+// workers (the sine patterns, then the edges); done(n) reports
+// how many of them are finished. It returns one Part per target, in
+// order, or ctx.Err().
 func (m *Measurer) Measure(ctx context.Context, lo, hi int, done func(n int)) ([]Part, error) {
-	if lo < 0 || hi < lo || hi > len(m.plan.Regions) {
-		panic(fmt.Sprintf("analyze: Measure(%d, %d) outside the %d candidates", lo, hi, len(m.plan.Regions)))
+	nr := len(m.plan.Regions)
+	if lo < 0 || hi < lo || hi > m.Targets() {
+		panic(fmt.Sprintf("analyze: Measure(%d, %d) outside the %d targets", lo, hi, m.Targets()))
 	}
 	if done == nil {
 		done = func(int) {}
 	}
-	regions := m.plan.Regions[lo:hi]
-	results := measureAll(ctx, m.dec, regions, m.opt, m.workers, done)
+	regions := m.plan.Regions[min(lo, nr):min(hi, nr)]
+	jobs := m.plan.Patterns[max(lo, nr)-nr : max(hi, nr)-nr]
+	// The sine patterns first (few, each longer than an edge), then the
+	// edges, each over every worker.
+	pats := make([]Part, len(jobs))
+	var mu sync.Mutex // one progress report at a time
+	patsDone := 0
+	var failure any // a panic on a goroutine, raised again here (see measureSafely)
+	parallel.For(len(jobs), m.workers, func(i int) {
+		defer func() {
+			if r := recover(); r != nil {
+				mu.Lock()
+				failure = r
+				mu.Unlock()
+			}
+		}()
+		if ctx.Err() != nil {
+			return
+		}
+		pats[i] = measurePattern(m.dec.Lum, jobs[i], m.plan.Centre, max(lo, nr)+i)
+		mu.Lock()
+		patsDone++
+		done(patsDone)
+		mu.Unlock()
+	})
+	if failure != nil {
+		panic(failure)
+	}
+	results := measureAll(ctx, m.dec, regions, m.opt, m.workers, func(n int) { done(patsDone + n) })
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	parts := make([]Part, len(regions))
+	parts := make([]Part, 0, hi-lo)
 	for i, r := range results {
-		parts[i] = partOf(lo+i, regions[i], r)
+		parts = append(parts, partOf(lo+i, regions[i], r))
 	}
-	return parts, nil
+	return append(parts, pats...), nil
 }
 
 // partOf turns a measured candidate into its record, or its reason for
@@ -313,16 +381,46 @@ func (f *Found) Finish(ctx context.Context, parts []Part, progress Progress) (im
 	progress(StageSumming, 0.9)
 	sorted := append([]Part(nil), parts...)
 	sort.Slice(sorted, func(i, j int) bool { return sorted[i].Index < sorted[j].Index })
+	nr := len(f.plan.Regions)
 	for i, p := range sorted {
-		if p.Index != i || (p.Record == nil) == (p.Rejected == nil) {
-			return nil, fmt.Errorf("analyze: the measured parts do not match the %d candidates (part %d of %d)", len(f.plan.Regions), p.Index, len(sorted))
+		ok := p.Index == i && (p.Record == nil) != (p.Rejected == nil) && p.Star == nil && p.Grating == nil // an edge
+		if i >= nr {                                                                                        // a pattern
+			n := 0
+			for _, b := range []bool{p.Rejected != nil, p.Star != nil, p.Grating != nil} {
+				if b {
+					n++
+				}
+			}
+			ok = p.Index == i && p.Record == nil && n <= 1
+		}
+		if !ok {
+			return nil, fmt.Errorf("analyze: the measured parts do not match the %d targets (part %d of %d)", f.Targets(), p.Index, len(sorted))
 		}
 	}
-	if len(sorted) != len(f.plan.Regions) {
-		return nil, fmt.Errorf("analyze: %d parts measured for %d candidates", len(sorted), len(f.plan.Regions))
+	if len(sorted) != f.Targets() {
+		return nil, fmt.Errorf("analyze: %d parts measured for %d targets", len(sorted), f.Targets())
+	}
+	pats := patternsOf(f.plan.Patterns, sorted[nr:], f.pose)
+	img.Rejected = append(img.Rejected, pats.rejected...)
+	for _, r := range f.rejects {
+		if !pats.coversReject(r) {
+			img.Rejected = append(img.Rejected, Rejected{r.X0, r.Y0, r.X1, r.Y1, r.Reason, string(r.Code)})
+		}
 	}
 	colour := false
-	for _, p := range sorted {
+	for i, reg := range f.cands {
+		if pats.overlaps(reg.Corners()) {
+			continue // on a star's spokes or a grating's lines: not an edge
+		}
+		var p Part
+		if k := f.slot[i]; k >= 0 {
+			p = sorted[k]
+		} else { // left out of the plan for a pattern that did not measure
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+			p = partOf(i, reg, measureOne(dec, reg, f.opt))
+		}
 		if p.Rejected != nil {
 			img.Rejected = append(img.Rejected, *p.Rejected)
 		} else {
@@ -333,8 +431,8 @@ func (f *Found) Finish(ctx context.Context, parts []Part, progress Progress) (im
 	if n, ok := chromaNote(dec); ok && colour {
 		img.warn(n)
 	}
-	img.Measurements = append(img.Measurements, f.pats.starRecords(img, f.geo)...)
-	img.Gratings = gratingInfos(f.pats.gratings)
+	img.Measurements = append(img.Measurements, pats.starRecords(img)...)
+	img.Gratings = gratingInfos(pats.gratings)
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}

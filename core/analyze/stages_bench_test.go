@@ -23,6 +23,8 @@ import (
 	"sagitta/core/decode"
 	"sagitta/core/edgefind"
 	"sagitta/core/exif"
+	"sagitta/core/internal/coarse"
+	"sagitta/core/internal/parallel"
 	"sagitta/core/sim/chartsim"
 	"sagitta/core/sim/simcam"
 )
@@ -219,16 +221,27 @@ func stageRows(b *testing.B, size string, data []byte) {
 		b.Fatal("the chart was not recognised")
 	}
 	var cands []edgefind.Candidate
-	var rejects []edgefind.Reject
 	row("native", size, "edge find", measureStage(func() {
-		cands, rejects = edgefind.Edges(dec.Lum, edgefind.Options{})
+		cands, _ = edgefind.Edges(dec.Lum, edgefind.Options{})
 	}))
-	var pats *patterns
-	row("native", size, "sine search + measure", measureStage(func() {
-		pats = findPatterns(ctx, dec.Lum, geo, 0)
-		pats.gratingsFromChart(dec.Lum, pose)
+	var jobs []PatternJob
+	row("native", size, "sine search", measureStage(func() {
+		jobs = findPatterns(coarse.NewViews(dec.Lum), geo, pose)
 	}))
-	cands, _ = pats.exclude(cands, rejects)
+	parts := make([]Part, len(jobs))
+	row("native", size, fmt.Sprintf("sine patterns measured (%d)", len(jobs)), measureStage(func() {
+		parallel.For(len(jobs), 0, func(i int) {
+			parts[i] = measurePattern(dec.Lum, jobs[i], [2]float64{geo.CentreX, geo.CentreY}, i)
+		})
+	}))
+	pats := patternsOf(jobs, parts, pose)
+	kept := cands[:0]
+	for _, c := range cands {
+		if !pats.overlaps(c.Region.Corners()) {
+			kept = append(kept, c)
+		}
+	}
+	cands = kept
 	row("native", size, fmt.Sprintf("edges measured (%d)", len(cands)), measureStage(func() {
 		measureAll(ctx, dec, regionsOf(cands), measureOptions{}, 0, func(int) {})
 	}))

@@ -36,9 +36,10 @@ type region struct {
 }
 
 // findDiscs returns the candidate mark discs of p.
-func findDiscs(p *plane.Plane) []disc {
+func findDiscs(vs *coarse.Views) []disc {
+	p := vs.Plane()
 	k := max(1, (max(p.W, p.H)+coarseSide-1)/coarseSide)
-	c := coarse.Shrink(p, k)
+	c := vs.Shrink(k)
 	if c.W < 16 || c.H < 16 {
 		return nil
 	}

@@ -5,6 +5,7 @@ import (
 	"math"
 	"sort"
 
+	"sagitta/core/internal/coarse"
 	"sagitta/core/note"
 	"sagitta/core/plane"
 )
@@ -64,8 +65,15 @@ type Pose struct {
 // each mark's disc to an ellipse of the size found (within 25 %), which
 // also checks fits through exactly four points.
 func Recognise(p *plane.Plane) (*Pose, note.Note) {
+	return RecogniseIn(coarse.NewViews(p))
+}
+
+// RecogniseIn is Recognise on the plane of vs, taking its reduced view
+// from vs (shared with the other searches of the photo).
+func RecogniseIn(vs *coarse.Views) (*Pose, note.Note) {
+	p := vs.Plane()
 	var marks []FoundMark
-	for _, d := range findDiscs(p) {
+	for _, d := range findDiscs(vs) {
 		if m, ok := readMark(p, d); ok {
 			marks = append(marks, m)
 		}

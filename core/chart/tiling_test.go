@@ -7,6 +7,7 @@ import (
 	"math"
 	"testing"
 
+	"sagitta/core/internal/coarse"
 	"sagitta/core/plane"
 )
 
@@ -170,7 +171,7 @@ func TestSheetFilesMarks(t *testing.T) {
 			}
 		}
 		best := map[int]float64{} // designed mark index -> nearest reading, mm
-		for _, dc := range findDiscs(p) {
+		for _, dc := range findDiscs(coarse.NewViews(p)) {
 			m, ok := readMark(p, dc)
 			if !ok {
 				continue

@@ -21,11 +21,15 @@ func contours(v, t *plane.Plane, minLen float64) []contour {
 	g := func(x, y int) float64 { i := y*w + x; return float64(v.Pix[i] - t.Pix[i]) }
 	// Crossing ids: horizontal side from (x,y) to (x+1,y) is 2*(y*w+x),
 	// vertical side from (x,y) to (x,y+1) is 2*(y*w+x)+1.
+	// Each crossing found gets a number k (in the order found): at[id] =
+	// k+1, its place pos[k], the segments through it ends[k] (at most two:
+	// the two cells that share its side; more go to extra, in order).
 	type seg struct{ a, b int }
 	var segs []seg
-	pos := map[int][2]float64{}
+	at := make([]int32, 2*w*h)
+	var pos [][2]float64
 	cross := func(id int) int {
-		if _, ok := pos[id]; ok {
+		if at[id] != 0 {
 			return id
 		}
 		c := id / 2
@@ -39,7 +43,8 @@ func contours(v, t *plane.Plane, minLen float64) []contour {
 		if g0 != g1 {
 			f = g0 / (g0 - g1)
 		}
-		pos[id] = [2]float64{float64(x) + 0.5 + f*float64(x2-x), float64(y) + 0.5 + f*float64(y2-y)}
+		pos = append(pos, [2]float64{float64(x) + 0.5 + f*float64(x2-x), float64(y) + 0.5 + f*float64(y2-y)})
+		at[id] = int32(len(pos))
 		return id
 	}
 	for y := 0; y+1 < h; y++ {
@@ -98,28 +103,56 @@ func contours(v, t *plane.Plane, minLen float64) []contour {
 		}
 	}
 	// Join segments through shared crossings.
-	ends := make(map[int][]int, len(pos))
-	for i, s := range segs {
-		ends[s.a] = append(ends[s.a], i)
-		ends[s.b] = append(ends[s.b], i)
+	ends := make([][2]int32, len(pos))
+	for i := range ends {
+		ends[i] = [2]int32{-1, -1}
 	}
+	extra := map[int][]int{}
+	link := func(id, i int) {
+		e := &ends[at[id]-1]
+		switch {
+		case e[0] < 0:
+			e[0] = int32(i)
+		case e[1] < 0:
+			e[1] = int32(i)
+		default:
+			extra[id] = append(extra[id], i)
+		}
+	}
+	for i, s := range segs {
+		link(s.a, i)
+		link(s.b, i)
+	}
+	// through returns the segments through crossing id, in the order
+	// linked.
+	through := func(id int, buf []int) []int {
+		buf = buf[:0]
+		for _, j := range ends[at[id]-1] {
+			if j >= 0 {
+				buf = append(buf, int(j))
+			}
+		}
+		return append(buf, extra[id]...)
+	}
+	var buf []int
 	used := make([]bool, len(segs))
 	var out []contour
 	walk := func(start, from int) []int {
 		// Follow segments from crossing `from` leaving through segment start.
 		var ids []int
-		cur, at := start, from
+		cur, here := start, from
 		for {
 			used[cur] = true
 			s := segs[cur]
 			next := s.a
-			if next == at {
+			if next == here {
 				next = s.b
 			}
 			ids = append(ids, next)
-			at = next
+			here = next
 			cur = -1
-			for _, j := range ends[at] {
+			buf = through(here, buf)
+			for _, j := range buf {
 				if !used[j] {
 					cur = j
 					break
@@ -138,7 +171,7 @@ func contours(v, t *plane.Plane, minLen float64) []contour {
 		fwd := walk(i, s.a) // a -> b -> ...
 		// Extend backwards from a.
 		var back []int
-		for _, j := range ends[s.a] {
+		for _, j := range through(s.a, nil) {
 			if !used[j] {
 				back = walk(j, s.a)
 				break
@@ -156,7 +189,7 @@ func contours(v, t *plane.Plane, minLen float64) []contour {
 		}
 		ct := contour{pts: make([][2]float64, len(ids)), closed: closed}
 		for k, id := range ids {
-			ct.pts[k] = pos[id]
+			ct.pts[k] = pos[at[id]-1]
 		}
 		if length(ct) >= minLen {
 			out = append(out, ct)

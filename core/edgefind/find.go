@@ -27,6 +27,9 @@ type Options struct {
 	MaxHalfWidthPx float64 // widest region across an edge, px each side (default 32)
 	MinHalfWidthPx float64 // narrowest acceptable region, px each side (default 10)
 	CoarsePx       int     // target size of the reduced image's longer side, px (default 1500)
+	// Views, when not nil, are reductions of the photo shared with the
+	// other searches (the same reduction is made once).
+	Views *coarse.Views
 }
 
 func (o Options) withDefaults() Options {
@@ -85,7 +88,7 @@ var reasonCode = map[string]note.Code{
 func Edges(p *plane.Plane, opt Options) ([]Candidate, []Reject) {
 	opt = opt.withDefaults()
 	k := max(1, int(math.Ceil(float64(max(p.W, p.H))/float64(opt.CoarsePx))))
-	c := coarse.Shrink(p, k)
+	c := coarse.Of(opt.Views, p).Shrink(k)
 	if c.W < 8 || c.H < 8 {
 		return nil, nil
 	}

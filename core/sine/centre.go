@@ -36,9 +36,107 @@ type centreResult struct {
 type centreOpts struct {
 	x0, y0, x1, y1 int                 // pixel box to scan (inclusive)
 	keep           func(x, y int) bool // optional mask; nil keeps all
-	rMin, rMax     float64             // annulus about the current centre, px (rMax 0 = no limit)
-	tukey          float64             // biweight scale on sin(angle); 0 = plain least squares
-	iters          int
+	// pts, when not nil, are the pixels of the box that keep keeps, with
+	// their gradients, in scan order (gradPts): given once for several
+	// fits over the same pixels.
+	pts        []gradPt
+	rMin, rMax float64 // annulus about the current centre, px (rMax 0 = no limit)
+	tukey      float64 // biweight scale on sin(angle); 0 = plain least squares
+	iters      int
+}
+
+// gradPt is one pixel of a centre fit: the pixel and the differences of
+// its neighbours, row[x+1] - row[x-1] and the same down the column, exact
+// in float32 (the gradient is half of each: gradient).
+type gradPt struct {
+	x, y   int32
+	dx, dy float32
+}
+
+// gradient returns the pixel's centre and gradient.
+func (q gradPt) gradient() (px, py, gx, gy float64) {
+	return float64(q.x) + 0.5, float64(q.y) + 0.5, 0.5 * float64(q.dx), 0.5 * float64(q.dy)
+}
+
+// pairs is the number of opposite sector pairs for the jackknife
+// (sectorPair).
+const pairs = 8
+
+// centreSums are the sums of one pass of the fit: A, b, the gradient
+// energy in and out of the tolerance, and the same per sector pair.
+type centreSums struct {
+	a         sym2
+	bx, by    float64
+	eIn, eAll float64
+	pa        [pairs]sym2
+	pbx, pby  [pairs]float64
+}
+
+// add adds the pixels pts (in scan order) that lie in the annulus of o
+// about (cx, cy) and have a gradient.
+func (s *centreSums) add(pts []gradPt, cx, cy float64, o *centreOpts) {
+	a, bx, by, eIn, eAll := s.a, s.bx, s.by, s.eIn, s.eAll
+	pa, pbx, pby := s.pa, s.pbx, s.pby
+	for _, q := range pts {
+		px, py, gx, gy := q.gradient()
+		dx, dy := px-cx, py-cy
+		r2 := dx*dx + dy*dy
+		if r2 < o.rMin*o.rMin || o.rMax > 0 && r2 > o.rMax*o.rMax {
+			continue
+		}
+		g2 := gx*gx + gy*gy
+		if g2 == 0 {
+			continue
+		}
+		// sine of the angle between the isophote and the direction
+		// to the centre: (g . d) / (|g| |d|)
+		sn := (gx*dx + gy*dy) / math.Sqrt(g2*r2+1e-300)
+		w := 1.0
+		if o.tukey > 0 {
+			u := sn / o.tukey
+			if u*u >= 1 {
+				eAll += g2
+				continue
+			}
+			w = (1 - u*u) * (1 - u*u)
+		}
+		eAll += g2
+		if math.Abs(sn) < 0.25 {
+			eIn += g2
+		}
+		axx, axy, ayy := w*gx*gx, w*gx*gy, w*gy*gy
+		gp := gx*px + gy*py
+		a[0] += axx
+		a[1] += axy
+		a[2] += ayy
+		bx += w * gx * gp
+		by += w * gy * gp
+		k := sectorPair(dx, dy)
+		pa[k][0] += axx
+		pa[k][1] += axy
+		pa[k][2] += ayy
+		pbx[k] += w * gx * gp
+		pby[k] += w * gy * gp
+	}
+	s.a, s.bx, s.by, s.eIn, s.eAll = a, bx, by, eIn, eAll
+	s.pa, s.pbx, s.pby = pa, pbx, pby
+}
+
+// gradPts lists the pixels of the box x0..x1, y0..y1 (inclusive, at least
+// 1 px from the border of p) that keep keeps (nil: all), with their
+// gradients, in scan order.
+func gradPts(p *plane.Plane, x0, y0, x1, y1 int, keep func(x, y int) bool, out []gradPt) []gradPt {
+	for y := y0; y <= y1; y++ {
+		row := p.Pix[y*p.W:]
+		up, dn := p.Pix[(y-1)*p.W:], p.Pix[(y+1)*p.W:]
+		for x := x0; x <= x1; x++ {
+			if keep != nil && !keep(x, y) {
+				continue
+			}
+			out = append(out, gradPt{int32(x), int32(y), row[x+1] - row[x-1], dn[x] - up[x]})
+		}
+	}
+	return out
 }
 
 // fitCentre iterates the isophote fit from (cx, cy).
@@ -49,64 +147,32 @@ func fitCentre(p *plane.Plane, cx, cy float64, o centreOpts) centreResult {
 	if o.x1 < o.x0 || o.y1 < o.y0 {
 		return res
 	}
-	const pairs = 8 // opposite sector pairs for the jackknife (sectorPair)
+	var row []gradPt
 	for it := 0; it < max(o.iters, 1); it++ {
-		var a sym2
-		var bx, by, eIn, eAll float64
-		var pa [pairs]sym2
-		var pbx, pby [pairs]float64
-		for y := o.y0; y <= o.y1; y++ {
-			py := float64(y) + 0.5
-			dy := py - res.y
-			row := p.Pix[y*p.W:]
-			up, dn := p.Pix[(y-1)*p.W:], p.Pix[(y+1)*p.W:]
-			for x := o.x0; x <= o.x1; x++ {
-				px := float64(x) + 0.5
-				dx := px - res.x
-				r2 := dx*dx + dy*dy
-				if r2 < o.rMin*o.rMin || o.rMax > 0 && r2 > o.rMax*o.rMax {
+		var sums centreSums
+		if o.pts != nil {
+			sums.add(o.pts, res.x, res.y, &o)
+		} else {
+			// Row by row, only the pixels of the annulus.
+			for y := o.y0; y <= o.y1; y++ {
+				dy := float64(y) + 0.5 - res.y
+				if dy*dy > o.rMax*o.rMax && o.rMax > 0 {
 					continue
 				}
-				if o.keep != nil && !o.keep(x, y) {
-					continue
+				row = row[:0]
+				x0, x1 := o.x0, o.x1
+				if o.rMax > 0 { // the annulus's chord on this row, a pixel wider
+					h := math.Sqrt(o.rMax*o.rMax-dy*dy) + 1
+					x0, x1 = max(x0, int(math.Floor(res.x-0.5-h))), min(x1, int(math.Ceil(res.x-0.5+h)))
 				}
-				gx := 0.5 * float64(row[x+1]-row[x-1])
-				gy := 0.5 * float64(dn[x]-up[x])
-				g2 := gx*gx + gy*gy
-				if g2 == 0 {
-					continue
+				if x1 >= x0 {
+					row = gradPts(p, x0, y, x1, y, o.keep, row)
 				}
-				// sine of the angle between the isophote and the direction
-				// to the centre: (g . d) / (|g| |d|)
-				s := (gx*dx + gy*dy) / math.Sqrt(g2*r2+1e-300)
-				w := 1.0
-				if o.tukey > 0 {
-					u := s / o.tukey
-					if u*u >= 1 {
-						eAll += g2
-						continue
-					}
-					w = (1 - u*u) * (1 - u*u)
-				}
-				eAll += g2
-				if math.Abs(s) < 0.25 {
-					eIn += g2
-				}
-				axx, axy, ayy := w*gx*gx, w*gx*gy, w*gy*gy
-				gp := gx*px + gy*py
-				a[0] += axx
-				a[1] += axy
-				a[2] += ayy
-				bx += w * gx * gp
-				by += w * gy * gp
-				k := sectorPair(dx, dy)
-				pa[k][0] += axx
-				pa[k][1] += axy
-				pa[k][2] += ayy
-				pbx[k] += w * gx * gp
-				pby[k] += w * gy * gp
+				sums.add(row, res.x, res.y, &o)
 			}
 		}
+		a, bx, by, eIn, eAll := sums.a, sums.bx, sums.by, sums.eIn, sums.eAll
+		pa, pbx, pby := sums.pa, sums.pbx, sums.pby
 		ai, ok := a.inv()
 		if !ok {
 			res.ok = false

@@ -48,6 +48,9 @@ const (
 type FindOptions struct {
 	CoarsePx    int     // longer side of the reduced image, px (default 1500)
 	MinRadiusPx float64 // smallest star radius, and half the smallest grating side, to report, px (default 24)
+	// Views, when not nil, are reductions of the photo shared with the
+	// other searches (the same reduction is made once).
+	Views *coarse.Views
 }
 
 func (o FindOptions) withDefaults() FindOptions {
@@ -104,7 +107,7 @@ func Find(p *plane.Plane, opt FindOptions) []Candidate {
 	// down): rounding up could leave the outer rim of a small star finer
 	// than the texture test sees at every level.
 	k := max(1, max(p.W, p.H)/opt.CoarsePx)
-	c := coarse.Shrink(p, k)
+	c := coarse.Of(opt.Views, p).Shrink(k)
 	ws := newWorkspace(c.W * c.H)
 	var out []Candidate
 	for level := 0; level < pyramidLevels; level++ {
@@ -197,15 +200,23 @@ func boxMean(dst, src, tmp []float32, w, h, rad int) {
 		for x := 0; x < min(rad, w); x++ {
 			s += float64(row[x])
 		}
-		for x := range w {
-			if x+rad < w {
-				s += float64(row[x+rad])
-			}
-			if x-rad-1 >= 0 {
-				s -= float64(row[x-rad-1])
-			}
-			n := min(x+rad, w-1) - max(x-rad, 0) + 1
-			out[x] = float32(s / float64(n))
+		// The same sums in the same order; the middle, where the window
+		// lies wholly inside the row, without the tests at the ends.
+		mid0, mid1 := rad+1, w-rad
+		if mid1 <= mid0 {
+			mid0, mid1 = w, w
+		}
+		for x := 0; x < mid0; x++ {
+			boxStep(row, out, &s, x, w, rad)
+		}
+		full := float64(2*rad + 1)
+		for x := mid0; x < mid1; x++ {
+			s += float64(row[x+rad])
+			s -= float64(row[x-rad-1])
+			out[x] = float32(s / full)
+		}
+		for x := mid1; x < w; x++ {
+			boxStep(row, out, &s, x, w, rad)
 		}
 	}
 	col := make([]float64, w)
@@ -230,6 +241,19 @@ func boxMean(dst, src, tmp []float32, w, h, rad int) {
 			dst[y*w+x] = float32(col[x] / n)
 		}
 	}
+}
+
+// boxStep moves the running sum s of boxMean's row pass to x, near an end of
+// the row, and writes the mean there.
+func boxStep(row, out []float32, s *float64, x, w, rad int) {
+	if x+rad < w {
+		*s += float64(row[x+rad])
+	}
+	if x-rad-1 >= 0 {
+		*s -= float64(row[x-rad-1])
+	}
+	n := min(x+rad, w-1) - max(x-rad, 0) + 1
+	out[x] = float32(*s / float64(n))
 }
 
 // workspace holds the buffers of the texture test, reused on every level
@@ -336,6 +360,10 @@ func components(ws *workspace, mask []bool, w, h int) ([]int32, []comp) {
 	return labels, comps
 }
 
+// maxListed is the largest blob whose pixels classify lists for its
+// centre fits (16 bytes each).
+const maxListed = 1 << 18
+
 // classify decides whether a textured blob of the reduced image c is a
 // star or a grating and returns its candidate in coarse coordinates.
 func classify(c *plane.Plane, cp comp, keep func(x, y int) bool, minR float64) (Candidate, bool) {
@@ -381,12 +409,18 @@ func classify(c *plane.Plane, cp comp, keep func(x, y int) bool, minR float64) (
 		}
 		return gratingBox(cp, keep, ang, minR)
 	}
-	// A meeting point: robust fit from the energy centroid.
+	// A meeting point: robust fit from the energy centroid. The blob's
+	// pixels and gradients are listed once for the six passes (up to
+	// maxListed pixels; a larger blob is scanned each time).
 	cx, cy := sx/sw, sy/sw
+	var pts []gradPt
+	if cp.n <= maxListed {
+		pts = gradPts(c, max(cp.x0, 1), max(cp.y0, 1), min(cp.x1, c.W-2), min(cp.y1, c.H-2), keep, make([]gradPt, 0, cp.n))
+	}
 	var res centreResult
 	for _, tk := range []float64{0.7, 0.5, 0.35} {
 		res = fitCentre(c, cx, cy, centreOpts{x0: cp.x0, y0: cp.y0, x1: cp.x1, y1: cp.y1,
-			keep: keep, rMin: 2, tukey: tk, iters: 2})
+			keep: keep, pts: pts, rMin: 2, tukey: tk, iters: 2})
 		if !res.ok {
 			return Candidate{}, false
 		}

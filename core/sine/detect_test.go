@@ -86,3 +86,32 @@ func TestFindNothing(t *testing.T) {
 		t.Errorf("found %d patterns on a page of squares and text: %+v", len(cands), cands)
 	}
 }
+
+// TestBoxMean compares the running-sum box mean with the plain mean of the
+// window clipped to the image, for rows narrower and wider than the window.
+func TestBoxMean(t *testing.T) {
+	for _, wh := range [][2]int{{5, 4}, {13, 9}, {14, 3}, {40, 31}} {
+		w, h, rad := wh[0], wh[1], 6
+		src := make([]float32, w*h)
+		for i := range src {
+			src[i] = float32((i*7919)%101) / 101
+		}
+		dst, tmp := make([]float32, w*h), make([]float32, w*h)
+		boxMean(dst, src, tmp, w, h, rad)
+		for y := range h {
+			for x := range w {
+				var s float64
+				var n int
+				for yy := max(0, y-rad); yy <= min(h-1, y+rad); yy++ {
+					for xx := max(0, x-rad); xx <= min(w-1, x+rad); xx++ {
+						s += float64(src[yy*w+xx])
+						n++
+					}
+				}
+				if d := float64(dst[y*w+x]) - s/float64(n); d > 1e-5 || d < -1e-5 {
+					t.Fatalf("%dx%d at (%d, %d): %g, want %g", w, h, x, y, dst[y*w+x], s/float64(n))
+				}
+			}
+		}
+	}
+}

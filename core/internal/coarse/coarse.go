@@ -30,12 +30,25 @@ func Shrink(p *plane.Plane, k int) *plane.Plane {
 			clear(acc)
 			for y := j * k; y < (j+1)*k; y++ {
 				row := p.Pix[y*p.W : y*p.W+w*k]
-				for i := range w {
-					var s float32
-					for _, v := range row[i*k : (i+1)*k] {
-						s += v
+				switch k { // the same sums in the same order, unrolled for the usual factors
+				case 2:
+					for i := range acc {
+						r := row[2*i : 2*i+2]
+						acc[i] += r[0] + r[1]
 					}
-					acc[i] += s
+				case 4:
+					for i := range acc {
+						r := row[4*i : 4*i+4]
+						acc[i] += r[0] + r[1] + r[2] + r[3]
+					}
+				default:
+					for i := range w {
+						var s float32
+						for _, v := range row[i*k : (i+1)*k] {
+							s += v
+						}
+						acc[i] += s
+					}
 				}
 			}
 			dst := out.Pix[j*w : (j+1)*w]
@@ -82,8 +95,7 @@ func Level(c *plane.Plane, tile int, minRatio float64) *plane.Plane {
 				for y := ty * tile; y < min((ty+1)*tile, c.H); y += 2 {
 					buf = append(buf, c.Pix[y*c.W+tx*tile:y*c.W+min((tx+1)*tile, c.W)]...)
 				}
-				slices.Sort(buf)
-				lo, hi := float64(buf[len(buf)*5/100]), float64(buf[len(buf)*95/100])
+				lo, hi := percentiles(buf, len(buf)*5/100, len(buf)*95/100)
 				if hi > 0.01 && hi >= minRatio*lo {
 					level[ty*tw+tx] = math.Sqrt(math.Max(lo, hi*1e-3) * hi)
 					known[ty*tw+tx] = true
@@ -115,23 +127,87 @@ func Level(c *plane.Plane, tile int, minRatio float64) *plane.Plane {
 		}
 	}
 	out := plane.New(c.W, c.H)
+	// The blocks and weights of each column, the same for every row.
+	cx0, cx1, cax := make([]int, c.W), make([]int, c.W), make([]float64, c.W)
+	for x := range c.W {
+		fx := (float64(x)+0.5)/float64(tile) - 0.5
+		cx0[x] = min(max(int(math.Floor(fx)), 0), tw-1)
+		cx1[x] = min(cx0[x]+1, tw-1)
+		cax[x] = math.Min(math.Max(fx-float64(cx0[x]), 0), 1)
+	}
 	rows(c.H, 4*c.W, func(ya, yb int) {
 		for y := ya; y < yb; y++ {
 			fy := (float64(y)+0.5)/float64(tile) - 0.5
 			y0 := min(max(int(math.Floor(fy)), 0), th-1)
 			y1 := min(y0+1, th-1)
 			ay := math.Min(math.Max(fy-float64(y0), 0), 1)
+			r0, r1 := sm[y0*tw:(y0+1)*tw], sm[y1*tw:(y1+1)*tw]
 			for x := range c.W {
-				fx := (float64(x)+0.5)/float64(tile) - 0.5
-				x0 := min(max(int(math.Floor(fx)), 0), tw-1)
-				x1 := min(x0+1, tw-1)
-				ax := math.Min(math.Max(fx-float64(x0), 0), 1)
-				v := (sm[y0*tw+x0]*(1-ax)+sm[y0*tw+x1]*ax)*(1-ay) + (sm[y1*tw+x0]*(1-ax)+sm[y1*tw+x1]*ax)*ay
+				x0, x1, ax := cx0[x], cx1[x], cax[x]
+				v := (r0[x0]*(1-ax)+r0[x1]*ax)*(1-ay) + (r1[x0]*(1-ax)+r1[x1]*ax)*ay
 				out.Pix[y*c.W+x] = float32(v)
 			}
 		}
 	})
 	return out
+}
+
+// percentiles returns the values of rank i and j (i <= j) of buf in
+// ascending order, as buf[i] and buf[j] after sorting it, reordering buf:
+// two selections (Hoare's FIND, quickselect) in place of a sort. A NaN
+// falls back to the sort's order.
+func percentiles(buf []float32, i, j int) (float64, float64) {
+	for _, v := range buf {
+		if v != v {
+			slices.Sort(buf)
+			return float64(buf[i]), float64(buf[j])
+		}
+	}
+	selectRank(buf, i)
+	selectRank(buf[i:], j-i) // every value past i is at least buf[i]
+	return float64(buf[i]), float64(buf[j])
+}
+
+// selectRank reorders a (no NaN) so that a[k] is the value of rank k, with
+// no larger value before it and no smaller one after it.
+func selectRank(a []float32, k int) {
+	lo, hi := 0, len(a)-1
+	for hi > lo {
+		// Median of three as the pivot, then Hoare's partition.
+		m := lo + (hi-lo)/2
+		if a[m] < a[lo] {
+			a[m], a[lo] = a[lo], a[m]
+		}
+		if a[hi] < a[lo] {
+			a[hi], a[lo] = a[lo], a[hi]
+		}
+		if a[hi] < a[m] {
+			a[hi], a[m] = a[m], a[hi]
+		}
+		pivot := a[m]
+		i, j := lo, hi
+		for i <= j {
+			for a[i] < pivot {
+				i++
+			}
+			for a[j] > pivot {
+				j--
+			}
+			if i <= j {
+				a[i], a[j] = a[j], a[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return // j < k < i: a[k] equals the pivot
+		}
+	}
 }
 
 // neighbours sums the known levels in the 3 x 3 blocks around block i

@@ -86,3 +86,66 @@ func TestSplitRowsSame(t *testing.T) {
 		t.Error("the planes differ between one CPU and several")
 	}
 }
+
+// TestPercentiles checks the selection against a full sort (the order
+// statistics are the sorted values at those ranks), with many ties.
+func TestPercentiles(t *testing.T) {
+	seed := uint32(1)
+	next := func() uint32 { seed = seed*1664525 + 1013904223; return seed >> 8 }
+	for _, n := range []int{1, 2, 3, 7, 64, 257, 1024} {
+		for _, spread := range []uint32{3, 1000, 1 << 24} {
+			buf := make([]float32, n)
+			for i := range buf {
+				buf[i] = float32(next()%spread) / 7
+			}
+			want := slices.Clone(buf)
+			slices.Sort(want)
+			i, j := n*5/100, n*95/100
+			lo, hi := percentiles(buf, i, j)
+			if lo != float64(want[i]) || hi != float64(want[j]) {
+				t.Errorf("n %d spread %d: %g, %g; sorted %g, %g", n, spread, lo, hi, want[i], want[j])
+			}
+		}
+	}
+}
+
+// TestViews: a shared reduction is Shrink's, made once.
+func TestViews(t *testing.T) {
+	p := plane.New(40, 30)
+	for i := range p.Pix {
+		p.Pix[i] = float32(i%13) / 13
+	}
+	v := NewViews(p)
+	a := v.Shrink(4)
+	if !slices.Equal(a.Pix, Shrink(p, 4).Pix) || v.Shrink(4) != a || v.Shrink(1) != p {
+		t.Error("the shared reduction differs from Shrink's or is made again")
+	}
+	if Of(v, p) != v || Of(v, plane.New(4, 4)) == v || Of(nil, p) == nil {
+		t.Error("Of")
+	}
+}
+
+// TestShrinkFactors: every factor's block means (the unrolled ones and the
+// general loop) agree with means taken in float64.
+func TestShrinkFactors(t *testing.T) {
+	p := plane.New(61, 37)
+	for i := range p.Pix {
+		p.Pix[i] = float32((i*7919)%1000) / 997
+	}
+	for k := 2; k <= 6; k++ {
+		c := Shrink(p, k)
+		for j := range c.H {
+			for i := range c.W {
+				var s float64
+				for y := j * k; y < (j+1)*k; y++ {
+					for x := i * k; x < (i+1)*k; x++ {
+						s += float64(p.At(x, y))
+					}
+				}
+				if d := float64(c.At(i, j)) - s/float64(k*k); d > 1e-6 || d < -1e-6 {
+					t.Fatalf("k %d block (%d, %d): %g, mean %g", k, i, j, c.At(i, j), s/float64(k*k))
+				}
+			}
+		}
+	}
+}
