@@ -5,10 +5,6 @@ package analyze
 import (
 	"context"
 	"testing"
-
-	sheet "sagitta/core/chart"
-	"sagitta/core/decode"
-	"sagitta/core/edgefind"
 )
 
 // BenchmarkEdgesOfChartPhoto times the measuring of every edge region of the
@@ -19,28 +15,18 @@ import (
 func BenchmarkEdgesOfChartPhoto(b *testing.B) {
 	_, data := benchChartPhoto(b, "24")
 	ctx := context.Background()
-	dec, err := decode.Decode(data, decode.Options{})
+	f, err := Find(ctx, Photo{Name: "chart-24MP.jpg", Data: data}, Settings{}, nil)
 	if err != nil {
 		b.Fatal(err)
 	}
-	img := &Image{Width: dec.Width, Height: dec.Height, Exif: exifOf(dec.Exif)}
-	geo, err := placeFrame(img, Settings{}, DefaultFreqsLPMM)
-	if err != nil {
-		b.Fatal(err)
-	}
-	pose, _ := sheet.Recognise(dec.Lum)
-	if pose == nil {
+	if f.pose == nil {
 		b.Fatal("the chart was not recognised")
 	}
-	cands, rejects := edgefind.Edges(dec.Lum, edgefind.Options{})
-	pats := findPatterns(ctx, dec.Lum, geo, 0)
-	pats.gratingsFromChart(dec.Lum, pose)
-	cands, _ = pats.exclude(cands, rejects)
-	regions := regionsOf(cands)
+	dec, regions := f.dec, f.plan.Regions
 	b.ReportAllocs()
 	c0 := cpuTime()
 	for b.Loop() {
-		measureAll(ctx, dec, regions, measureOptions{}, 1, func(int) {})
+		measureAll(ctx, dec, regions, f.opt, 1, func(int) {})
 	}
 	c1 := cpuTime()
 	b.ReportMetric(float64(len(regions)), "edges")
