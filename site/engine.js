@@ -26,9 +26,9 @@ export function engine() {
 
 async function start() {
   const [module, url] = await Promise.all([compile(compressed('core-wasm-gzip', 'sagitta-wasm.js', 'sagittaCoreGzip')), workerURL()]);
-  // ?decoder=core makes the core decode every photo (the browser decodes
-  // JPEG and 8-bit PNG by default; ?decoder=browser says so explicitly):
-  // for the decoders' comparison and the benchmark.
+  // ?decoder=browser lets the browser decode JPEG and 8-bit PNG (the core
+  // decodes every photo by default; ?decoder=core says so explicitly): for
+  // the decoders' comparison and the benchmark.
   const decoder = new URLSearchParams(location.search).get('decoder');
   return new Pool({ module, spawn: () => new Worker(url), size: poolSize(), ...(decoder === 'core' || decoder === 'browser' ? { decoder } : {}) });
 }

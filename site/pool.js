@@ -27,12 +27,16 @@ const CORE_MAX_PIXELS = 120e6;
 
 /**
  * DECODER is who decodes JPEG and 8-bit PNG photos by default (see the
- * Pool's decoder option): the browser, whose decoder is several times
- * faster than the core's in WebAssembly and gives the very pixels the core
- * gives (the core decodes JPEG as libjpeg-turbo does, the browsers'
- * decoder; site/test/decoders.test.mjs checks it).
+ * Pool's decoder option): the core. The browser's decoder gives the very
+ * same pixels (the core decodes JPEG as libjpeg-turbo does, the browsers'
+ * decoder; site/test/decoders.test.mjs checks it) but in the page it is
+ * slower and larger: the bitmap, its copy out of a canvas and the core's
+ * conversion of RGBA to luminance took 1.5 s of a 24 MP photo against 0.9 s
+ * for the core's own decoding, and the RGBA bytes are kept at 4 bytes a
+ * pixel against the JPEG's 1.5 (README, "Speed in the page").
+ * `?decoder=browser` chooses it.
  */
-const DECODER = 'browser';
+const DECODER = 'core';
 
 /** photoPixels is what a photo counts against the budget: its declared pixels. */
 function photoPixels(bytes) {
@@ -56,12 +60,31 @@ let nextId = 1;
 const FIRST_RANGE = 8;
 
 /**
- * chunkSize is how many targets one "measure" message asks for: small
- * enough that the first targets show early and every worker keeps busy to
- * the end, large enough that messages cost little (8 to 48).
+ * measureRanges shares a photo's targets out in ranges [lo, hi) for the
+ * workers: first one short range of edges per worker, so that targets show
+ * soon; then each sine pattern alone (the targets after the edges: one costs
+ * as much as tens of edges, and measured last they kept one worker busy
+ * for a second while the others waited); then the rest of the edges in
+ * ranges that shrink as they run out (what is left over twice the workers,
+ * 8 to 48 targets), so that the workers end together.
  */
-export function chunkSize(targets, workers) {
-  return Math.max(8, Math.min(48, Math.ceil(targets / (6 * Math.max(1, workers)))));
+export function measureRanges(targets, edges, workers) {
+  const w = Math.max(1, workers);
+  const e = Math.max(0, Math.min(edges, targets));
+  const out = [];
+  let lo = 0;
+  for (let k = 0; k < w && lo < e; k++) {
+    const hi = Math.min(e, lo + FIRST_RANGE);
+    out.push([lo, hi]);
+    lo = hi;
+  }
+  for (let i = e; i < targets; i++) out.push([i, i + 1]);
+  while (lo < e) {
+    const hi = Math.min(e, lo + Math.max(FIRST_RANGE, Math.min(48, Math.ceil((e - lo) / (2 * w)))));
+    out.push([lo, hi]);
+    lo = hi;
+  }
+  return out;
 }
 
 export class Pool {
@@ -317,7 +340,7 @@ export class Pool {
       case FROM_WORKER.result:
         if (job.photo) this.end(job);
         this.finish(slot, msg.memory);
-        job.resolve({ result: msg.result, preview: msg.preview, decodedBy: msg.decodedBy });
+        job.resolve({ result: typeof msg.resultJSON === 'string' ? JSON.parse(msg.resultJSON) : msg.result, preview: msg.preview, decodedBy: msg.decodedBy });
         break;
       case FROM_WORKER.error:
         if (job.photo) this.end(job);
@@ -343,20 +366,20 @@ export class Pool {
     job.frame = { width: msg.width, height: msg.height, orientation: msg.orientation || 0 };
     job.parts = [];
     job.measured = 0;
-    job.pending = [];
-    // The first range of each worker is short, so that targets show soon.
-    const n = chunkSize(msg.targets, this.size);
-    for (let lo = 0, k = 0; lo < msg.targets; k++) {
-      const hi = Math.min(msg.targets, lo + (k < this.size ? Math.min(n, FIRST_RANGE) : n));
-      job.pending.push([lo, hi]);
-      lo = hi;
+    let plan = null;
+    try {
+      plan = JSON.parse(msg.plan);
+    } catch {
+      // a plan this page cannot read: every target is measured as an edge would be
     }
+    const edges = plan && Array.isArray(plan.regions) ? plan.regions.length : msg.targets;
+    job.pending = measureRanges(msg.targets, edges, this.size);
     job.outstanding = 0;
     if (job.onProgress) job.onProgress(STAGE_MEASURING, 0.3);
-    if (job.onParts) {
+    if (job.onParts && plan) {
       try {
         // The targets found, before any is measured.
-        job.onParts([], { measured: 0, targets: job.targets, decodedBy: job.decodedBy, frame: job.frame, plan: JSON.parse(msg.plan) });
+        job.onParts([], { measured: 0, targets: job.targets, decodedBy: job.decodedBy, frame: job.frame, plan });
       } catch {
         // showing the targets early is a courtesy; the result does not depend on it
       }
@@ -400,7 +423,7 @@ export class Pool {
   // measured takes a range's parts and hands out the next range.
   measured(slot, job, msg) {
     job.outstanding--;
-    job.parts.push(msg.parts);
+    if (slot !== job.finder) job.parts.push(msg.parts); // the finder keeps its own (wasm/stages.go)
     job.measured += msg.hi - msg.lo;
     if (job.onParts) {
       try {

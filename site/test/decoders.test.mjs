@@ -53,7 +53,7 @@ test('browser and core decode the same JPEGs to the same luminance and measureme
   const src = demoPhoto(4);
   const context = await env.browser.newContext();
   const page = await context.newPage();
-  await page.goto(env.server.url); // the browser decodes by default
+  await page.goto(env.server.url + '?decoder=browser'); // the core decodes by default
   await waitEngine(page);
   for (const [name, args] of VARIANTS) {
     if (name === 'icc' && !fs.existsSync(ICC)) {
