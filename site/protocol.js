@@ -77,12 +77,14 @@
 //                                                "finding targets",
 //                                                "measuring", "summarising"),
 //                                                fraction of the job, 0..1
-//   {type: "result", id, result, preview, decodedBy, memory}
-//                                                result: for "analyze" the
-//                                                photo's analysis (one entry
-//                                                of the JSON contract's
-//                                                "images"), for "call" the
-//                                                function's value; preview:
+//   {type: "result", id, result | resultJSON, preview, decodedBy, memory}
+//                                                resultJSON: for "analyze"
+//                                                the photo's analysis as JSON
+//                                                text (one entry of the JSON
+//                                                contract's "images", parsed
+//                                                by the page); result: for
+//                                                "call" the function's
+//                                                value; preview:
 //                                                null or {width, height,
 //                                                factor, pixels (Uint8Array,
 //                                                grey)}, transferred;

@@ -32,14 +32,18 @@ import (
 //	sagittaMeasure(id, lo, hi) -> string (JSON [analyze.Part])
 //	    measures the targets lo..hi-1 (edge candidates, then sine patterns)
 //	sagittaFinish(id, parts string (JSON [analyze.Part])) -> string (JSON)
-//	    merges every target's part and summarises: the photo's analysis
-//	    (analyze.Image); the photo is released
+//	    merges the parts measured by other workers with those this worker
+//	    measured itself (kept here: they do not travel through JSON twice)
+//	    and summarises: the photo's analysis (analyze.Image); the photo is
+//	    released
 //	sagittaRelease(id)
 //	    drops a photo the worker holds
 
 var (
 	found    = map[int]*analyze.Found{}
 	measurer = map[int]*analyze.Measurer{}
+	// kept holds the parts a finder measured itself, until it finishes.
+	kept = map[int][]analyze.Part{}
 )
 
 // photoArgs reads (name, bytes, pixels, width, height, settings) at args[i:].
@@ -132,7 +136,8 @@ func measureJS(args []js.Value) (any, error) {
 	}
 	id, lo, hi := args[0].Int(), args[1].Int(), args[2].Int()
 	var m *analyze.Measurer
-	if f := found[id]; f != nil {
+	f := found[id]
+	if f != nil {
 		m = &f.Measurer
 	} else if m = measurer[id]; m == nil {
 		return nil, fmt.Errorf("no photo %d to measure", id)
@@ -143,6 +148,9 @@ func measureJS(args []js.Value) (any, error) {
 	parts, err := m.Measure(context.Background(), lo, hi, nil)
 	if err != nil {
 		return nil, err
+	}
+	if f != nil {
+		kept[id] = append(kept[id], parts...)
 	}
 	b, err := json.Marshal(parts)
 	return string(b), err
@@ -158,10 +166,13 @@ func finishJS(args []js.Value) (any, error) {
 		return nil, fmt.Errorf("no photo %d found", id)
 	}
 	delete(found, id)
-	var parts []analyze.Part
-	if err := json.Unmarshal([]byte(args[1].String()), &parts); err != nil {
+	parts := kept[id]
+	delete(kept, id)
+	var others []analyze.Part
+	if err := json.Unmarshal([]byte(args[1].String()), &others); err != nil {
 		return nil, fmt.Errorf("parts: %v", err)
 	}
+	parts = append(parts, others...)
 	img, err := f.Finish(context.Background(), parts, nil)
 	if err != nil {
 		return nil, err
@@ -176,6 +187,7 @@ func releaseJS(args []js.Value) (any, error) {
 	}
 	delete(found, args[0].Int())
 	delete(measurer, args[0].Int())
+	delete(kept, args[0].Int())
 	return true, nil
 }
 

@@ -5,7 +5,7 @@
 
 import { test } from 'node:test';
 import assert from 'node:assert/strict';
-import { Pool, AbortError, poolSize, chunkSize } from '../pool.js';
+import { Pool, AbortError, poolSize, measureRanges } from '../pool.js';
 
 // FakeWorker answers init at once and keeps other messages for the test to answer.
 class FakeWorker {
@@ -232,7 +232,6 @@ test('one photo over the whole pool: found by one worker, ranges measured by all
   const [f, h] = workers;
   assert.deepEqual([f.inbox[0].type, h.inbox[0].type], ['analyze', 'prepare'], 'the second worker decodes the photo while the first finds its targets');
   assert.ok(h.inbox[0].bytes.byteLength > 0 && f.inbox[0].bytes !== h.inbox[0].bytes, 'each worker has its own copy of the file');
-  assert.equal(chunkSize(20, 2), 8);
   f.reply({ type: 'found', id: f.inbox[0].id, targets: 20, plan: 'PLAN', decodedBy: 'browser' });
   await tick();
   assert.deepEqual(f.inbox.slice(1).map((m) => [m.type, m.lo, m.hi]), [['measure', 0, 8]]);
@@ -252,7 +251,7 @@ test('one photo over the whole pool: found by one worker, ranges measured by all
   assert.equal(h.inbox[2].type, 'release');
   const fin = f.inbox[3];
   assert.equal(fin.type, 'finish');
-  assert.deepEqual(JSON.parse(fin.parts).map((x) => x.index).sort((a, b) => a - b), Array.from({ length: 20 }, (_, k) => k));
+  assert.deepEqual(JSON.parse(fin.parts).map((x) => x.index).sort((a, b) => a - b), Array.from({ length: 8 }, (_, k) => 8 + k), "the helper's parts: the finder keeps its own");
   assert.deepEqual(seen, [[8, 8, 20], [4, 12, 20], [8, 20, 20]]);
   f.reply({ type: 'result', id: fin.id, result: { file: 'a' }, decodedBy: 'browser' });
   const r = await job.promise;
@@ -322,10 +321,26 @@ test('a quick call does not wait for a photo spread over every worker: a helper 
     }
     const fin = f.inbox.find((m) => m.type === 'finish');
     if (fin) {
-      assert.equal(JSON.parse(fin.parts).length, 100);
+      const byHelper = h.inbox.filter((m) => m.type === 'measure').reduce((n, m) => n + m.hi - m.lo, 0);
+      assert.equal(JSON.parse(fin.parts).length, byHelper, "the helper's parts: the finder keeps its own");
       f.reply({ type: 'result', id: fin.id, result: { file: 'a' } });
       break;
     }
   }
   assert.equal((await job.promise).result.file, 'a');
+});
+
+test('the targets are shared out: a short first range per worker, each sine pattern alone, then shrinking ranges of edges', () => {
+  const r = measureRanges(300, 290, 2);
+  assert.deepEqual(r.slice(0, 2), [[0, 8], [8, 16]]);
+  assert.deepEqual(r.slice(2, 12), Array.from({ length: 10 }, (_, k) => [290 + k, 291 + k]), 'each pattern alone, before the rest of the edges');
+  const rest = r.slice(12);
+  assert.deepEqual(rest[0], [16, 16 + 48]);
+  for (let k = 1; k < rest.length; k++) {
+    assert.equal(rest[k][0], rest[k - 1][1], 'ranges follow each other');
+    assert.ok(rest[k][1] - rest[k][0] <= rest[k - 1][1] - rest[k - 1][0] || rest[k][1] === 290, 'ranges shrink as the edges run out');
+  }
+  assert.equal(rest[rest.length - 1][1], 290);
+  assert.deepEqual(measureRanges(20, 20, 2), [[0, 8], [8, 16], [16, 20]]);
+  assert.deepEqual(measureRanges(3, 0, 2), [[0, 1], [1, 2], [2, 3]], 'a photo of patterns only');
 });
