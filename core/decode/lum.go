@@ -3,7 +3,6 @@ package decode
 import (
 	"image"
 	"image/color"
-	"runtime"
 	"sync/atomic"
 
 	"sagitta/core/decode/jpegdec"
@@ -33,29 +32,9 @@ type converter struct {
 
 func newConverter(t Tone) *converter { return &converter{tone: t} }
 
-// parallelRows runs fn over row ranges [y0, y1) covering [0, h), on
-// several goroutines when the image is large and more than one CPU is
-// available. On one CPU (always under js/wasm, where GOMAXPROCS is 1) a
-// large image still goes in bands of rows, one call each: a browser runs a
-// WebAssembly function with its quick first compilation until the function
-// is called again (it does not swap the code of a running call), so one
-// call over a whole 24 MP plane ran at a third of the speed of the same
-// loop called band by band.
-func parallelRows(w, h int, fn func(y0, y1 int)) {
-	n := runtime.GOMAXPROCS(0)
-	if w*h < 1<<18 || h < 2 {
-		fn(0, h)
-		return
-	}
-	if n < 2 {
-		band := max(1, (1<<16)/w)
-		for y := 0; y < h; y += band {
-			fn(y, min(y+band, h))
-		}
-		return
-	}
-	parallel.Ranges(h, min(n, 8, h), fn)
-}
+// parallelRows runs fn over row ranges [y0, y1) covering [0, h) of a
+// plane w pixels wide (parallel.Rows).
+func parallelRows(w, h int, fn func(y0, y1 int)) { parallel.Rows(h, w, fn) }
 
 // luminance builds the plane. It reads the pixel buffers of the image types
 // the standard decoders return directly; other types go through At.

@@ -5,7 +5,6 @@ package coarse
 
 import (
 	"math"
-	"runtime"
 	"slices"
 
 	"sagitta/core/internal/parallel"
@@ -60,18 +59,10 @@ func Shrink(p *plane.Plane, k int) *plane.Plane {
 	return out
 }
 
-// rows runs f over ranges [j0, j1) covering [0, h) on several goroutines
-// when the work (about size samples read per row) is large and more than one
-// CPU is available (never under js/wasm, where GOMAXPROCS is 1). Every
-// output row is computed alone, so the result does not depend on the split.
-func rows(h, size int, f func(j0, j1 int)) {
-	n := runtime.GOMAXPROCS(0)
-	if n < 2 || h < 2 || h*size < 1<<18 {
-		f(0, h)
-		return
-	}
-	parallel.Ranges(h, min(n, 8, h), f)
-}
+// rows runs f over ranges [j0, j1) covering [0, h), each row reading
+// about size samples (parallel.Rows). Every output row is computed alone,
+// so the result does not depend on the split.
+func rows(h, size int, f func(j0, j1 int)) { parallel.Rows(h, size, f) }
 
 // Level returns, for every pixel of c, the level that separates dark from
 // light locally: the geometric mean of the 5th and 95th percentiles of each

@@ -1,6 +1,7 @@
 package parallel
 
 import (
+	"runtime"
 	"sync/atomic"
 	"testing"
 )
@@ -51,6 +52,41 @@ func TestRanges(t *testing.T) {
 					t.Errorf("n %d, parts %d: index %d covered %d times", n, parts, i, c)
 				}
 			}
+		}
+	}
+}
+
+// Rows covers every row once, in one call for a small job, and in bands of
+// rows in order on one CPU.
+func TestRows(t *testing.T) {
+	for _, c := range []struct{ h, work int }{{1, 10}, {100, 10}, {4000, 6000}, {37, 1 << 16}} {
+		counts := make([]atomic.Int32, c.h)
+		var calls atomic.Int32
+		Rows(c.h, c.work, func(y0, y1 int) {
+			calls.Add(1)
+			for y := y0; y < y1; y++ {
+				counts[y].Add(1)
+			}
+		})
+		for y := range counts {
+			if n := counts[y].Load(); n != 1 {
+				t.Fatalf("h %d: row %d covered %d times", c.h, y, n)
+			}
+		}
+		if c.h*c.work < 1<<18 && calls.Load() != 1 {
+			t.Errorf("h %d, work %d: a small job in %d calls", c.h, c.work, calls.Load())
+		}
+	}
+	prev := runtime.GOMAXPROCS(1)
+	defer runtime.GOMAXPROCS(prev)
+	var bands [][2]int
+	Rows(4000, 6000, func(y0, y1 int) { bands = append(bands, [2]int{y0, y1}) })
+	if len(bands) < 8 || bands[0][0] != 0 || bands[len(bands)-1][1] != 4000 {
+		t.Fatalf("one CPU: %d bands %v...", len(bands), bands[:min(3, len(bands))])
+	}
+	for i := 1; i < len(bands); i++ {
+		if bands[i][0] != bands[i-1][1] {
+			t.Fatalf("one CPU: bands out of order at %d: %v", i, bands[i-1:i+1])
 		}
 	}
 }
