@@ -3,11 +3,13 @@
 // read noise, site/testphoto) dropped on the served page in headless
 // Chromium, with one worker and with all of them. For each it prints a row
 //
-//   | page | 24 MP | all workers | first 1.2 s | full 2.3 s | 410 MB |
+//   | page | 24 MP | drop -> first targets / result, all workers | 1.2 s / 2.3 s | - | 410 MB workers |
 //
-// first: drop -> the first measured targets drawn on the photo; full: drop ->
-// the whole result (status "done"); the last column is the workers'
-// WebAssembly memory after the run (their largest memory, summed); a photo
+// in the columns of `make bench`'s native table (where, photo, stage, time,
+// allocated, peak): first: drop -> the first measured targets drawn on the
+// photo; result: drop -> the whole result (status "done"); the last column
+// is the workers' WebAssembly memory after the run (their largest memory,
+// summed); a photo
 // the page cannot measure gets its row's sentence instead. Times are
 // printed, never asserted. SAGITTA_BENCH_MP=6,24 picks sizes;
 // SAGITTA_BENCH_DECODER=core|browser who decodes the JPEGs (the page's
@@ -31,10 +33,10 @@ try {
       const label = workers === 1 ? '1 worker' : 'all workers';
       const r = await once(file, workers);
       if (r.error) {
-        console.log(`| page | ${mp} MP | ${label} | not measured: ${r.error} | | |`);
+        console.log(`| page | ${mp} MP | drop -> result, ${label} | not measured: ${r.error} | - | - |`);
         continue;
       }
-      console.log(`| page | ${mp} MP | ${label} | first ${sec(r.first)} | full ${sec(r.full)} | ${Math.round(r.memory / 2 ** 20)} MB |`);
+      console.log(`| page | ${mp} MP | drop -> first targets / result, ${label} | ${sec(r.first)} / ${sec(r.full)} | - | ${Math.round(r.memory / 2 ** 20)} MB workers |`);
       console.error(`${mp} MP, ${label}: targets found after ${sec(r.found)}`);
     }
   }
