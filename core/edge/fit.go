@@ -3,6 +3,8 @@ package edge
 import (
 	"math"
 	"slices"
+
+	"sagitta/core/internal/rank"
 )
 
 // lineFit is the fitted edge in a region's frame: the edge passes through
@@ -420,52 +422,6 @@ func percentiles(v []float64, p, q float64, buf *[]float64) (float64, float64) {
 	} else {
 		c = append([]float64(nil), v...)
 	}
-	at := func(q float64) float64 { return nth(c, int(q*float64(len(c)-1))) }
+	at := func(q float64) float64 { return rank.Select(c, int(q*float64(len(c)-1))) }
 	return at(p), at(q)
-}
-
-// nth returns the k-th smallest value of c (0-based; the value c[k] would
-// have after sorting), reordering c: Hoare's selection (C. A. R. Hoare,
-// "Algorithm 65: Find", Comm. ACM 4(7), 1961) with a median-of-three pivot,
-// linear time on average instead of a sort's n log n. The values must not
-// be NaN.
-func nth(c []float64, k int) float64 {
-	lo, hi := 0, len(c)-1
-	for hi > lo {
-		mid := lo + (hi-lo)/2
-		if c[mid] < c[lo] {
-			c[mid], c[lo] = c[lo], c[mid]
-		}
-		if c[hi] < c[lo] {
-			c[hi], c[lo] = c[lo], c[hi]
-		}
-		if c[hi] < c[mid] {
-			c[hi], c[mid] = c[mid], c[hi]
-		}
-		pivot := c[mid]
-		i, j := lo, hi
-		for i <= j {
-			for c[i] < pivot {
-				i++
-			}
-			for c[j] > pivot {
-				j--
-			}
-			if i <= j {
-				c[i], c[j] = c[j], c[i]
-				i++
-				j--
-			}
-		}
-		// Now c[lo..j] <= pivot <= c[i..hi], and c[j+1..i-1] == pivot.
-		switch {
-		case k <= j:
-			hi = j
-		case k >= i:
-			lo = i
-		default:
-			return c[k]
-		}
-	}
-	return c[k]
 }

@@ -1,6 +1,10 @@
 package field
 
-import "math"
+import (
+	"math"
+
+	"sagitta/core/internal/rank"
+)
 
 // MapCells is the number of map cells along the photo's longer side; the
 // shorter side gets round(MapCells * short / long) cells (16 for 3:2).
@@ -188,7 +192,7 @@ func siteSpacing(sites []mapSite) float64 {
 				d = append(d, dx*dx+dy*dy)
 			}
 		}
-		kth[i] = math.Sqrt(selectK(d, k-1))
+		kth[i] = math.Sqrt(rank.Select(d, k-1))
 	}
 	return median(kth)
 }

@@ -3,6 +3,8 @@ package field
 import (
 	"math"
 	"sort"
+
+	"sagitta/core/internal/rank"
 )
 
 // LOWESS: locally weighted regression with bisquare robustness iterations,
@@ -484,7 +486,7 @@ func median(v []float64) float64 {
 	if n == 0 {
 		return math.NaN()
 	}
-	m := selectK(v, n/2)
+	m := rank.Select(v, n/2)
 	if n%2 == 1 {
 		return m
 	}
@@ -494,51 +496,6 @@ func median(v []float64) float64 {
 		lo = math.Max(lo, x)
 	}
 	return (lo + m) / 2
-}
-
-// selectK reorders v so that v[k] is the element that sorting would put
-// there, with no larger element before it and no smaller after it, and
-// returns it (C. A. R. Hoare, "Algorithm 65: Find", Commun. ACM 4 (1961)
-// 321-322; expected linear time). v must not hold NaN.
-func selectK(v []float64, k int) float64 {
-	lo, hi := 0, len(v)-1
-	for lo < hi {
-		// Median of three as the pivot keeps sorted input linear.
-		mid := lo + (hi-lo)/2
-		if v[mid] < v[lo] {
-			v[mid], v[lo] = v[lo], v[mid]
-		}
-		if v[hi] < v[lo] {
-			v[hi], v[lo] = v[lo], v[hi]
-		}
-		if v[hi] < v[mid] {
-			v[hi], v[mid] = v[mid], v[hi]
-		}
-		p := v[mid]
-		i, j := lo, hi
-		for i <= j {
-			for v[i] < p {
-				i++
-			}
-			for v[j] > p {
-				j--
-			}
-			if i <= j {
-				v[i], v[j] = v[j], v[i]
-				i++
-				j--
-			}
-		}
-		switch {
-		case k <= j:
-			hi = j
-		case k >= i:
-			lo = i
-		default:
-			return v[k]
-		}
-	}
-	return v[k]
 }
 
 func maxAbs(v []float64) float64 {

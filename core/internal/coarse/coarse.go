@@ -8,6 +8,7 @@ import (
 	"slices"
 
 	"sagitta/core/internal/parallel"
+	"sagitta/core/internal/rank"
 	"sagitta/core/plane"
 )
 
@@ -154,51 +155,9 @@ func percentiles(buf []float32, i, j int) (float64, float64) {
 			return float64(buf[i]), float64(buf[j])
 		}
 	}
-	selectRank(buf, i)
-	selectRank(buf[i:], j-i) // every value past i is at least buf[i]
+	rank.Select(buf, i)
+	rank.Select(buf[i:], j-i) // every value past i is at least buf[i]
 	return float64(buf[i]), float64(buf[j])
-}
-
-// selectRank reorders a (no NaN) so that a[k] is the value of rank k, with
-// no larger value before it and no smaller one after it.
-func selectRank(a []float32, k int) {
-	lo, hi := 0, len(a)-1
-	for hi > lo {
-		// Median of three as the pivot, then Hoare's partition.
-		m := lo + (hi-lo)/2
-		if a[m] < a[lo] {
-			a[m], a[lo] = a[lo], a[m]
-		}
-		if a[hi] < a[lo] {
-			a[hi], a[lo] = a[lo], a[hi]
-		}
-		if a[hi] < a[m] {
-			a[hi], a[m] = a[m], a[hi]
-		}
-		pivot := a[m]
-		i, j := lo, hi
-		for i <= j {
-			for a[i] < pivot {
-				i++
-			}
-			for a[j] > pivot {
-				j--
-			}
-			if i <= j {
-				a[i], a[j] = a[j], a[i]
-				i++
-				j--
-			}
-		}
-		switch {
-		case k <= j:
-			hi = j
-		case k >= i:
-			lo = i
-		default:
-			return // j < k < i: a[k] equals the pivot
-		}
-	}
 }
 
 // neighbours sums the known levels in the 3 x 3 blocks around block i
