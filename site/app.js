@@ -220,7 +220,7 @@ async function measure(p) {
   }, (parts, count) => {
     // Results as they come: the targets measured so far, on the photo.
     if (p.job !== job) return;
-    if (!p.partial) p.partial = { records: [], measured: 0, targets: 0, found: [], done: new Set() };
+    if (!p.partial) p.partial = { records: [], measured: 0, targets: 0, found: [], done: new Set(), frame: count.frame };
     if (count.plan) p.partial.found = foundOutlines(count.plan); // outlined as soon as they are found
     for (const part of parts) {
       p.partial.done.add(part.index);
@@ -251,6 +251,7 @@ async function measure(p) {
   } catch (e) {
     if (p.job !== job) return;
     p.job = null;
+    p.partial = null; // the row and the panel say why; no targets are drawn
     if (e instanceof AbortError) {
       p.status = 'cancelled';
       updateRow(p);
@@ -527,7 +528,8 @@ async function showSelected() {
 // polygon round its disc, a grating by its corners).
 function foundOutlines(plan) {
   const out = [];
-  plan.regions.forEach((r, i) => {
+  const regions = plan.regions || []; // the core writes none as null
+  regions.forEach((r, i) => {
     const a = (r.AngleDeg * Math.PI) / 180;
     const [tx, ty, nx, ny] = [Math.cos(a), Math.sin(a), -Math.sin(a), Math.cos(a)];
     const pts = [[-1, -1], [1, -1], [1, 1], [-1, 1]].map(([u, v]) => [r.X + u * r.HalfLen * tx + v * r.HalfWidth * nx, r.Y + u * r.HalfLen * ty + v * r.HalfWidth * ny]);
@@ -539,7 +541,7 @@ function foundOutlines(plan) {
       const [x, y, rad] = [j.x_px || 0, j.y_px || 0, 1.1 * (j.radius_px || 0)]; // just outside its rim
       pts = Array.from({ length: 24 }, (_, i) => [x + rad * Math.cos((i * Math.PI) / 12), y + rad * Math.sin((i * Math.PI) / 12)]);
     }
-    out.push({ index: plan.regions.length + k, pts });
+    out.push({ index: regions.length + k, pts });
   });
   return out;
 }
