@@ -304,6 +304,9 @@ func cliRow(b *testing.B, size, path string) {
 	row("CLI", size, fmt.Sprintf("whole analysis, %.1f MB file", float64(st.Size())/1e6), c)
 }
 
+// vmHWMLine is the peak resident set's line of a /proc status file.
+var vmHWMLine = regexp.MustCompile(`(?m)^VmHWM:\s+(\d+) kB`)
+
 // vmHWM reads a process's peak resident set (kB) from its /proc status
 // file, or -1.
 func vmHWM(status string) int64 {
@@ -311,7 +314,7 @@ func vmHWM(status string) int64 {
 	if err != nil {
 		return -1
 	}
-	m := regexp.MustCompile(`(?m)^VmHWM:\s+(\d+) kB`).FindSubmatch(b)
+	m := vmHWMLine.FindSubmatch(b)
 	if m == nil {
 		return -1
 	}

@@ -6,6 +6,7 @@ import (
 	"sort"
 	"sync"
 
+	"sagitta/core/internal/parallel"
 	"sagitta/core/plane"
 )
 
@@ -107,14 +108,14 @@ func (f *Fitted) At(x float64) float64 {
 // top of the file's values) is kept, and no other value is mapped onto or
 // above it.
 func (f *Fitted) Apply(p *plane.Plane, scale float64) {
-	// Both passes run over row ranges in parallel (parallelRows); the
+	// Both passes run over row ranges in parallel (parallel.Rows); the
 	// largest value does not depend on the order it is found in. Plain
 	// comparisons rather than the min and max builtins: the same values for
 	// pixels (never NaN), and WebAssembly makes each builtin a call, which
 	// was a third of this pass's time in the page.
 	var mu sync.Mutex
 	var hi float32
-	parallelRows(p.W, p.H, func(y0, y1 int) {
+	parallel.Rows(p.H, p.W, func(y0, y1 int) {
 		var h float32
 		for _, v := range p.Pix[y0*p.W : y1*p.W] {
 			if v > h {
@@ -135,7 +136,7 @@ func (f *Fitted) Apply(p *plane.Plane, scale float64) {
 	}
 	k := float32(n) / hi
 	const top = float32(plane.ClipLevel - 1e-4)
-	parallelRows(p.W, p.H, func(y0, y1 int) {
+	parallel.Rows(p.H, p.W, func(y0, y1 int) {
 		pix := p.Pix[y0*p.W : y1*p.W]
 		for i, v := range pix {
 			if v >= plane.ClipLevel {

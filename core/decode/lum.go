@@ -32,10 +32,6 @@ type converter struct {
 
 func newConverter(t Tone) *converter { return &converter{tone: t} }
 
-// parallelRows runs fn over row ranges [y0, y1) covering [0, h) of a
-// plane w pixels wide (parallel.Rows).
-func parallelRows(w, h int, fn func(y0, y1 int)) { parallel.Rows(h, w, fn) }
-
 // luminance builds the plane. It reads the pixel buffers of the image types
 // the standard decoders return directly; other types go through At.
 func (c *converter) luminance(img image.Image) *plane.Plane {
@@ -46,7 +42,7 @@ func (c *converter) luminance(img image.Image) *plane.Plane {
 	switch m := img.(type) {
 	case *image.Gray:
 		t := c.tone.lut8()
-		parallelRows(w, h, func(y0, y1 int) {
+		parallel.Rows(h, w, func(y0, y1 int) {
 			for y := y0; y < y1; y++ {
 				src, dst := m.Pix[y*m.Stride:y*m.Stride+w], p.Pix[y*w:(y+1)*w]
 				for x, v := range src {
@@ -56,7 +52,7 @@ func (c *converter) luminance(img image.Image) *plane.Plane {
 		})
 	case *image.Gray16:
 		t := c.tone.lut16()
-		parallelRows(w, h, func(y0, y1 int) {
+		parallel.Rows(h, w, func(y0, y1 int) {
 			for y := y0; y < y1; y++ {
 				src, dst := m.Pix[y*m.Stride:y*m.Stride+2*w], p.Pix[y*w:(y+1)*w]
 				for x := range dst {
@@ -67,7 +63,7 @@ func (c *converter) luminance(img image.Image) *plane.Plane {
 	case *image.NRGBA:
 		c.colour = true
 		t := c.tone.lut8()
-		parallelRows(w, h, func(y0, y1 int) {
+		parallel.Rows(h, w, func(y0, y1 int) {
 			opaque := true
 			for y := y0; y < y1; y++ {
 				src, dst := m.Pix[y*m.Stride:y*m.Stride+4*w], p.Pix[y*w:(y+1)*w]
@@ -84,7 +80,7 @@ func (c *converter) luminance(img image.Image) *plane.Plane {
 	case *image.RGBA:
 		c.colour = true
 		t := c.tone.lut8()
-		parallelRows(w, h, func(y0, y1 int) {
+		parallel.Rows(h, w, func(y0, y1 int) {
 			opaque := true
 			for y := y0; y < y1; y++ {
 				src, dst := m.Pix[y*m.Stride:y*m.Stride+4*w], p.Pix[y*w:(y+1)*w]
@@ -105,7 +101,7 @@ func (c *converter) luminance(img image.Image) *plane.Plane {
 	case *image.NRGBA64:
 		c.colour = true
 		t := c.tone.lut16()
-		parallelRows(w, h, func(y0, y1 int) {
+		parallel.Rows(h, w, func(y0, y1 int) {
 			opaque := true
 			for y := y0; y < y1; y++ {
 				src, dst := m.Pix[y*m.Stride:y*m.Stride+8*w], p.Pix[y*w:(y+1)*w]
@@ -122,7 +118,7 @@ func (c *converter) luminance(img image.Image) *plane.Plane {
 	case *image.RGBA64:
 		c.colour = true
 		t := c.tone.lut16()
-		parallelRows(w, h, func(y0, y1 int) {
+		parallel.Rows(h, w, func(y0, y1 int) {
 			opaque := true
 			for y := y0; y < y1; y++ {
 				src, dst := m.Pix[y*m.Stride:y*m.Stride+8*w], p.Pix[y*w:(y+1)*w]
@@ -143,7 +139,7 @@ func (c *converter) luminance(img image.Image) *plane.Plane {
 	case *jpegdec.YCbCr:
 		c.colour = true
 		t := c.tone.lut8()
-		parallelRows(w, h, func(y0, y1 int) {
+		parallel.Rows(h, w, func(y0, y1 int) {
 			var s jpegdec.Scratch
 			r, g, bb := make([]uint8, w), make([]uint8, w), make([]uint8, w)
 			for y := y0; y < y1; y++ {
@@ -162,7 +158,7 @@ func (c *converter) luminance(img image.Image) *plane.Plane {
 	case *image.CMYK:
 		c.colour = true
 		t := c.tone.lut8()
-		parallelRows(w, h, func(y0, y1 int) {
+		parallel.Rows(h, w, func(y0, y1 int) {
 			for y := y0; y < y1; y++ {
 				src, dst := m.Pix[y*m.Stride:y*m.Stride+4*w], p.Pix[y*w:(y+1)*w]
 				for x := range dst {
@@ -178,7 +174,7 @@ func (c *converter) luminance(img image.Image) *plane.Plane {
 		if c.alpha {
 			notOpaque.Store(true)
 		}
-		parallelRows(w, h, func(y0, y1 int) {
+		parallel.Rows(h, w, func(y0, y1 int) {
 			for y := y0; y < y1; y++ {
 				src, dst := m.Pix[y*m.Stride:y*m.Stride+w], p.Pix[y*w:(y+1)*w]
 				for x, v := range src {
@@ -303,7 +299,7 @@ func (c *converter) ycbcr(m *image.YCbCr, p *plane.Plane) bool {
 	t := c.tone.lut8()
 	b := m.Rect
 	w := b.Dx()
-	parallelRows(w, b.Dy(), func(y0, y1 int) {
+	parallel.Rows(b.Dy(), w, func(y0, y1 int) {
 		for j := y0; j < y1; j++ {
 			y := b.Min.Y + j
 			ys := m.Y[j*m.YStride : j*m.YStride+w]

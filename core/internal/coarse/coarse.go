@@ -24,7 +24,7 @@ func Shrink(p *plane.Plane, k int) *plane.Plane {
 	w, h := p.W/k, p.H/k
 	out := plane.New(w, h)
 	inv := 1 / float32(k*k)
-	rows(h, w*k*k, func(j0, j1 int) {
+	parallel.Rows(h, w*k*k, func(j0, j1 int) {
 		acc := make([]float32, w)
 		for j := j0; j < j1; j++ {
 			clear(acc)
@@ -60,11 +60,6 @@ func Shrink(p *plane.Plane, k int) *plane.Plane {
 	return out
 }
 
-// rows runs f over ranges [j0, j1) covering [0, h), each row reading
-// about size samples (parallel.Rows). Every output row is computed alone,
-// so the result does not depend on the split.
-func rows(h, size int, f func(j0, j1 int)) { parallel.Rows(h, size, f) }
-
 // Level returns, for every pixel of c, the level that separates dark from
 // light locally: the geometric mean of the 5th and 95th percentiles of each
 // tile x tile block whose 95th percentile is at least minRatio times its
@@ -79,7 +74,7 @@ func Level(c *plane.Plane, tile int, minRatio float64) *plane.Plane {
 	tw, th := (c.W+tile-1)/tile, (c.H+tile-1)/tile
 	level := make([]float64, tw*th)
 	known := make([]bool, tw*th)
-	rows(th, c.W*tile/2*8, func(ty0, ty1 int) { // a sort costs about 8 passes
+	parallel.Rows(th, c.W*tile/2*8, func(ty0, ty1 int) { // a sort costs about 8 passes
 		buf := make([]float32, 0, tile*tile)
 		for ty := ty0; ty < ty1; ty++ {
 			for tx := range tw {
@@ -127,7 +122,7 @@ func Level(c *plane.Plane, tile int, minRatio float64) *plane.Plane {
 		cx1[x] = min(cx0[x]+1, tw-1)
 		cax[x] = math.Min(math.Max(fx-float64(cx0[x]), 0), 1)
 	}
-	rows(c.H, 4*c.W, func(ya, yb int) {
+	parallel.Rows(c.H, 4*c.W, func(ya, yb int) {
 		for y := ya; y < yb; y++ {
 			fy := (float64(y)+0.5)/float64(tile) - 0.5
 			y0 := min(max(int(math.Floor(fy)), 0), th-1)
